@@ -1,0 +1,19 @@
+import type { Metadata } from 'next';
+import localFont from 'next/font/local';
+import './globals.css';
+
+const sans = localFont({ src: './fonts/inter-latin-wght.woff2', variable: '--font-sans', display: 'swap' });
+const mono = localFont({ src: './fonts/jetbrains-mono-latin-wght.woff2', variable: '--font-mono', display: 'swap' });
+
+export const metadata: Metadata = {
+  title: 'Cellwright',
+  description: 'A browser bench for wiring, running and proving the PLC–robot handshake of a robot cell.',
+};
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={`${sans.variable} ${mono.variable}`}>
+      <body className="min-h-screen font-sans">{children}</body>
+    </html>
+  );
+}

@@ -1,0 +1,46 @@
+import nextVitals from 'eslint-config-next/core-web-vitals';
+import nextTs from 'eslint-config-next/typescript';
+
+/**
+ * The engine boundary (shared/STYLE.md): simulator/ is a pure library. It may not
+ * import React, Next.js, the app's lib/ or db/, or any database driver.
+ */
+const engineBoundary = {
+  files: ['simulator/**/*.ts'],
+  rules: {
+    'no-restricted-imports': [
+      'error',
+      {
+        paths: [
+          { name: 'react', message: 'simulator/ is pure TypeScript: no React.' },
+          { name: 'react-dom', message: 'simulator/ is pure TypeScript: no React.' },
+          { name: 'knex', message: 'simulator/ never touches the database.' },
+          { name: 'pg', message: 'simulator/ never touches the database.' },
+          { name: 'server-only', message: 'simulator/ runs in the browser too.' },
+        ],
+        patterns: [
+          { group: ['react/*', 'react-dom/*'], message: 'simulator/ is pure TypeScript: no React.' },
+          { group: ['next', 'next/*', 'next-auth', 'next-auth/*'], message: 'simulator/ is pure TypeScript: no Next.js.' },
+          { group: ['@/lib', '@/lib/*', '@/db', '@/db/*', '@/app/*', '@/components/*'], message: 'simulator/ may not import the app.' },
+          { group: ['**/lib/*', '**/db/*', '**/app/*', '**/components/*'], message: 'simulator/ may not import the app.' },
+        ],
+      },
+    ],
+  },
+};
+
+const config = [
+  ...nextVitals,
+  ...nextTs,
+  engineBoundary,
+  {
+    rules: {
+      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+    },
+  },
+  {
+    ignores: ['node_modules/**', '.next/**', '.local/**', 'next-env.d.ts', 'test-results/**', 'playwright-report/**'],
+  },
+];
+
+export default config;
