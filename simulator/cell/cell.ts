@@ -1,0 +1,1420 @@
+/**
+ * A cell: panel, field devices, terminal strip, link, PLC and controller on one discrete
+ * clock of whole milliseconds. The PLC scans every `scanPeriodMs`, the controller refreshes
+ * its I/O every `ioRefreshMs`, a fieldbus exchanges every `updatePeriodMs`; the clock jumps
+ * from one due instant to the next (nothing else can change in between), so an hour of cell
+ * time costs only the work of its scans and refreshes.
+ *
+ * Order within one instant: timed fault cards → fieldbus exchange → PLC scan (read inputs,
+ * solve, write outputs) → controller refresh (read inputs, step, write outputs) → triggered
+ * fault cards → trace sample. Events from outside apply between instants, at the current time.
+ *
+ * Everything that varies is derived from the document, the event log and the seed, so a
+ * replay gives the same trace.
+ */
+import { createActor, type Actor } from 'xstate';
+import {
+  createProcessImage,
+  readAddress,
+  writeAddress,
+  setBit,
+  setWord,
+  parseAddress,
+  formatAddress,
+  type ProcessImage,
+} from '@/simulator/address';
+import type { CompiledSheet, PlcState } from '@/simulator/plc';
+import {
+  classifyDigitalInput,
+  contactClosed,
+  decodeWord,
+  encodeWord,
+  engineeringToSignal,
+  ne43Status,
+  signalToCounts,
+  SIGNAL_SPANS,
+  type InputReading,
+} from '@/simulator/electrical';
+import type { Problem, Result } from '@/simulator/shared/result';
+import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/cell-document';
+import { validateCellDocument, validateStagedRows, zodProblems } from '@/simulator/schema/validate';
+import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
+import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
+import { isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
+import { moveTime } from '@/simulator/controller/motion';
+import {
+  INPUT_FAMILIES,
+  parsePointRef,
+  resolvePointMap,
+  restartPointMap,
+  stagePointMap,
+  type PointMapState,
+  type ResolvedPoint,
+  type ResolvedPointMap,
+} from '@/simulator/controller/point-map';
+import { chatterOpen, faultCardSchema, type FaultCard } from '@/simulator/faults/fault-card';
+import { compilePredicate, type SignalValue } from '@/simulator/trace/predicate';
+import { createTraceRecorder, type TraceRecorder, type Trace } from '@/simulator/trace/trace';
+import { cellEventSchema, type CellEvent, type LoggedEvent } from './events';
+import type { CellSnapshot, DeviceSnapshot, WireSnapshot } from './snapshot';
+
+/** Options of {@link createCell}. */
+export type CellOptions = {
+  /** Fault cards armed from the start (a drill's hidden faults). */
+  faults?: unknown[];
+  /** Signals to record in the compact trace (see `signalNames` of the cell). */
+  trace?: string[];
+  /** Overrides the document's seed. */
+  seed?: number;
+};
+
+/** A running cell. Every method returns a typed result instead of throwing. */
+export type Cell = {
+  /** Current cell time in ms. */
+  readonly timeMs: number;
+  /** Advances the clock by `ms` whole milliseconds (0 ≤ ms ≤ 30 days). */
+  advance(ms: number): Result<{ timeMs: number }>;
+  /** Advances by one millisecond (the clock's fixed step). */
+  step(): Result<{ timeMs: number }>;
+  /** Applies an event now; a rejected event changes nothing. */
+  apply(event: unknown): Result<{ timeMs: number }>;
+  /** The full picture of the cell now. */
+  snapshot(): CellSnapshot;
+  /** Calls `listener` after every `advance`/`step`/`apply`; returns an unsubscribe function. */
+  subscribe(listener: (snapshot: CellSnapshot) => void): () => void;
+  /** The value of one named signal now, or an error for an unknown name. */
+  readSignal(name: string): Result<SignalValue>;
+  /** The names of every signal the cell exposes (for scope and rule pickers). */
+  signalNames(): string[];
+  /** The accepted events so far, with their times (replaying them reproduces the run). */
+  eventLog(): LoggedEvent[];
+  /** The compact trace of the signals chosen in the options. */
+  trace(): Trace;
+  /** Stops the controller actor and drops listeners; later calls are rejected. */
+  dispose(): void;
+};
+
+type DevState = {
+  dev: PanelDevice | FieldDevice;
+  pressed: boolean;
+  latched: boolean;
+  position: number;
+  value: number;
+  active: boolean;
+  cmd: boolean;
+  pos: number;
+  posAtMs: number;
+  lamps: boolean[];
+  display: number;
+};
+
+type Src =
+  | { k: 'contact'; closed: boolean }
+  | { k: 'sensor'; out: 'PNP' | 'NPN'; on: boolean }
+  | { k: 'drive'; on: boolean }
+  | { k: 'analog'; value: number; unit: 'V' | 'mA' }
+  | { k: 'word'; value: number };
+
+type RowFaults = { open: boolean; short24: boolean; short0: boolean; chatter: { index: number; periodMs: number; probability: number }[]; swapWith: number | null; ids: string[] };
+type DevFaults = { stuckOn: boolean; stuckOff: boolean; mismatch: boolean; slow: number; drift: { rate: number; since: number } | null; loss: boolean };
+type Reading = { level: number; unit: 'V' | 'mA' | 'word'; reading: InputReading; value: number; loop?: string };
+type CardState = { card: FaultCard; status: 'armed' | 'active'; since: number | null; when: ((read: (n: string) => SignalValue) => boolean) | null };
+
+const MAX_ADVANCE_MS = 30 * 86_400_000;
+const ACTUATOR_RAMP_MS = 200;
+const OFF: Src = { k: 'drive', on: false };
+const DRIVE_ON: Src = { k: 'drive', on: true };
+// Shared immutable results, so the hot path allocates nothing per read.
+const CLOSED: Src = { k: 'contact', closed: true };
+const OPEN: Src = { k: 'contact', closed: false };
+const SENSOR: Record<'PNP' | 'NPN', [Src, Src]> = {
+  PNP: [{ k: 'sensor', out: 'PNP', on: false }, { k: 'sensor', out: 'PNP', on: true }],
+  NPN: [{ k: 'sensor', out: 'NPN', on: false }, { k: 'sensor', out: 'NPN', on: true }],
+};
+function contact(closed: boolean): Src {
+  return closed ? CLOSED : OPEN;
+}
+const NO_WIRE_FAULT = { open: false, short24: false, short0: false };
+
+function err(code: string, message: string, path: (string | number)[] = []): { ok: false; errors: Problem[] } {
+  return { ok: false, errors: [{ path, code, message }] };
+}
+
+function same(closed: boolean): boolean {
+  return closed;
+}
+function alwaysClosed(): boolean {
+  return true;
+}
+function alwaysOpen(): boolean {
+  return false;
+}
+/** A stuck-on fault closes a device's contact (or lights its sensor) for good; stuck-off opens it. */
+function stuckWith(f: DevFaults): (closed: boolean) => boolean {
+  return f.stuckOn ? alwaysClosed : f.stuckOff ? alwaysOpen : same;
+}
+
+function nextMultiple(now: number, period: number): number {
+  return (Math.floor(now / period) + 1) * period;
+}
+
+function travelMs(d: PanelDevice | FieldDevice): number {
+  if (d.type === 'gripper') return d.travelMs;
+  if (d.type === 'conveyor') return ACTUATOR_RAMP_MS;
+  return 0;
+}
+
+/**
+ * Creates a cell from a document of unknown shape. An invalid document, or invalid options,
+ * yields every problem with its path and no cell.
+ */
+export function createCell(document: unknown, options: CellOptions = {}): Result<Cell, Problem> {
+  const v = validateCellDocument(document);
+  if (!v.ok) return v;
+  const { document: doc, sheet, plans } = v.value;
+  if (options.seed !== undefined && !(Number.isInteger(options.seed) && options.seed >= 0 && options.seed <= 0xffffffff)) {
+    return err('invalid_seed', 'the seed must be an integer 0..4294967295', ['options', 'seed']);
+  }
+  const rt = new CellRuntime(doc, sheet, plans, options.seed ?? doc.seed);
+  const problems: Problem[] = [];
+  (options.faults ?? []).forEach((f, i) => {
+    const r = rt.addFault(f);
+    if (!r.ok) problems.push(...r.errors.map((p) => ({ ...p, path: ['options', 'faults', i, ...p.path] })));
+  });
+  if (options.trace) {
+    const r = rt.setTrace(options.trace);
+    if (!r.ok) problems.push(...r.errors.map((p) => ({ ...p, path: ['options', 'trace', ...p.path] })));
+  }
+  if (problems.length > 0) {
+    rt.dispose();
+    return { ok: false, errors: problems };
+  }
+  rt.start();
+  return { ok: true, value: rt.api() };
+}
+
+class CellRuntime {
+  now = 0;
+  disposed = false;
+  readonly doc: CellDocument;
+  readonly sheet: CompiledSheet;
+  readonly plans: RowPlan[];
+  readonly seed: number;
+  readonly devs = new Map<string, DevState>();
+  /** Device state by device object (identity lookups on the hot path). */
+  readonly devOf = new Map<object, DevState>();
+  readonly image: ProcessImage = createProcessImage();
+  readonly plcState: PlcState;
+  readonly scanMs: number;
+  readonly refreshMs: number;
+  readonly busMs: number | null;
+  readonly actor: Actor<typeof controllerMachine>;
+  pointMap: PointMapState;
+  resolved!: ResolvedPointMap;
+  inPoints: ResolvedPoint[] = [];
+  outPoints: ResolvedPoint[] = [];
+  /** Channel arrays of `inPoints` / `outPoints` (null when no module sits at the point's rack/slot). */
+  inArrs: (Float64Array | null)[] = [];
+  outArrs: (Float64Array | null)[] = [];
+  /** Channel array of each controller module, by module object (no string keys on the hot path). */
+  readonly arrOf = new Map<object, Float64Array>();
+  /** Inputs and hardware causes of the last refresh sent to the controller, to skip identical idle refreshes. */
+  lastInputs: number[] = [];
+  lastHardware = '';
+  lastHardwareList: string[] = [];
+  pendingDt = 0;
+  readonly ctlIn = new Map<string, Float64Array>();
+  readonly ctlOut = new Map<string, Float64Array>();
+  readonly plcInRows: number[] = [];
+  readonly ctlInRows: number[] = [];
+  readonly loadRows: number[] = [];
+  readonly rowIndex = new Map<string, number>();
+  readonly prevReading: InputReading[];
+  /** Bytes of the I area that wiring or forces can set (cleared before each scan). */
+  inputBytes = 0;
+  rowFaults: (RowFaults | null)[] = [];
+  devFaults = new Map<string, DevFaults>();
+  deadModules = new Set<string>();
+  linkLoss = false;
+  cards: CardState[] = [];
+  forces = new Map<string, number>();
+  busSrc: Src[][];
+  lastBusMs: number | null = null;
+  logicalIn: Record<string, number> = {};
+  logicalOut: Record<string, number> = {};
+  log: LoggedEvent[] = [];
+  listeners = new Set<(s: CellSnapshot) => void>();
+  recorder: TraceRecorder | null = null;
+  readers = new Map<string, () => SignalValue>();
+
+  constructor(doc: CellDocument, sheet: CompiledSheet, plans: RowPlan[], seed: number) {
+    this.doc = doc;
+    this.sheet = sheet;
+    this.plans = plans;
+    this.seed = seed;
+    this.plcState = sheet.createState();
+    this.scanMs = sheet.scanPeriodMs;
+    this.refreshMs = doc.controller.ioRefreshMs;
+    this.busMs = doc.link.kind === 'fieldbus' ? doc.link.updatePeriodMs : null;
+    this.pointMap = { live: doc.controller.pointMap, staged: doc.controller.staged };
+    for (const m of doc.controller.modules) {
+      const isIn = m.type === 'digital-in' || m.type === 'analog-in' || m.type === 'tool-in';
+      const arr = new Float64Array(m.channels);
+      (isIn ? this.ctlIn : this.ctlOut).set(`${m.rack}.${m.slot}`, arr);
+      this.arrOf.set(m, arr);
+    }
+    this.setResolved(resolvePointMap(this.pointMap.live));
+    const init = doc.initial.devices ?? {};
+    for (const d of [...doc.panel, ...doc.field]) {
+      const i = init[d.id] ?? {};
+      const active = d.type === 'guard-switch' ? (i.guardClosed ?? i.active ?? true) : d.type === 'part-sensor' ? (i.partPresent ?? i.active ?? false) : (i.active ?? false);
+      const value = d.type === 'potentiometer' ? Math.min(d.max, Math.max(d.min, i.value ?? d.min)) : (i.value ?? 0);
+      const lamps = d.type === 'stack-light' ? d.tiers.map(() => false) : [false];
+      const st: DevState = { dev: d, pressed: i.pressed ?? false, latched: i.latched ?? false, position: i.position ?? 0, value, active, cmd: false, pos: 0, posAtMs: 0, lamps, display: 0 };
+      this.devs.set(d.id, st);
+      this.devOf.set(d, st);
+    }
+    plans.forEach((p, i) => {
+      this.rowIndex.set(p.row.id, i);
+      if (p.sink.kind === 'device') this.loadRows.push(i);
+      else if (p.sink.kind === 'controller') this.ctlInRows.push(i);
+      else this.plcInRows.push(i);
+    });
+    this.prevReading = plans.map(() => 'off' as InputReading);
+    for (const m of doc.plc.modules) {
+      if (m.kind === 'digital-out') continue;
+      const last = m.kind === 'analog-in' ? m.address + m.channels * 2 : m.address + Math.ceil(m.channels / 8);
+      this.inputBytes = Math.max(this.inputBytes, last);
+    }
+    this.rowFaults = plans.map(() => null);
+    this.busSrc = plans.map((p) => Array.from({ length: p.bits }, () => OFF));
+    this.actor = createActor(controllerMachine, { input: { config: doc.controller } });
+  }
+
+  start(): void {
+    this.actor.start();
+    if (this.doc.initial.controllerPowered) this.actor.send({ type: 'POWER_ON' });
+    this.updateLoads();
+    this.writeControllerOutputs();
+    this.sample();
+  }
+
+  setResolved(map: ResolvedPointMap): void {
+    this.resolved = map;
+    this.inPoints = [...map.byRef.values()].filter((p) => INPUT_FAMILIES.has(p.family));
+    this.outPoints = [...map.byRef.values()].filter((p) => !INPUT_FAMILIES.has(p.family));
+    this.inArrs = this.inPoints.map((p) => this.ctlIn.get(`${p.rack}.${p.slot}`) ?? null);
+    this.outArrs = this.outPoints.map((p) => this.ctlOut.get(`${p.rack}.${p.slot}`) ?? null);
+    this.lastInputs = [];
+  }
+
+  // ---------------------------------------------------------------- devices
+
+  /** Travel time (ms, full stroke) of an actuator now, including a slow-actuator fault. */
+  strokeMs(d: DevState): number {
+    const base = d.dev.type === 'vacuum-cup' ? (d.cmd ? d.dev.buildMs : d.dev.releaseMs) : travelMs(d.dev);
+    return base * (this.devFaults.get(d.dev.id)?.slow ?? 1);
+  }
+
+  /**
+   * An actuator's travel (0..1) at time `t`: a pure function of where it was when last
+   * rebased (command change, fault change) — never of when it was read, so reading a
+   * snapshot cannot change a run.
+   */
+  posAt(d: DevState, t: number): number {
+    const target = d.cmd ? 1 : 0;
+    const T = this.strokeMs(d);
+    if (T <= 0) return target;
+    const moved = (t - d.posAtMs) / T;
+    return d.pos < target ? Math.min(target, d.pos + moved) : Math.max(target, d.pos - moved);
+  }
+
+  /** Fixes the actuator's travel at the current time as the new starting point. */
+  rebase(d: DevState): void {
+    d.pos = this.posAt(d, this.now);
+    d.posAtMs = this.now;
+  }
+
+  /** When the actuator will reach its end, or null when it is at rest. */
+  arrival(d: DevState): number | null {
+    const target = d.cmd ? 1 : 0;
+    if (d.pos === target) return null;
+    const T = this.strokeMs(d);
+    const end = d.posAtMs + Math.max(1, Math.ceil(Math.abs(target - d.pos) * T - 1e-9));
+    return end > this.now ? end : null;
+  }
+
+  setCommand(d: DevState, on: boolean): void {
+    if (d.cmd === on) return;
+    this.rebase(d);
+    d.cmd = on;
+  }
+
+  detecting(d: DevState): boolean {
+    const f = this.devFaults.get(d.dev.id);
+    if (f?.stuckOn) return true;
+    if (f?.stuckOff) return false;
+    return d.dev.type === 'photo-eye' && d.dev.mode === 'light-on' ? !d.active : d.active;
+  }
+
+  deviceSource(d: DevState, terminal: string): Src {
+    const dev = d.dev;
+    const f = this.devFaults.size > 0 ? this.devFaults.get(dev.id) : undefined;
+    const stuck = f ? stuckWith(f) : same;
+    switch (dev.type) {
+      case 'push-button':
+      case 'illuminated-button':
+        return contact(stuck(contactClosed(dev.contact, dev.action === 'momentary' ? d.pressed : d.latched)));
+      case 'selector-switch':
+        return contact(stuck(terminal === `pos${d.position}`));
+      case 'e-stop':
+        return contact(stuck(contactClosed('NC', d.latched)));
+      case 'guard-switch':
+        return contact(stuck(contactClosed(dev.contact, !d.active)));
+      case 'proximity-sensor':
+      case 'photo-eye':
+      case 'part-sensor': {
+        const out = f?.mismatch ? (dev.output === 'PNP' ? 'NPN' : 'PNP') : dev.output;
+        return SENSOR[out][this.detecting(d) ? 1 : 0];
+      }
+      case 'gripper': {
+        const pos = this.posAt(d, this.now);
+        return contact(terminal === 'closed' ? stuck(pos >= 1) : pos <= 0);
+      }
+      case 'vacuum-cup': {
+        const pos = this.posAt(d, this.now);
+        return contact(stuck(d.cmd ? pos >= 1 : pos > 0));
+      }
+      case 'conveyor':
+        return contact(stuck(this.posAt(d, this.now) >= 1));
+      case 'potentiometer': {
+        const unit = SIGNAL_SPANS[dev.signal].unit;
+        if (f?.loss) return { k: 'analog', value: 0, unit };
+        let value = engineeringToSignal(d.value, dev.signal, dev.min, dev.max);
+        if (f?.drift) value += (f.drift.rate * (this.now - f.drift.since)) / 1000;
+        return { k: 'analog', value, unit };
+      }
+      default:
+        return OFF;
+    }
+  }
+
+  // ---------------------------------------------------------------- wiring
+
+  moduleDead(id: string): boolean {
+    return this.deadModules.size > 0 && this.deadModules.has(id);
+  }
+
+  linkHealthy(): boolean {
+    if (this.busMs === null) return !this.linkLoss;
+    if (!this.linkLoss) return true;
+    const w = this.doc.link.kind === 'fieldbus' ? this.doc.link.watchdogMs : 0;
+    return this.lastBusMs !== null && this.now - this.lastBusMs < w;
+  }
+
+  /** The signal a source puts on a row, bit `bit` for word rows. */
+  sourceNow(s: RowSource, bit: number, bits: number): Src {
+    switch (s.kind) {
+      case 'device':
+        return this.deviceSource(this.devOf.get(s.device)!, s.terminal);
+      case 'plc-bit':
+        return ((this.image.Q[s.address.byte] >> (s.address.bit ?? 0)) & 1) === 1 && !this.moduleDead(s.module.id) ? DRIVE_ON : OFF;
+      case 'plc-word': {
+        if (this.moduleDead(s.module.id)) return { k: 'word', value: 0 };
+        const w = readAddress(this.image, s.address);
+        return { k: 'word', value: bits >= 32 ? w : w % 2 ** bits };
+      }
+      case 'controller': {
+        const m = s.module;
+        const v = this.moduleDead(m.id) ? 0 : (this.arrOf.get(m)?.[s.channel + bit] ?? 0);
+        if (m.type === 'analog-out') return { k: 'analog', value: v, unit: m.signal ? SIGNAL_SPANS[m.signal].unit : 'V' };
+        return v !== 0 ? DRIVE_ON : OFF;
+      }
+    }
+  }
+
+  /** Source of row `i` (through a swapped-wires fault), bit `bit`. */
+  rowSource(i: number, bit: number): Src {
+    const f = this.rowFaults[i];
+    const j = f?.swapWith ?? i;
+    const p = this.plans[j];
+    if (p.isLink) {
+      if (!this.linkHealthy()) return p.source.kind === 'plc-word' ? { k: 'word', value: 0 } : OFF;
+      if (this.busMs !== null) return this.busSrc[j][Math.min(bit, this.busSrc[j].length - 1)];
+    }
+    if (p.bits > 1 && p.source.kind === 'controller') return this.sourceNow(p.source, bit, p.bits);
+    return this.sourceNow(p.source, 0, p.bits);
+  }
+
+  wireState(i: number): { open: boolean; short24: boolean; short0: boolean } {
+    const f = this.rowFaults[i];
+    if (f === null && !this.linkLoss) return NO_WIRE_FAULT;
+    let open = f?.open ?? false;
+    if (f && f.chatter.length > 0) {
+      for (const c of f.chatter) if (chatterOpen(this.seed, c.index, c.periodMs, c.probability, this.now)) open = true;
+    }
+    if (this.linkLoss && this.busMs === null && this.plans[i].isLink) open = true;
+    return { open, short24: f?.short24 ?? false, short0: f?.short0 ?? false };
+  }
+
+  /**
+   * The value row `i` delivers (0/1 for digital rows): a fast path for fault-free digital rows,
+   * where the input sees either the full supply or nothing (ON or OFF for every input type).
+   */
+  readValue(i: number): number {
+    const p = this.plans[i];
+    if (p.bits === 1 && this.rowFaults[i] === null && !this.linkLoss) {
+      const sink = p.sink;
+      if (sink.kind === 'device' && sink.terminalKind === 'load') {
+        const src = this.rowSource(i, 0);
+        return src.k === 'drive' && src.on ? 1 : 0;
+      }
+      const digital = sink.kind === 'plc-bit' || (sink.kind === 'controller' && sink.module.type !== 'analog-in');
+      if (digital) {
+        const src = this.rowSource(i, 0);
+        const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;
+        const on = src.k === 'contact' ? src.closed : src.k === 'drive' ? src.on && sinking : src.k === 'sensor' ? src.on && (src.out === 'PNP') === sinking : false;
+        this.prevReading[i] = on ? 'on' : 'off';
+        return on ? 1 : 0;
+      }
+    }
+    return this.readRow(i, true).value;
+  }
+
+  /**
+   * What the destination of row `i` sees now. Only the scan and the refresh `commit` a
+   * reading as the input's last state (used inside the transition band); snapshots and
+   * signal reads leave the cell untouched.
+   */
+  readRow(i: number, commit = false): Reading {
+    const p = this.plans[i];
+    const sink = p.sink;
+    const w = this.wireState(i);
+    if (sink.kind === 'plc-analog' || (sink.kind === 'controller' && sink.module.type === 'analog-in')) {
+      const src = this.rowSource(i, 0);
+      const range = sink.kind === 'plc-analog' ? sink.module.signal : (sink.module.signal ?? '0-10V');
+      const unit = SIGNAL_SPANS[range].unit;
+      let value = src.k === 'analog' ? src.value : 0;
+      if (w.open || w.short0) value = 0;
+      else if (w.short24) value = unit === 'V' ? 24 : 22; // a loop shorted to the supply drives the current past NE 43's failure level
+      return { level: value, unit, reading: 'off', value, loop: unit === 'mA' ? ne43Status(value) : undefined };
+    }
+    if (p.bits > 1 || sink.kind === 'plc-word-bits' || (sink.kind === 'device' && sink.terminalKind === 'word')) {
+      let word = 0;
+      if (!w.open && !w.short0) {
+        if (p.source.kind === 'controller') {
+          for (let b = 0; b < p.bits; b++) {
+            const s = this.rowSource(i, b);
+            if (s.k === 'drive' && s.on) word |= 1 << b;
+          }
+        } else {
+          const s = this.rowSource(i, 0);
+          word = s.k === 'word' ? s.value : 0;
+        }
+        if (w.short24) word = 2 ** p.bits - 1;
+      }
+      return { level: word, unit: 'word', reading: word !== 0 ? 'on' : 'off', value: word };
+    }
+    const src = this.rowSource(i, 0);
+    if (sink.kind === 'device') {
+      const on = w.short24 || (!w.open && !w.short0 && src.k === 'drive' && src.on);
+      return { level: on ? 24 : 0, unit: 'V', reading: on ? 'on' : 'off', value: on ? 1 : 0 };
+    }
+    const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;
+    const inputType = sink.kind === 'plc-bit' ? sink.module.inputType : 1;
+    let volts: number;
+    if (w.short24) volts = sinking ? 24 : 0;
+    else if (w.short0) volts = sinking ? 0 : 24;
+    else if (w.open) volts = 0;
+    else if (src.k === 'contact') volts = src.closed ? 24 : 0;
+    else if (src.k === 'drive') volts = src.on && sinking ? 24 : 0;
+    else if (src.k === 'sensor') volts = src.on && (src.out === 'PNP') === sinking ? 24 : 0;
+    else volts = 0;
+    let reading = classifyDigitalInput(volts, inputType);
+    // In the transition band an input keeps its last state (what a real input most often does).
+    const value = reading === 'on' ? 1 : reading === 'off' ? 0 : this.prevReading[i] === 'on' ? 1 : 0;
+    if (reading !== 'undefined' && commit) this.prevReading[i] = reading;
+    else reading = 'undefined';
+    return { level: volts, unit: 'V', reading, value };
+  }
+
+  sinkModuleDead(sink: RowSink): boolean {
+    if (sink.kind === 'device') return false;
+    return this.moduleDead(sink.module.id);
+  }
+
+  // ---------------------------------------------------------------- PLC
+
+  scanPlc(): void {
+    // Every input bit is rewritten from the wiring each scan; unwired bits read 0.
+    this.image.I.fill(0, 0, this.inputBytes);
+    for (const i of this.plcInRows) {
+      const p = this.plans[i];
+      const sink = p.sink;
+      if (this.sinkModuleDead(sink)) continue;
+      if (sink.kind === 'plc-bit') {
+        if (this.readValue(i) !== 0) setBit(this.image, 'I', sink.address.byte, sink.address.bit ?? 0, true);
+        continue;
+      }
+      const r = this.readRow(i, true);
+      if (sink.kind === 'plc-word-bits') {
+        for (let b = 0; b < p.bits; b++) {
+          const ch = sink.module.address * 8 + sink.channel + b;
+          setBit(this.image, 'I', ch >> 3, ch & 7, ((r.value >> b) & 1) === 1);
+        }
+      } else if (sink.kind === 'plc-analog') {
+        const counts = signalToCounts(r.value, { range: sink.module.signal, bits: sink.module.resolutionBits });
+        setWord(this.image, 'I', sink.address.byte, counts & 0xffff);
+      }
+    }
+    this.applyPlcForces('I');
+    this.sheet.scan(this.plcState, this.image, this.scanMs);
+    this.applyPlcForces('Q');
+    this.applyPlcForces('M');
+    this.updateLoads();
+  }
+
+  applyPlcForces(area: 'I' | 'Q' | 'M'): void {
+    if (this.forces.size === 0) return;
+    for (const [t, v] of this.forces) if (t.startsWith(`%${area}`)) writeAddress(this.image, t, v);
+  }
+
+  updateLoads(): void {
+    for (const i of this.loadRows) {
+      const sink = this.plans[i].sink;
+      if (sink.kind !== 'device') continue;
+      const d = this.devs.get(sink.device.id)!;
+      const dev = d.dev;
+      const value = this.readValue(i);
+      if (dev.type === 'numeric-display') {
+        const dec = decodeWord(value & 0xffff, dev.encoding, 16);
+        d.display = dec.ok ? dec.value : -1; // a word that is not valid in the display's encoding (e.g. a BCD nibble above 9)
+      } else if (dev.type === 'stack-light') {
+        d.lamps[Number(sink.terminal.slice(4))] = value !== 0;
+      } else if (dev.type === 'pilot-light' || dev.type === 'illuminated-button') {
+        d.lamps[0] = value !== 0;
+      } else this.setCommand(d, value !== 0);
+    }
+  }
+
+  // ---------------------------------------------------------------- controller
+
+  refreshController(): void {
+    for (const a of this.ctlIn.values()) a.fill(0);
+    for (const i of this.ctlInRows) {
+      const p = this.plans[i];
+      const sink = p.sink;
+      if (sink.kind !== 'controller' || this.sinkModuleDead(sink)) continue;
+      const arr = this.arrOf.get(sink.module)!;
+      const v = this.readValue(i);
+      if (p.bits > 1) for (let b = 0; b < p.bits; b++) arr[sink.channel + b] = (v >> b) & 1;
+      else arr[sink.channel] = v;
+    }
+    const pts = this.inPoints;
+    const values = new Array<number>(pts.length);
+    for (let k = 0; k < pts.length; k++) {
+      const pt = pts[k];
+      const arr = this.inArrs[k];
+      let v = 0;
+      if (!arr) v = 0;
+      else if (pt.family === 'WI') {
+        let raw = 0;
+        for (let b = 0; b < pt.bits; b++) if (arr[pt.channel + b] !== 0) raw |= 1 << b;
+        const dec = decodeWord(raw, pt.encoding, pt.bits);
+        v = dec.ok ? dec.value : -1;
+      } else if (pt.family === 'AI') v = arr[pt.channel];
+      else v = (arr[pt.channel] !== 0) !== pt.invert ? 1 : 0;
+      if (this.forces.size > 0) {
+        const f = this.forces.get(pt.ref);
+        if (f !== undefined) v = f;
+      }
+      values[k] = v;
+    }
+    const hardware = this.hardwareCauses();
+    const hwKey = hardware.length === 0 ? '' : hardware.join('\n');
+    if (this.canCoast(values, hwKey)) {
+      // Nothing the controller reads has changed and the refresh would only let time pass
+      // (idle, or mid-move with the move not ending yet): the time is handed over with the
+      // next refresh that matters. Exact, because motion is a closed-form function of time.
+      this.pendingDt += this.refreshMs;
+      return;
+    }
+    const inputs: Record<string, number> = {};
+    for (let k = 0; k < pts.length; k++) inputs[pts[k].ref] = values[k];
+    for (const [t, v] of this.forces) {
+      if (t.startsWith('%') || inputs[t] !== undefined) continue;
+      const p = parsePointRef(t);
+      if (p && INPUT_FAMILIES.has(p.family)) inputs[t] = v;
+    }
+    this.logicalIn = inputs;
+    this.lastInputs = values;
+    this.lastHardware = hwKey;
+    this.lastHardwareList = hardware;
+    const dt = this.refreshMs + this.pendingDt;
+    this.pendingDt = 0;
+    this.actor.send({ type: 'TICK', dt, inputs, hardware });
+    this.writeControllerOutputs();
+  }
+
+  /** Hands time held back by {@link canCoast} to the controller before anything else reaches it. */
+  syncController(): void {
+    if (this.pendingDt === 0) return;
+    const dt = this.pendingDt;
+    this.pendingDt = 0;
+    this.actor.send({ type: 'TICK', dt, inputs: this.logicalIn, hardware: this.lastHardwareList });
+  }
+
+  canCoast(values: number[], hwKey: string): boolean {
+    if (hwKey !== this.lastHardware || values.length !== this.lastInputs.length) return false;
+    for (let k = 0; k < values.length; k++) if (values[k] !== this.lastInputs[k]) return false;
+    const snap = this.actor.getSnapshot();
+    const ctx = snap.context;
+    if (ctx.pulses.length > 0 || ctx.timeMs < ctx.cycleDoneUntilMs) return false;
+    const v = snap.value;
+    if (v === 'cycling') {
+      const m = ctx.motion;
+      if (!m || m.kind !== 'move') return false;
+      const step = ctx.config.routine[ctx.pc];
+      if (!step || step.kind !== 'move' || step.pose !== m.poseId) return false;
+      return m.elapsedMs + this.pendingDt + this.refreshMs < moveTime(m.length, m.vmax, m.amax) * 1000;
+    }
+    if (ctx.motion !== null) return false;
+    return v === 'ready' || v === 'stopped' || v === 'faulted' || v === 'off' || (typeof v === 'object' && (v as Record<string, string>).eStopped === 'halted');
+  }
+
+  /** Arm pose and speed now, including time held back while coasting through a move. */
+  armNow(): { pose: number[]; speed: number; moving: boolean } {
+    const ctx = this.ctx();
+    if (this.pendingDt > 0 && ctx.motion) {
+      const s = samplePath(ctx.motion, ctx.motion.elapsedMs + this.pendingDt);
+      return { pose: s.pose, speed: s.speed, moving: true };
+    }
+    return { pose: ctx.pose, speed: ctx.speed, moving: ctx.motion !== null };
+  }
+
+  hardwareCauses(): string[] {
+    const causes: string[] = [];
+    for (const m of this.doc.controller.modules) if (this.moduleDead(m.id)) causes.push(`module "${m.id}" (rack ${m.rack} slot ${m.slot}) failed`);
+    if (this.busMs !== null && !this.linkHealthy()) causes.push('fieldbus link lost');
+    return causes;
+  }
+
+  ctx(): ControllerContext {
+    return this.actor.getSnapshot().context;
+  }
+
+  stateName(): { state: ControllerStateName; detail: string | null } {
+    const v = this.actor.getSnapshot().value as string | Record<string, string>;
+    if (typeof v === 'string') return { state: v as ControllerStateName, detail: null };
+    const k = Object.keys(v)[0] as ControllerStateName;
+    return { state: k, detail: v[k] ?? null };
+  }
+
+  handshakeOutputs(): Record<string, boolean> {
+    const ctx = this.ctx();
+    const { state } = this.stateName();
+    const powered = state !== 'off' && state !== 'booting';
+    return {
+      ready: state === 'ready',
+      atHome: powered && isAtPose(ctx, ctx.config.homePose),
+      cycling: state === 'cycling' || state === 'holding',
+      atPosition: powered && isAtPose(ctx, ctx.lastTarget),
+      partHeld: powered && roleOn(ctx, 'partHeld', false),
+      cycleDone: powered && ctx.timeMs < ctx.cycleDoneUntilMs,
+      fault: state === 'faulted',
+    };
+  }
+
+  writeControllerOutputs(): void {
+    const ctx = this.ctx();
+    const { state } = this.stateName();
+    const out: Record<string, number> = {};
+    if (state !== 'off') {
+      for (const k in ctx.outputs) out[k] = ctx.outputs[k];
+      const hs = this.handshakeOutputs();
+      const roles = ctx.config.handshake.outputs as Record<string, string | undefined>;
+      for (const role in roles) {
+        const ref = roles[role];
+        if (ref) out[ref] = hs[role] ? 1 : 0;
+      }
+    }
+    for (const [t, v] of this.forces) if (!t.startsWith('%')) {
+      const p = parsePointRef(t);
+      if (p && !INPUT_FAMILIES.has(p.family)) out[t] = v;
+    }
+    this.logicalOut = out;
+    for (const a of this.ctlOut.values()) a.fill(0);
+    for (let k = 0; k < this.outPoints.length; k++) {
+      const pt = this.outPoints[k];
+      const arr = this.outArrs[k];
+      if (!arr) continue;
+      const v = out[pt.ref] ?? 0;
+      if (pt.family === 'WO') {
+        const enc = encodeWord(Math.max(0, Math.trunc(v)), ctx.wordEncodings[pt.ref] ?? pt.encoding, pt.bits);
+        const raw = enc.ok ? enc.value : 0;
+        for (let b = 0; b < pt.bits; b++) arr[pt.channel + b] = (raw >> b) & 1;
+      } else if (pt.family === 'AO') arr[pt.channel] = v;
+      else arr[pt.channel] = (v !== 0) !== pt.invert ? 1 : 0;
+    }
+    this.updateLoads();
+  }
+
+  // ---------------------------------------------------------------- fieldbus
+
+  exchangeBus(): void {
+    if (this.linkLoss) return;
+    for (let i = 0; i < this.plans.length; i++) {
+      const p = this.plans[i];
+      if (!p.isLink) continue;
+      const arr = this.busSrc[i];
+      for (let b = 0; b < arr.length; b++) arr[b] = p.source.kind === 'controller' ? this.sourceNow(p.source, b, p.bits) : this.sourceNow(p.source, 0, p.bits);
+    }
+    this.lastBusMs = this.now;
+  }
+
+  // ---------------------------------------------------------------- faults
+
+  addFault(input: unknown): Result<{ timeMs: number }> {
+    const parsed = faultCardSchema.safeParse(input);
+    if (!parsed.success) return { ok: false, errors: zodProblems(parsed.error.issues) };
+    const card = parsed.data;
+    const problems: Problem[] = [];
+    if (this.cards.some((c) => c.card.id === card.id)) problems.push({ path: ['id'], code: 'duplicate_id', message: `fault card "${card.id}" already exists` });
+    const device = (id: string, types: string[] | null, path: string[]) => {
+      const d = this.devs.get(id);
+      if (!d) problems.push({ path, code: 'unknown_device', message: `no device "${id}"` });
+      else if (types && !types.includes(d.dev.type)) problems.push({ path, code: 'wrong_device_type', message: `a ${card.kind} fault needs a ${types.join(' or ')}, "${id}" is a ${d.dev.type}` });
+    };
+    const row = (id: string, path: (string | number)[]) => {
+      if (!this.rowIndex.has(id)) problems.push({ path, code: 'unknown_row', message: `no wiring row "${id}"` });
+    };
+    const SENSORS = ['proximity-sensor', 'photo-eye', 'part-sensor'];
+    switch (card.kind) {
+      case 'stuck-on':
+      case 'stuck-off':
+        device(card.device, ['push-button', 'illuminated-button', 'selector-switch', 'e-stop', 'guard-switch', 'gripper', 'vacuum-cup', 'conveyor', ...SENSORS], ['device']);
+        break;
+      case 'open-wire':
+      case 'short-24v':
+      case 'short-0v':
+      case 'chatter':
+        row(card.row, ['row']);
+        break;
+      case 'swapped-wires':
+        row(card.rows[0], ['rows', 0]);
+        row(card.rows[1], ['rows', 1]);
+        if (card.rows[0] === card.rows[1]) problems.push({ path: ['rows'], code: 'same_row', message: 'swapped wires need two different rows' });
+        else if (problems.length === 0) {
+          const a = this.plans[this.rowIndex.get(card.rows[0])!];
+          const b = this.plans[this.rowIndex.get(card.rows[1])!];
+          if (a.bits !== b.bits || a.sink.kind !== b.sink.kind || a.isLink !== b.isLink) problems.push({ path: ['rows'], code: 'incompatible_rows', message: 'only rows of the same kind can be swapped' });
+        }
+        break;
+      case 'dead-module':
+        if (!this.doc.plc.modules.some((m) => m.id === card.module) && !this.doc.controller.modules.some((m) => m.id === card.module)) {
+          problems.push({ path: ['module'], code: 'unknown_module', message: `no PLC or controller module "${card.module}"` });
+        }
+        break;
+      case 'link-loss':
+        break;
+      case 'slow-actuator':
+        device(card.device, ['gripper', 'vacuum-cup', 'conveyor'], ['device']);
+        break;
+      case 'analog-drift':
+      case 'analog-loss':
+        device(card.device, ['potentiometer'], ['device']);
+        break;
+      case 'sensor-type-mismatch':
+        device(card.device, SENSORS, ['device']);
+        break;
+    }
+    let when: CardState['when'] = null;
+    if (card.when) {
+      const c = compilePredicate(card.when, (n) => this.reader(n) !== null);
+      if (!c.ok) problems.push(...c.errors.map((p) => ({ ...p, path: ['when', ...p.path] })));
+      else when = c.value;
+    }
+    if (problems.length > 0) return { ok: false, errors: problems };
+    const st: CardState = { card, status: 'armed', since: null, when };
+    this.cards.push(st);
+    if (card.at === undefined && !card.when) this.activate(st);
+    else if (card.at !== undefined && card.at <= this.now) this.activate(st);
+    return { ok: true, value: { timeMs: this.now } };
+  }
+
+  activate(c: CardState): void {
+    for (const d of this.devs.values()) this.rebase(d);
+    c.status = 'active';
+    c.since = this.now;
+    this.rebuildFaults();
+  }
+
+  clearFault(id: string): Result<{ timeMs: number }> {
+    const i = this.cards.findIndex((c) => c.card.id === id);
+    if (i < 0) return err('unknown_fault', `no fault card "${id}"`, ['id']);
+    for (const d of this.devs.values()) this.rebase(d);
+    this.cards.splice(i, 1);
+    this.rebuildFaults();
+    return { ok: true, value: { timeMs: this.now } };
+  }
+
+  rebuildFaults(): void {
+    this.rowFaults = this.plans.map(() => null);
+    this.devFaults = new Map();
+    this.deadModules = new Set();
+    const wasLoss = this.linkLoss;
+    this.linkLoss = false;
+    const rf = (id: string): RowFaults => {
+      const i = this.rowIndex.get(id)!;
+      return (this.rowFaults[i] ??= { open: false, short24: false, short0: false, chatter: [], swapWith: null, ids: [] });
+    };
+    const df = (id: string): DevFaults => {
+      let f = this.devFaults.get(id);
+      if (!f) this.devFaults.set(id, (f = { stuckOn: false, stuckOff: false, mismatch: false, slow: 1, drift: null, loss: false }));
+      return f;
+    };
+    this.cards.forEach((st, index) => {
+      if (st.status !== 'active') return;
+      const c = st.card;
+      switch (c.kind) {
+        case 'stuck-on':
+          df(c.device).stuckOn = true;
+          break;
+        case 'stuck-off':
+          df(c.device).stuckOff = true;
+          break;
+        case 'open-wire':
+          rf(c.row).open = true;
+          rf(c.row).ids.push(c.id);
+          break;
+        case 'short-24v':
+          rf(c.row).short24 = true;
+          rf(c.row).ids.push(c.id);
+          break;
+        case 'short-0v':
+          rf(c.row).short0 = true;
+          rf(c.row).ids.push(c.id);
+          break;
+        case 'chatter':
+          rf(c.row).chatter.push({ index, periodMs: c.periodMs, probability: c.probability });
+          rf(c.row).ids.push(c.id);
+          break;
+        case 'swapped-wires':
+          rf(c.rows[0]).swapWith = this.rowIndex.get(c.rows[1])!;
+          rf(c.rows[1]).swapWith = this.rowIndex.get(c.rows[0])!;
+          rf(c.rows[0]).ids.push(c.id);
+          rf(c.rows[1]).ids.push(c.id);
+          break;
+        case 'dead-module':
+          this.deadModules.add(c.module);
+          break;
+        case 'link-loss':
+          this.linkLoss = true;
+          break;
+        case 'slow-actuator':
+          df(c.device).slow = Math.max(df(c.device).slow, c.factor);
+          break;
+        case 'analog-drift':
+          df(c.device).drift = { rate: c.ratePerS, since: st.since ?? this.now };
+          break;
+        case 'analog-loss':
+          df(c.device).loss = true;
+          break;
+        case 'sensor-type-mismatch':
+          df(c.device).mismatch = true;
+          break;
+      }
+    });
+    // A restored fieldbus link resynchronises at its next exchange, not from stale data.
+    if (wasLoss && !this.linkLoss && this.busMs !== null) this.lastBusMs = null;
+  }
+
+  checkTimedFaults(): void {
+    // A card with both `at` and `when` is armed from `at` and fires in checkTriggeredFaults.
+    for (const c of this.cards) if (c.status === 'armed' && c.card.at !== undefined && c.card.at <= this.now && !c.when) this.activate(c);
+  }
+
+  checkTriggeredFaults(): void {
+    for (const c of this.cards) {
+      if (c.status !== 'armed' || !c.when) continue;
+      if (c.card.at !== undefined && c.card.at > this.now) continue;
+      if (c.when((n) => this.readSignalValue(n))) this.activate(c);
+    }
+  }
+
+  // ---------------------------------------------------------------- clock
+
+  nextInstant(limit: number): number {
+    const n = this.now;
+    let next = limit;
+    next = Math.min(next, nextMultiple(n, this.scanMs), nextMultiple(n, this.refreshMs));
+    if (this.busMs !== null) next = Math.min(next, nextMultiple(n, this.busMs));
+    for (const c of this.cards) if (c.status === 'armed' && c.card.at !== undefined && c.card.at > n) next = Math.min(next, c.card.at);
+    for (const d of this.devs.values()) {
+      const a = this.arrival(d);
+      if (a !== null && a > n) next = Math.min(next, a);
+    }
+    return next;
+  }
+
+  runInstant(t: number): void {
+    this.now = t;
+    this.checkTimedFaults();
+    if (this.busMs !== null && t % this.busMs === 0) this.exchangeBus();
+    if (t % this.scanMs === 0) this.scanPlc();
+    if (t % this.refreshMs === 0) this.refreshController();
+    this.checkTriggeredFaults();
+    this.sample();
+  }
+
+  advance(ms: unknown): Result<{ timeMs: number }> {
+    if (this.disposed) return err('disposed', 'the cell has been disposed');
+    if (typeof ms !== 'number' || !Number.isInteger(ms)) return err('invalid_time', `advance takes whole milliseconds, not ${String(ms)}`);
+    if (ms < 0) return err('negative_time', `time cannot run backwards (${ms} ms)`);
+    if (ms > MAX_ADVANCE_MS) return err('time_range', `advance at most ${MAX_ADVANCE_MS} ms at once`);
+    const end = this.now + ms;
+    // Only due instants run: where advance() stops is not an instant, so how a caller slices
+    // time (one call of an hour or 3.6 million calls of 1 ms) never changes the run.
+    for (;;) {
+      const t = this.nextInstant(end + 1);
+      if (t > end) break;
+      this.runInstant(t);
+    }
+    this.now = end;
+    this.notify();
+    return { ok: true, value: { timeMs: this.now } };
+  }
+
+  // ---------------------------------------------------------------- events
+
+  applyEvent(input: unknown): Result<{ timeMs: number }> {
+    if (this.disposed) return err('disposed', 'the cell has been disposed');
+    const parsed = cellEventSchema.safeParse(input);
+    if (!parsed.success) return { ok: false, errors: zodProblems(parsed.error.issues) };
+    const e = parsed.data;
+    const r = this.applyParsed(e);
+    if (!r.ok) return r;
+    this.log.push({ t: this.now, event: e });
+    this.checkTriggeredFaults();
+    this.sample();
+    this.notify();
+    return { ok: true, value: { timeMs: this.now } };
+  }
+
+  device(id: string, types: readonly string[] | null): Result<DevState> {
+    const d = this.devs.get(id);
+    if (!d) return err('unknown_device', `no device "${id}"`, ['device']);
+    if (types && !types.includes(d.dev.type)) return err('wrong_device_type', `"${id}" is a ${d.dev.type}; this event needs a ${types.join(' or ')}`, ['device']);
+    return { ok: true, value: d };
+  }
+
+  applyParsed(e: CellEvent): Result<{ timeMs: number }> {
+    const done = { ok: true as const, value: { timeMs: this.now } };
+    switch (e.type) {
+      case 'press':
+      case 'release':
+      case 'toggle': {
+        const r = this.device(e.device, ['push-button', 'illuminated-button', 'e-stop', 'proximity-sensor', 'photo-eye', 'part-sensor', 'guard-switch']);
+        if (!r.ok) return r;
+        const d = r.value;
+        const dev = d.dev;
+        if (dev.type === 'e-stop') {
+          if (e.type === 'toggle') d.latched = !d.latched;
+          else d.latched = e.type === 'press' ? true : false;
+        } else if (dev.type === 'push-button' || dev.type === 'illuminated-button') {
+          if (dev.action === 'maintained') {
+            if (e.type !== 'release') d.latched = !d.latched;
+            d.pressed = e.type === 'press';
+          } else if (e.type === 'toggle') d.pressed = !d.pressed;
+          else d.pressed = e.type === 'press';
+        } else {
+          if (e.type !== 'toggle') return err('wrong_device_type', `"${dev.id}" is a ${dev.type}: use set-field or toggle`, ['type']);
+          d.active = !d.active;
+        }
+        return done;
+      }
+      case 'set-selector': {
+        const r = this.device(e.device, ['selector-switch']);
+        if (!r.ok) return r;
+        const dev = r.value.dev as Extract<PanelDevice, { type: 'selector-switch' }>;
+        if (e.position >= dev.positions.length) return err('out_of_range', `"${dev.id}" has positions 0..${dev.positions.length - 1}`, ['position']);
+        r.value.position = e.position;
+        return done;
+      }
+      case 'set-analog': {
+        const r = this.device(e.device, ['potentiometer']);
+        if (!r.ok) return r;
+        const dev = r.value.dev as Extract<PanelDevice, { type: 'potentiometer' }>;
+        if (!(e.value >= dev.min && e.value <= dev.max)) return err('out_of_range', `"${dev.id}" ranges ${dev.min}..${dev.max} ${dev.unit}`, ['value']);
+        r.value.value = e.value;
+        return done;
+      }
+      case 'set-field': {
+        const r = this.device(e.device, ['proximity-sensor', 'photo-eye', 'part-sensor', 'guard-switch']);
+        if (!r.ok) return r;
+        r.value.active = e.active;
+        return done;
+      }
+      case 'force':
+      case 'unforce': {
+        const t = this.forceTarget(e.target);
+        if (!t.ok) return t;
+        if (e.type === 'force') {
+          if (!Number.isFinite(e.value)) return err('invalid_value', 'a forced value must be finite', ['value']);
+          this.forces.set(t.value, e.value);
+          if (t.value.startsWith('%')) writeAddress(this.image, t.value, e.value);
+        } else {
+          if (!this.forces.delete(t.value)) return err('not_forced', `${t.value} is not forced`, ['target']);
+          // The address returns to 0 until the wiring (inputs) or the logic (outputs, memory) writes it again.
+          if (t.value.startsWith('%')) writeAddress(this.image, t.value, 0);
+        }
+        if (!t.value.startsWith('%')) this.writeControllerOutputs();
+        else this.updateLoads();
+        return done;
+      }
+      case 'restart-controller':
+        this.pointMap = restartPointMap(this.pointMap);
+        this.syncController();
+        this.setResolved(resolvePointMap(this.pointMap.live));
+        this.actor.send({ type: 'RESTART' });
+        this.writeControllerOutputs();
+        return done;
+      case 'power-controller':
+        this.syncController();
+        this.actor.send({ type: e.on ? 'POWER_ON' : 'POWER_OFF' });
+        this.writeControllerOutputs();
+        return done;
+      case 'stage-point-map': {
+        const v = validateStagedRows(this.doc, e.rows);
+        if (!v.ok) return v;
+        this.pointMap = stagePointMap(this.pointMap, v.value);
+        return done;
+      }
+      case 'discard-staged':
+        this.pointMap = { live: this.pointMap.live, staged: null };
+        return done;
+      case 'inject-fault':
+        return this.addFault(e.fault);
+      case 'clear-fault':
+        return this.clearFault(e.id);
+    }
+  }
+
+  forceTarget(target: string): Result<string> {
+    if (target.startsWith('%')) {
+      const a = parseAddress(target);
+      if (!a.ok) return { ok: false, errors: a.errors.map((p) => ({ ...p, path: ['target'] })) };
+      return { ok: true, value: formatAddress(a.value) };
+    }
+    const p = parsePointRef(target);
+    if (!p) return err('unknown_target', `"${target}" is neither a PLC address nor a controller point`, ['target']);
+    return { ok: true, value: target };
+  }
+
+  // ---------------------------------------------------------------- signals
+
+  /**
+   * Signal names: `time`; `plc.<address>`; `plc.<block>.<port>`; `plc.fault.<module>`;
+   * `ctl.state`, `ctl.servo`, `ctl.pc`, `ctl.alarms`, `ctl.cycles`, `ctl.<point>`;
+   * `arm.<axis>`, `arm.speed`, `arm.moving`; `dev.<id>.<property>`; `wire.<row>` (level)
+   * and `in.<row>` (reading 0/1); `link.healthy`; `fault.<card>` (1 when active);
+   * `hs.<role>` handshake outputs.
+   */
+  reader(name: string): (() => SignalValue) | null {
+    const hit = this.readers.get(name);
+    if (hit) return hit;
+    const r = this.makeReader(name);
+    if (r) this.readers.set(name, r);
+    return r;
+  }
+
+  makeReader(name: string): (() => SignalValue) | null {
+    if (name === 'time') return () => this.now;
+    const dot = name.indexOf('.');
+    if (dot < 0) return null;
+    const head = name.slice(0, dot);
+    const rest = name.slice(dot + 1);
+    const b = (x: boolean) => (x ? 1 : 0);
+    switch (head) {
+      case 'plc': {
+        if (rest.startsWith('%')) {
+          const a = parseAddress(rest);
+          if (!a.ok) return null;
+          const addr = a.value;
+          return () => readAddress(this.image, addr);
+        }
+        if (rest.startsWith('fault.')) {
+          const id = rest.slice(6);
+          if (!this.doc.plc.modules.some((m) => m.id === id)) return null;
+          return () => b(this.moduleDead(id));
+        }
+        const d2 = rest.lastIndexOf('.');
+        if (d2 < 0) return null;
+        const block = rest.slice(0, d2);
+        const port = rest.slice(d2 + 1);
+        if (this.sheet.readOutput(this.plcState, block, port) === undefined) return null;
+        return () => {
+          const v = this.sheet.readOutput(this.plcState, block, port);
+          return typeof v === 'boolean' ? b(v) : (v ?? 0);
+        };
+      }
+      case 'ctl': {
+        switch (rest) {
+          case 'state':
+            return () => this.stateName().state;
+          case 'servo':
+            return () => b(this.ctx().servoOn);
+          case 'pc':
+            return () => this.ctx().pc;
+          case 'alarms':
+            return () => this.ctx().alarms.length;
+          case 'cycles':
+            return () => this.ctx().cyclesCompleted;
+        }
+        const p = parsePointRef(rest);
+        if (!p) return null;
+        return INPUT_FAMILIES.has(p.family) ? () => this.logicalIn[rest] ?? 0 : () => this.logicalOut[rest] ?? 0;
+      }
+      case 'hs':
+        if (!['ready', 'atHome', 'cycling', 'atPosition', 'partHeld', 'cycleDone', 'fault'].includes(rest)) return null;
+        return () => b(this.handshakeOutputs()[rest]);
+      case 'arm': {
+        if (rest === 'speed') return () => this.armNow().speed;
+        if (rest === 'moving') return () => b(this.armNow().moving);
+        const axis = Number(rest);
+        if (!Number.isInteger(axis) || axis < 0 || axis >= this.doc.controller.axes) return null;
+        return () => this.armNow().pose[axis];
+      }
+      case 'wire':
+      case 'in': {
+        const i = this.rowIndex.get(rest);
+        if (i === undefined) return null;
+        return head === 'wire' ? () => this.readRow(i).level : () => this.readRow(i).value;
+      }
+      case 'link':
+        return rest === 'healthy' ? () => b(this.linkHealthy()) : null;
+      case 'fault':
+        return () => b(this.cards.some((c) => c.card.id === rest && c.status === 'active'));
+      case 'dev': {
+        const d2 = rest.lastIndexOf('.');
+        if (d2 < 0) return null;
+        const d = this.devs.get(rest.slice(0, d2));
+        if (!d) return null;
+        const prop = rest.slice(d2 + 1);
+        const snap = () => this.deviceSnapshot(d);
+        return () => {
+          const s = snap() as Record<string, unknown>;
+          if (prop.startsWith('lamp')) return b(s.lamps ? Boolean((s.lamps as boolean[])[Number(prop.slice(4) || 0)]) : false);
+          if (s.feedback && prop in (s.feedback as Record<string, boolean>)) return b((s.feedback as Record<string, boolean>)[prop]);
+          const v = s[prop];
+          return typeof v === 'boolean' ? b(v) : typeof v === 'number' ? v : 0;
+        };
+      }
+    }
+    return null;
+  }
+
+  readSignalValue(name: string): SignalValue {
+    const r = this.reader(name);
+    return r ? r() : 0;
+  }
+
+  signalNames(): string[] {
+    const names = ['time', 'ctl.state', 'ctl.servo', 'ctl.pc', 'ctl.alarms', 'ctl.cycles', 'arm.speed', 'arm.moving', 'link.healthy'];
+    for (let a = 0; a < this.doc.controller.axes; a++) names.push(`arm.${a}`);
+    for (const r of ['ready', 'atHome', 'cycling', 'atPosition', 'partHeld', 'cycleDone', 'fault']) names.push(`hs.${r}`);
+    for (const p of this.plans) {
+      names.push(`wire.${p.row.id}`, `in.${p.row.id}`);
+      if (p.sink.kind !== 'device' && p.sink.kind !== 'controller') names.push(`plc.${formatAddress(p.sink.address)}`);
+      if (p.source.kind === 'plc-bit' || p.source.kind === 'plc-word') names.push(`plc.${formatAddress(p.source.address)}`);
+    }
+    for (const s of this.sheet.outputSlots) names.push(`plc.${s.block}.${s.port}`);
+    for (const pt of this.resolved.byRef.keys()) names.push(`ctl.${pt}`);
+    for (const d of this.devs.values()) {
+      const s = this.deviceSnapshot(d);
+      for (const k of Object.keys(s)) if (!['id', 'type', 'label', 'lamps', 'feedback'].includes(k)) names.push(`dev.${d.dev.id}.${k}`);
+      if (s.lamps) s.lamps.forEach((_, i) => names.push(`dev.${d.dev.id}.lamp${i}`));
+      if (s.feedback) for (const k of Object.keys(s.feedback)) names.push(`dev.${d.dev.id}.${k}`);
+    }
+    for (const m of this.doc.plc.modules) names.push(`plc.fault.${m.id}`);
+    return [...new Set(names)];
+  }
+
+  setTrace(names: string[]): Result<true> {
+    const readers: (() => SignalValue)[] = [];
+    const problems: Problem[] = [];
+    names.forEach((n, i) => {
+      const r = this.reader(n);
+      if (!r) problems.push({ path: [i], code: 'unknown_signal', message: `no signal "${n}"` });
+      else readers.push(r);
+    });
+    if (problems.length > 0) return { ok: false, errors: problems };
+    this.recorder = createTraceRecorder(names, readers);
+    return { ok: true, value: true };
+  }
+
+  sample(): void {
+    this.recorder?.sample(this.now);
+  }
+
+  // ---------------------------------------------------------------- snapshot
+
+  deviceSnapshot(d: DevState): DeviceSnapshot {
+    const dev = d.dev;
+    const base = { id: dev.id, type: dev.type, label: dev.label };
+    switch (dev.type) {
+      case 'push-button':
+        return { ...base, pressed: d.pressed, latched: d.latched };
+      case 'illuminated-button':
+        return { ...base, pressed: d.pressed, latched: d.latched, lamps: [...d.lamps] };
+      case 'selector-switch':
+        return { ...base, position: d.position };
+      case 'e-stop':
+        return { ...base, pressed: d.latched, latched: d.latched };
+      case 'pilot-light':
+      case 'stack-light':
+        return { ...base, lamps: [...d.lamps] };
+      case 'potentiometer':
+        return { ...base, value: d.value };
+      case 'numeric-display':
+        return { ...base, value: d.display };
+      case 'proximity-sensor':
+      case 'photo-eye':
+      case 'part-sensor':
+      case 'guard-switch':
+        return dev.type === 'guard-switch' ? { ...base, active: d.active } : { ...base, active: d.active, led: this.detecting(d) };
+      case 'gripper':
+      case 'vacuum-cup':
+      case 'conveyor': {
+        const feedback: Record<string, boolean> = {};
+        const terms = dev.type === 'gripper' ? ['closed', 'open'] : dev.type === 'vacuum-cup' ? ['switch'] : ['running'];
+        for (const t of terms) {
+          const s = this.deviceSource(d, t);
+          feedback[t] = s.k === 'contact' && s.closed;
+        }
+        return { ...base, command: d.cmd, travel: this.posAt(d, this.now), feedback };
+      }
+    }
+  }
+
+  snapshot(): CellSnapshot {
+    const ctx = this.ctx();
+    const { state, detail } = this.stateName();
+    const wires: WireSnapshot[] = this.plans.map((p, i) => {
+      const r = this.readRow(i);
+      const ids = this.rowFaults[i]?.ids ?? [];
+      return { id: p.row.id, level: r.level, unit: r.unit, reading: r.reading, ...(r.loop ? { loop: r.loop } : {}), faults: [...ids], isLink: p.isLink };
+    });
+    const addresses: Record<string, { value: number; forced: boolean }> = {};
+    const addAddr = (text: string) => {
+      addresses[text] = { value: readAddress(this.image, text), forced: this.forces.has(text) };
+    };
+    for (const p of this.plans) {
+      if (p.sink.kind !== 'device' && p.sink.kind !== 'controller') addAddr(formatAddress(p.sink.address));
+      if (p.source.kind === 'plc-bit' || p.source.kind === 'plc-word') addAddr(formatAddress(p.source.address));
+    }
+    for (const t of this.forces.keys()) if (t.startsWith('%')) addAddr(t);
+    const used = (a: Uint8Array) => {
+      let last = -1;
+      for (let i = 0; i < a.length; i++) if (a[i] !== 0) last = i;
+      return Array.from(a.subarray(0, Math.max(last + 1, 4)));
+    };
+    const points = [...this.resolved.byRef.values()].map((pt) => {
+      const isIn = INPUT_FAMILIES.has(pt.family);
+      return {
+        ref: pt.ref,
+        label: pt.label,
+        invert: pt.invert,
+        rack: pt.rack,
+        slot: pt.slot,
+        channel: pt.channel,
+        rowId: pt.rowId,
+        value: (isIn ? this.logicalIn[pt.ref] : this.logicalOut[pt.ref]) ?? 0,
+        forced: this.forces.has(pt.ref),
+      };
+    });
+    const channels: Record<string, number[]> = {};
+    for (const [k, a] of this.ctlIn) channels[k] = Array.from(a);
+    for (const [k, a] of this.ctlOut) channels[k] = Array.from(a);
+    return {
+      timeMs: this.now,
+      seed: this.seed,
+      devices: [...this.devs.values()].map((d) => this.deviceSnapshot(d)),
+      wires,
+      plc: {
+        scans: this.plcState.scans,
+        scanPeriodMs: this.scanMs,
+        image: { I: used(this.image.I), Q: used(this.image.Q), M: used(this.image.M) },
+        addresses,
+        blockOutputs: this.sheet.readBlockOutputs(this.plcState),
+        moduleFaults: this.doc.plc.modules.filter((m) => this.moduleDead(m.id)).map((m) => m.id),
+      },
+      link: { kind: this.doc.link.kind, healthy: this.linkHealthy(), lastUpdateMs: this.lastBusMs },
+      controller: {
+        state,
+        detail,
+        powered: state !== 'off',
+        servoOn: ctx.servoOn,
+        pc: ctx.pc,
+        stepElapsedMs: ctx.stepElapsedMs,
+        holdReason: ctx.holdReason,
+        cyclesCompleted: ctx.cyclesCompleted,
+        alarms: ctx.alarms.map((a) => ({ ...a })),
+        points,
+        handshake: this.handshakeOutputs(),
+        pointMap: this.pointMap.live,
+        staged: this.pointMap.staged,
+        moduleFaults: this.doc.controller.modules.filter((m) => this.moduleDead(m.id)).map((m) => m.id),
+        channels,
+      },
+      arm: { ...this.armNowCopy(), target: ctx.lastTarget },
+      faults: this.cards.map((c) => ({ card: c.card, status: c.status, since: c.since })),
+      forces: Object.fromEntries(this.forces),
+    };
+  }
+
+  armNowCopy(): { pose: number[]; speed: number; moving: boolean } {
+    const a = this.armNow();
+    return { pose: [...a.pose], speed: a.speed, moving: a.moving };
+  }
+
+  notify(): void {
+    if (this.listeners.size === 0) return;
+    const s = this.snapshot();
+    for (const l of this.listeners) l(s);
+  }
+
+  dispose(): void {
+    if (this.disposed) return;
+    this.disposed = true;
+    this.listeners.clear();
+    this.actor.stop();
+  }
+
+  api(): Cell {
+    const rt = this as CellRuntime;
+    return {
+      get timeMs() {
+        return rt.now;
+      },
+      advance: (ms) => rt.advance(ms),
+      step: () => rt.advance(1),
+      apply: (e) => rt.applyEvent(e),
+      snapshot: () => rt.snapshot(),
+      subscribe: (l) => {
+        if (rt.disposed) return () => {};
+        rt.listeners.add(l);
+        return () => rt.listeners.delete(l);
+      },
+      readSignal: (n) => {
+        if (rt.disposed) return err('disposed', 'the cell has been disposed');
+        const r = rt.reader(n);
+        return r ? { ok: true, value: r() } : err('unknown_signal', `no signal "${n}"`);
+      },
+      signalNames: () => rt.signalNames(),
+      eventLog: () => rt.log.map((l) => ({ t: l.t, event: l.event })),
+      trace: () => rt.recorder?.trace(rt.now) ?? { signals: [], samples: [], endMs: rt.now },
+      dispose: () => rt.dispose(),
+    };
+  }
+}

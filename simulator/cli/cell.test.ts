@@ -1,0 +1,40 @@
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const ex = (f: string) => join('simulator/demo/examples', f);
+function cli(...args: string[]) {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'simulator/cli/cell.ts', ...args], { encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+describe('headless runner', () => {
+  it('validate: exit 0 on a good document, 1 with every problem and its path on a bad one', () => {
+    expect(cli('validate', ex('pick-and-place.cell.json')).code).toBe(0);
+    const dir = mkdtempSync(join(tmpdir(), 'cw-'));
+    const bad = join(dir, 'bad.json');
+    writeFileSync(bad, JSON.stringify({ schemaVersion: 1, id: '9bad', panel: 'none' }));
+    const r = cli('validate', bad);
+    expect(r.code).toBe(1);
+    const body = JSON.parse(r.out) as { ok: boolean; problems: { at: string }[] };
+    expect(body.ok).toBe(false);
+    expect(body.problems.map((p) => p.at)).toEqual(expect.arrayContaining(['id', 'panel', 'name', 'controller']));
+  }, 60_000);
+
+  it('run: prints the trace and rule results; exit 1 when a rule fails; exit 2 on bad usage', () => {
+    const pass = cli('run', ex('pick-and-place.cell.json'), '--events', ex('pick-and-place.events.json'), '--for', '30s', '--trace', 'ctl.state', '--rules', ex('pick-and-place.rules.json'));
+    expect(pass.code).toBe(0);
+    const body = JSON.parse(pass.out) as { ok: boolean; hash: string; trace: { signals: string[]; endMs: number } };
+    expect(body.ok).toBe(true);
+    expect(body.hash).toMatch(/^[0-9a-f]{16}$/);
+    expect(body.trace.endMs).toBe(30_000);
+    expect(body.trace.signals).toContain('ctl.state');
+    const fail = cli('run', ex('pick-and-place.cell.json'), '--events', ex('pick-and-place.events.json'), '--for', '30s', '--rules', ex('failing.rules.json'));
+    expect(fail.code).toBe(1);
+    expect(JSON.parse(fail.out).rules[0].violation.timeMs).toBeGreaterThan(0);
+    expect(cli('run', ex('pick-and-place.cell.json'), '--for', 'soon').code).toBe(2);
+    expect(cli('frobnicate').code).toBe(2);
+  }, 60_000);
+});

@@ -1,0 +1,144 @@
+import { describe, expect, it } from 'vitest';
+import { createActor } from 'xstate';
+import { controllerMachine } from './controller.machine';
+import type { ControllerConfig } from '@/simulator/schema/cell-document';
+
+// The machine has no timers: time only passes through TICK events (explicit time in context),
+// so the test is its own clock.
+const config: ControllerConfig = {
+  axes: 1,
+  bootMs: 100,
+  ioRefreshMs: 10,
+  stopCategory: 1,
+  homePose: 'home',
+  positionTolerance: 0.001,
+  cycleDonePulseMs: 50,
+  modules: [],
+  pointMap: [],
+  staged: null,
+  handshake: { inputs: { start: 'DI1', faultReset: 'DI2', estopHealthy: 'DI3', guardClosed: 'DI4' }, outputs: {} },
+  routine: [
+    { kind: 'move', pose: 'far' },
+    { kind: 'wait', condition: { point: 'DI5', op: '==', value: 1 }, timeoutMs: 200, alarm: 'no confirm' },
+    { kind: 'move', pose: 'home' },
+  ],
+  poses: [
+    { id: 'home', coordinates: [0], speed: 1, accel: 1 },
+    { id: 'far', coordinates: [1], speed: 0.5, accel: 1 },
+  ],
+};
+
+function rig() {
+  const actor = createActor(controllerMachine, { input: { config } }).start();
+  const inputs: Record<string, number> = { DI1: 0, DI2: 0, DI3: 1, DI4: 1, DI5: 0 };
+  const tick = (ms: number) => {
+    for (let t = 0; t < ms; t += 10) actor.send({ type: 'TICK', dt: 10, inputs: { ...inputs }, hardware: [] });
+  };
+  const state = () => {
+    const v = actor.getSnapshot().value;
+    return typeof v === 'string' ? v : Object.keys(v)[0];
+  };
+  return { actor, inputs, tick, state, ctx: () => actor.getSnapshot().context };
+}
+
+describe('controller machine', () => {
+  it('boots for bootMs, then is ready; a start edge starts the routine', () => {
+    const r = rig();
+    expect(r.state()).toBe('off');
+    r.actor.send({ type: 'POWER_ON' });
+    expect(r.state()).toBe('booting');
+    r.tick(90);
+    expect(r.state()).toBe('booting');
+    r.tick(10);
+    expect(r.state()).toBe('ready');
+    r.inputs.DI1 = 1;
+    r.tick(10);
+    expect(r.state()).toBe('cycling');
+  });
+
+  it('a move takes its trapezoidal time: d = 1, v = 0.5, a = 1 → 2.5 s (Modern Robotics ch. 9)', () => {
+    const r = rig();
+    r.actor.send({ type: 'POWER_ON' });
+    r.tick(100);
+    r.inputs.DI1 = 1;
+    r.tick(10); // start edge → cycling
+    // The first cycling refresh starts the move; 250 refreshes of 10 ms give 2.5 s of motion.
+    r.tick(2490);
+    expect(r.ctx().pc).toBe(0);
+    r.tick(10);
+    expect(r.ctx().pc).toBe(1);
+    expect(r.ctx().pose[0]).toBe(1);
+  });
+
+  it('a wait past its timeout raises its alarm; fault reset clears it and start retries the step', () => {
+    const r = rig();
+    r.actor.send({ type: 'POWER_ON' });
+    r.tick(100);
+    r.inputs.DI1 = 1;
+    r.tick(2600);
+    expect(r.ctx().pc).toBe(1);
+    r.tick(200);
+    expect(r.state()).toBe('faulted');
+    expect(r.ctx().alarms.map((a) => a.message)).toEqual(['no confirm']);
+    r.inputs.DI2 = 1;
+    r.tick(10);
+    expect(r.state()).toBe('ready');
+    expect(r.ctx().alarms).toEqual([]);
+    // Start is still held from before: no new edge, no restart.
+    r.tick(100);
+    expect(r.state()).toBe('ready');
+    r.inputs.DI1 = 0;
+    r.tick(10);
+    r.inputs.DI1 = 1;
+    r.inputs.DI5 = 1;
+    r.tick(10);
+    expect(r.state()).toBe('cycling');
+    r.tick(10); // the routine runs from the next refresh: the wait now passes at once
+    expect(r.ctx().pc).toBe(2);
+  });
+
+  it('e-stop needs the chain healthy and a reset edge, and never restarts motion', () => {
+    const r = rig();
+    r.actor.send({ type: 'POWER_ON' });
+    r.tick(100);
+    r.inputs.DI1 = 1;
+    r.tick(1000);
+    expect(r.ctx().speed).toBeCloseTo(0.5, 9);
+    r.inputs.DI3 = 0;
+    r.tick(10);
+    expect(r.state()).toBe('eStopped');
+    r.tick(1000); // category 1: brakes over 0.5 s, then power off
+    expect(r.ctx().motion).toBeNull();
+    expect(r.ctx().servoOn).toBe(false);
+    r.inputs.DI2 = 1; // reset with the chain still broken: refused
+    r.tick(10);
+    expect(r.state()).toBe('eStopped');
+    r.inputs.DI2 = 0;
+    r.inputs.DI3 = 1;
+    r.tick(100);
+    expect(r.state()).toBe('eStopped');
+    r.inputs.DI2 = 1;
+    r.tick(10);
+    expect(r.state()).toBe('ready');
+    const pose = r.ctx().pose[0];
+    r.tick(500);
+    expect(r.ctx().pose[0]).toBe(pose);
+  });
+
+  it('guard opened while cycling holds; restart and power off are always accepted', () => {
+    const r = rig();
+    r.actor.send({ type: 'POWER_ON' });
+    r.tick(100);
+    r.inputs.DI1 = 1;
+    r.tick(500);
+    r.inputs.DI4 = 0;
+    r.tick(10);
+    expect(r.state()).toBe('holding');
+    expect(r.ctx().holdReason).toBe('guard');
+    r.actor.send({ type: 'RESTART' });
+    expect(r.state()).toBe('booting');
+    expect(r.ctx().pc).toBe(0);
+    r.actor.send({ type: 'POWER_OFF' });
+    expect(r.state()).toBe('off');
+  });
+});

@@ -1,0 +1,228 @@
+/**
+ * The robot controller as an xstate v5 machine. It has no timers of its own: the cell sends
+ * `TICK` with the elapsed time and the inputs read at each I/O refresh, and all time lives in
+ * the context (`timeMs`, boot countdown, step and pulse times), so a run is reproducible.
+ *
+ * States (our names): off → booting → stopped (powered, not ready) ⇄ ready → cycling ⇄ holding,
+ * plus faulted and eStopped reachable from any powered state.
+ * - E-stop (the e-stop-chain input goes off): stop category 0 halts motion at once and removes
+ *   power; category 1 brakes at the move's deceleration and then removes power
+ *   (IEC 60204-1 §9.2.2). Leaving eStopped needs the chain healthy *and* a fault-reset edge,
+ *   and leads to stopped, never to motion (ISO 13850 §4.1.3: reset must not restart).
+ * - Guard opened or stop requested while cycling → holding: the arm brakes to rest and the
+ *   routine's clocks freeze; a start edge with the guard closed resumes.
+ */
+import { assign, setup } from 'xstate';
+import type { ControllerConfig } from '@/simulator/schema/cell-document';
+import {
+  advanceMotion,
+  beginBrake,
+  expirePulses,
+  haltNow,
+  initialControllerContext,
+  raiseAlarm,
+  roleOn,
+  runRoutine,
+  type ControllerContext,
+} from './routine';
+
+/** Events the controller accepts. */
+export type ControllerEvent =
+  | { type: 'TICK'; dt: number; inputs: Record<string, number>; hardware: string[] }
+  | { type: 'POWER_ON' }
+  | { type: 'POWER_OFF' }
+  | { type: 'RESTART' }
+  /** Time that passed in an idle state with unchanged inputs (no inputs are read). */
+  | { type: 'SYNC'; dt: number };
+
+/** Input of the machine: the controller section of the cell document. It starts `off`; send `POWER_ON`. */
+export type ControllerInput = { config: ControllerConfig };
+
+type Ctx = ControllerContext;
+
+function readTick(ctx: Ctx, e: Extract<ControllerEvent, { type: 'TICK' }>): Ctx {
+  const starts = ctx.config.handshake.inputs.start;
+  const resets = ctx.config.handshake.inputs.faultReset;
+  const start = starts ? (e.inputs[starts] ?? 0) !== 0 : false;
+  const reset = resets ? (e.inputs[resets] ?? 0) !== 0 : false;
+  let next: Ctx = {
+    ...ctx,
+    timeMs: ctx.timeMs + e.dt,
+    inputs: e.inputs,
+    hardware: e.hardware,
+    cycleComplete: false,
+    startEdge: start && !ctx.prevStart,
+    resetEdge: reset && !ctx.prevReset,
+    prevStart: start,
+    prevReset: reset,
+  };
+  for (const h of e.hardware) next = raiseAlarm(next, 'hardware', h);
+  return expirePulses(next);
+}
+
+function tick(ctx: Ctx, event: ControllerEvent, f: (ctx: Ctx, dt: number) => Ctx): Ctx {
+  return event.type === 'TICK' ? f(readTick(ctx, event), event.dt) : ctx;
+}
+
+function countBoot(ctx: Ctx, dt: number): Ctx {
+  return { ...ctx, bootLeftMs: Math.max(0, ctx.bootLeftMs - dt) };
+}
+
+function brakeOut(ctx: Ctx, dt: number): Ctx {
+  return stillServoOff(advanceMotion(ctx, dt));
+}
+
+function stillServoOff(ctx: Ctx): Ctx {
+  return ctx.motion || !ctx.servoOn ? ctx : { ...ctx, servoOn: false };
+}
+
+function freshPower(ctx: Ctx): Ctx {
+  const base = initialControllerContext(ctx.config);
+  // A power cycle keeps where the arm physically is and the cell's clock.
+  return { ...base, pose: ctx.pose, timeMs: ctx.timeMs };
+}
+
+/** The controller machine; create an actor with `createActor(controllerMachine, { input })`. */
+export const controllerMachine = setup({
+  types: {
+    context: {} as Ctx,
+    events: {} as ControllerEvent,
+    input: {} as ControllerInput,
+  },
+  actions: {
+    powerUp: assign(({ context }) => freshPower(context)),
+    powerDown: assign(({ context }) => ({ ...haltNow(context), outputs: {}, pulses: [], wordEncodings: {} })),
+    /** One I/O refresh while booting: read inputs, count the boot time down. */
+    tickBoot: assign(({ context, event }) => tick(context, event, countBoot)),
+    /** One refresh while cycling: read inputs, run the routine (which moves the arm). */
+    tickCycle: assign(({ context, event }) => tick(context, event, runRoutine)),
+    /** One refresh while ready or holding: read inputs, let any brake run out. */
+    tickMove: assign(({ context, event }) => tick(context, event, advanceMotion)),
+    /** One refresh while stopped, faulted or e-stopped: brake out, then remove power. */
+    tickStill: assign(({ context, event }) => tick(context, event, brakeOut)),
+    /** Time passing with nothing to do (the cell skips identical idle refreshes and catches up here). */
+    addTime: assign(({ context, event }) => (event.type === 'TICK' || event.type === 'SYNC' ? { ...context, timeMs: context.timeMs + event.dt } : context)),
+    servoOn: assign({ servoOn: true }),
+    /** Power is removed once a controlled stop has reached rest. */
+    servoOffWhenStill: assign(({ context }) => stillServoOff(context)),
+    brake: assign(({ context }) => beginBrake(context)),
+    haltNow: assign(({ context }) => haltNow(context)),
+    consumeEdges: assign({ startEdge: false, resetEdge: false }),
+    clearAlarms: assign(({ context }) => ({
+      ...context,
+      alarms: context.alarms.filter((a) => a.code === 'hardware' && context.hardware.includes(a.message)),
+      stepElapsedMs: 0,
+    })),
+    holdForGuard: assign({ holdReason: 'guard' as const }),
+    holdForStop: assign({ holdReason: 'stop' as const }),
+    clearHold: assign({ holdReason: null }),
+  },
+  guards: {
+    bootDone: ({ context }) => context.bootLeftMs <= 0,
+    chainBroken: ({ context }) => !roleOn(context, 'estopHealthy', true),
+    hasAlarm: ({ context }) => context.alarms.length > 0,
+    canBeReady: ({ context }) => context.alarms.length === 0 && roleOn(context, 'estopHealthy', true) && !roleOn(context, 'stop', false),
+    stopRequested: ({ context }) => roleOn(context, 'stop', false),
+    guardOpen: ({ context }) => !roleOn(context, 'guardClosed', true),
+    startPermitted: ({ context }) =>
+      context.startEdge && roleOn(context, 'guardClosed', true) && roleOn(context, 'estopHealthy', true) && !roleOn(context, 'stop', false),
+    resetAccepted: ({ context }) =>
+      context.resetEdge && roleOn(context, 'estopHealthy', true) && context.hardware.length === 0,
+    /** Resuming from a hold also waits for the arm to have braked to rest. */
+    resumePermitted: ({ context }) =>
+      context.motion === null &&
+      context.startEdge &&
+      roleOn(context, 'guardClosed', true) &&
+      roleOn(context, 'estopHealthy', true) &&
+      !roleOn(context, 'stop', false),
+    cycleComplete: ({ context }) => context.cycleComplete,
+    categoryZero: ({ context }) => context.config.stopCategory === 0,
+  },
+}).createMachine({
+  id: 'controller',
+  context: ({ input }) => initialControllerContext(input.config),
+  initial: 'off',
+  states: {
+    off: {
+      on: {
+        POWER_ON: { target: 'booting', actions: 'powerUp' },
+        RESTART: { target: 'booting', actions: 'powerUp' },
+        TICK: { actions: 'addTime' },
+      },
+    },
+    booting: {
+      on: { TICK: { actions: 'tickBoot' } },
+      always: [{ guard: 'bootDone', target: 'stopped' }],
+    },
+    stopped: {
+      entry: ['consumeEdges', 'clearHold'],
+      on: { TICK: { actions: 'tickStill' } },
+      always: [
+        { guard: 'chainBroken', target: 'eStopped' },
+        { guard: 'hasAlarm', target: 'faulted' },
+        { guard: 'canBeReady', target: 'ready' },
+      ],
+    },
+    ready: {
+      entry: ['consumeEdges', 'servoOn', 'clearHold'],
+      on: { TICK: { actions: 'tickMove' } },
+      always: [
+        { guard: 'chainBroken', target: 'eStopped' },
+        { guard: 'hasAlarm', target: 'faulted' },
+        { guard: 'stopRequested', target: 'stopped' },
+        { guard: 'startPermitted', target: 'cycling' },
+      ],
+    },
+    cycling: {
+      entry: ['consumeEdges', 'clearHold', 'servoOn'],
+      on: { TICK: { actions: 'tickCycle' } },
+      always: [
+        { guard: 'chainBroken', target: 'eStopped' },
+        { guard: 'hasAlarm', target: 'faulted' },
+        { guard: 'guardOpen', target: 'holding', actions: 'holdForGuard' },
+        { guard: 'stopRequested', target: 'holding', actions: 'holdForStop' },
+        { guard: 'cycleComplete', target: 'ready' },
+      ],
+    },
+    holding: {
+      entry: ['consumeEdges', 'brake'],
+      on: { TICK: { actions: 'tickMove' } },
+      always: [
+        { guard: 'chainBroken', target: 'eStopped' },
+        { guard: 'hasAlarm', target: 'faulted' },
+        { guard: 'resumePermitted', target: 'cycling' },
+      ],
+    },
+    faulted: {
+      entry: ['consumeEdges', 'brake', 'clearHold'],
+      on: { TICK: { actions: 'tickStill' } },
+      always: [
+        { guard: 'chainBroken', target: 'eStopped' },
+        { guard: 'resetAccepted', target: 'stopped', actions: 'clearAlarms' },
+      ],
+    },
+    eStopped: {
+      entry: ['consumeEdges', 'clearHold'],
+      initial: 'choose',
+      states: {
+        choose: {
+          always: [{ guard: 'categoryZero', target: 'halted', actions: 'haltNow' }, { target: 'braking', actions: 'brake' }],
+        },
+        halted: {},
+        braking: {
+          always: [{ guard: ({ context }) => context.motion === null, target: 'halted', actions: 'servoOffWhenStill' }],
+        },
+      },
+      on: { TICK: { actions: 'tickStill' } },
+      always: [{ guard: 'resetAccepted', target: 'stopped', actions: 'clearAlarms' }],
+    },
+  },
+  on: {
+    POWER_OFF: { target: '.off', actions: 'powerDown' },
+    RESTART: { target: '.booting', actions: 'powerUp' },
+    SYNC: { actions: 'addTime' },
+  },
+});
+
+/** Plain-English state names of the controller, as shown in snapshots. */
+export type ControllerStateName = 'off' | 'booting' | 'stopped' | 'ready' | 'cycling' | 'holding' | 'faulted' | 'eStopped';

@@ -1,0 +1,170 @@
+/**
+ * Cellwright's simulation engine: the one public entry. The app, the server and the headless
+ * runner import from here only. Everything exported is pure TypeScript: no DOM, no wall clock,
+ * no unseeded randomness; a run is reproduced exactly from its document, event log and seed.
+ *
+ * Layers, bottom up: shared results → addresses and process image → electrical layer →
+ * PLC (logic sheet, compiler) → controller (point map, motion, routine, machine) → cell
+ * (composition on one clock) → fault cards → trace, rules, replay → demo cells.
+ * Re-exported symbols carry their JSDoc from the module that defines them.
+ */
+
+// ---- results
+/** Typed results and problems with paths (see simulator/shared/result.ts). */
+export type { Problem, Result } from './shared/result';
+export { ok, fail, problem, prefixProblems } from './shared/result';
+
+// ---- addresses and process image (IEC 61131-3 direct addressing)
+export type { Address, Area, Size, ProcessImage } from './address';
+export {
+  parseAddress,
+  formatAddress,
+  addressBitSpan,
+  addressesOverlap,
+  createProcessImage,
+  cloneProcessImage,
+  readAddress,
+  writeAddress,
+  toSigned,
+  AREA_BYTES,
+} from './address';
+
+// ---- electrical layer
+export type { InputType, InputReading, ContactKind, WireCondition, SensorOutput, InputModuleKind, SignalRange, AnalogModuleSpec, Ne43Status } from './electrical';
+export {
+  IEC_61131_2_BANDS,
+  classifyDigitalInput,
+  contactClosed,
+  contactInputVolts,
+  sensorInputVoltage,
+  applyInvert,
+  SIGNAL_SPANS,
+  scaleLinear,
+  currentToEngineering,
+  voltageToEngineering,
+  engineeringToSignal,
+  signalToCounts,
+  countsToSignal,
+  ne43Status,
+  ne43Valid,
+  encodeWord,
+  decodeWord,
+} from './electrical';
+
+// ---- PLC: logic sheet, catalogue, compiler
+export type {
+  PlcState,
+  SerializedPlcState,
+  BlockOutputs,
+  OutputSlot,
+  CompiledSheet,
+  InterpretedSheet,
+  LogicSheet,
+  LogicSheetInput,
+  SheetBlock,
+  SheetConnection,
+  BlockType,
+  BlockSpec,
+  PortSpec,
+  PortType,
+  BlockGroup,
+} from './plc';
+export {
+  BLOCK_TYPES,
+  blockCatalogue,
+  blockPorts,
+  isBlockType,
+  portTypesCompatible,
+  logicSheetSchema,
+  MAX_BLOCKS,
+  MAX_CONNECTIONS,
+  validateSheet,
+  compileSheet,
+  interpretSheet,
+  clonePlcState,
+  serializePlcState,
+  deserializePlcState,
+} from './plc';
+
+// ---- cell document
+export type {
+  CellDocument,
+  PanelDevice,
+  FieldDevice,
+  Endpoint,
+  WiringRow,
+  PlcModule,
+  ControllerModule,
+  PointMapRow,
+  PointFamily,
+  RoutineStep,
+  Condition,
+  Pose,
+  Handshake,
+  ControllerConfig,
+  LinkConfig,
+  WordEncoding,
+  ChannelRef,
+} from './schema/cell-document';
+export {
+  CELL_SCHEMA_VERSION,
+  cellDocumentSchema,
+  panelDeviceSchema,
+  fieldDeviceSchema,
+  wiringRowSchema,
+  pointMapRowSchema,
+  routineStepSchema,
+  poseSchema,
+  deviceColourSchema,
+} from './schema/cell-document';
+export { CELL_LIMITS } from './schema/limits';
+export type { TerminalSpec, TerminalKind } from './schema/terminals';
+export { deviceTerminals } from './schema/terminals';
+export type { ValidatedCell } from './schema/validate';
+export { validateCellDocument, validateStagedRows, documentTooLarge } from './schema/validate';
+export { cellJsonSchemas } from './schema/json-schema';
+
+// ---- controller
+export type { Coordinates } from './controller/motion';
+export { moveTime, isTriangular, peakSpeed, positionAtTime, speedAtTime, brakingDistance, pathLength } from './controller/motion';
+export type { PointMapState, ResolvedPoint, ResolvedPointMap, PointUse } from './controller/point-map';
+export {
+  FAMILY_MODULE_TYPE,
+  parsePointRef,
+  resolvePointMap,
+  resolveLogical,
+  resolvePhysical,
+  validatePointMap,
+  stagePointMap,
+  discardStagedPointMap,
+  restartPointMap,
+} from './controller/point-map';
+export type { Alarm, Motion, ControllerContext } from './controller/routine';
+export type { ControllerEvent, ControllerInput, ControllerStateName } from './controller/controller.machine';
+export { controllerMachine } from './controller/controller.machine';
+
+// ---- cell
+export type { Cell, CellOptions } from './cell/cell';
+export { createCell } from './cell/cell';
+export type { CellEvent, LoggedEvent } from './cell/events';
+export { cellEventSchema, eventLogSchema } from './cell/events';
+export type { CellSnapshot, DeviceSnapshot, WireSnapshot, PointValue, ControllerPointSnapshot } from './cell/snapshot';
+
+// ---- fault cards
+export type { FaultCard, FaultKind, SignalPredicate } from './faults/fault-card';
+export { faultCardSchema, signalPredicateSchema, FAULT_KINDS, FAULT_SYMPTOMS } from './faults/fault-card';
+
+// ---- trace, rules, replay
+export type { Trace, TraceRecorder } from './trace/trace';
+export { hashTrace, valuesAt, createTraceRecorder } from './trace/trace';
+export { fnv1a64 } from './trace/hash';
+export type { SignalValue, CompiledPredicate } from './trace/predicate';
+export { compilePredicate, predicateSignals } from './trace/predicate';
+export type { Rule, RuleResult } from './trace/rules';
+export { ruleSchema, rulesSchema, checkRules, ruleSignals } from './trace/rules';
+export type { ReplayResult } from './trace/replay';
+export { replay } from './trace/replay';
+
+// ---- demo cells
+export type { CellDocumentInput } from './demo';
+export { pickAndPlaceCell, starterCell, demoCells } from './demo';
