@@ -3,7 +3,17 @@
  * execution order, reading and writing numbered slots of a Float64Array and the process
  * image's byte arrays, so a scan never walks the graph. The generated source is split into
  * functions of at most {@link BLOCKS_PER_CHUNK} blocks because very large functions are
- * left unoptimised by JavaScript engines.
+ * left unoptimised by JavaScript engines (and optimising-compile time grows faster than
+ * linearly with function size; 200 measured best for scan rate on V8 11 / Node 20).
+ *
+ * The code is kept lean because an optimising JIT compiles it in the background while the
+ * first scans run slowly: unconnected inputs, parameter presets and CONST outputs are
+ * folded in as literals; a value read again later in the same chunk is kept in a local
+ * instead of being reloaded; pass-through blocks (coils, MOVE) share their driver's slot;
+ * timers and counters evaluate every operation on every scan and only branch to choose
+ * among ready values, so the JIT never lacks type feedback for a rarely taken path.
+ * Every block output is still stored to its slot each scan, so `PlcState.values` holds
+ * the live value of every wire.
  *
  * Block semantics follow IEC 61131-3 (standard function blocks); the comments in
  * `emitBlock` give the clause-level rule each one implements. The reference interpreter
@@ -51,8 +61,27 @@ type Layout = {
   mem: number[][];
   slots: number;
   outputSlots: OutputSlot[];
+  /** Pass-through blocks whose output shares its driver's slot (see {@link layout}). */
+  shared: Set<number>;
 };
 
+/** Blocks whose only output always equals their IN input: coils pass power flow on, MOVE copies. */
+const PASS_THROUGH: Partial<Record<SheetBlock['type'], string>> = { COIL: 'Q', SET_COIL: 'Q', RESET_COIL: 'Q', MOVE: 'OUT' };
+
+/** Whether a block's output slots start at 0 in a fresh state (every block but non-zero PREV / CONST). */
+function startsAtZero(b: SheetBlock): boolean {
+  switch (b.type) {
+    case 'PREV_BOOL':
+    case 'CONST_BOOL':
+      return b.type === 'PREV_BOOL' ? !b.params.initial : !b.params.value;
+    case 'PREV_NUM':
+      return Object.is(b.params.initial, 0);
+    case 'CONST':
+      return Object.is(b.params.value, 0);
+    default:
+      return true;
+  }
+}
 /** Memory slots each block type keeps besides its outputs. */
 function memoryCount(type: SheetBlock['type']): number {
   switch (type) {
@@ -73,184 +102,329 @@ function memoryCount(type: SheetBlock['type']): number {
   }
 }
 
+/**
+ * Assigns state slots. A wired pass-through block (coil, MOVE) shares its driver's output
+ * slot instead of getting its own: the two values are equal whenever anyone can look
+ * (after the scan, and in a fresh state, where both are 0), so every output still reads
+ * live from `PlcState.values` while the generated code saves a store per coil.
+ */
 function layout(a: AnalysedSheet): Layout {
   let next = 0;
   const out: Map<string, number>[] = [];
   const mem: number[][] = [];
-  const bySlot: OutputSlot[] = [];
+  const shared = new Set<number>();
   a.sheet.blocks.forEach((b, i) => {
     const m = new Map<string, number>();
-    for (const p of a.ports[i].outputs) {
-      m.set(p.name, next);
-      bySlot[next] = { block: b.id, port: p.name, type: p.type, slot: next };
-      next++;
-    }
+    const d = a.drivers[i].get('IN');
+    const port = PASS_THROUGH[b.type];
+    if (port !== undefined && d && startsAtZero(a.sheet.blocks[d.block])) shared.add(i);
+    else for (const p of a.ports[i].outputs) m.set(p.name, next++);
     out.push(m);
     mem.push(Array.from({ length: memoryCount(b.type) }, () => next++));
   });
+  // In execution order a driver's slot is known before its pass-through consumers' (chains
+  // of MOVEs resolve to the first block's slot).
+  for (const i of a.order) {
+    if (!shared.has(i)) continue;
+    const d = a.drivers[i].get('IN') as { block: number; port: string };
+    out[i].set(PASS_THROUGH[a.sheet.blocks[i].type] as string, out[d.block].get(d.port) as number);
+  }
   const outputSlots: OutputSlot[] = [];
-  for (const i of a.order) for (const slot of out[i].values()) outputSlots.push(bySlot[slot]);
-  return { out, mem, slots: next, outputSlots };
+  for (const i of a.order) {
+    for (const p of a.ports[i].outputs) outputSlots.push({ block: a.sheet.blocks[i].id, port: p.name, type: p.type, slot: out[i].get(p.name) as number });
+  }
+  return { out, mem, slots: next, outputSlots, shared };
+}
+
+/** Folds a literal BOOL operand list for AND / OR / XOR (operands are '0', '1' or an expression). */
+function foldAnd(xs: string[]): string {
+  if (xs.includes('0')) return '0';
+  const rest = xs.filter((x) => x !== '1');
+  return rest.length === 0 ? '1' : rest.length === 1 ? rest[0] : `(${rest.join(' & ')})`;
+}
+function foldOr(xs: string[]): string {
+  if (xs.includes('1')) return '1';
+  const rest = xs.filter((x) => x !== '0');
+  return rest.length === 0 ? '0' : rest.length === 1 ? rest[0] : `(${rest.join(' | ')})`;
+}
+function foldXor(xs: string[]): string {
+  const ones = xs.filter((x) => x === '1').length;
+  const rest = xs.filter((x) => x !== '0' && x !== '1');
+  if (rest.length === 0) return ones % 2 === 1 ? '1' : '0';
+  const e = rest.length === 1 ? rest[0] : `(${rest.join(' ^ ')})`;
+  return ones % 2 === 1 ? `(${e} ^ 1)` : e;
+}
+function foldNot(x: string): string {
+  return x === '0' ? '1' : x === '1' ? '0' : `(${x} ^ 1)`;
+}
+
+/**
+ * Per-chunk emission context. Outputs computed earlier in the same chunk and read again
+ * in it live in `const` locals (`s<slot>`), so consumers use a register instead of a
+ * Float64Array load; every output is still stored to its slot so `PlcState.values`
+ * (and `readBlockOutputs`) hold the live value of every wire after each scan.
+ */
+type Chunk = {
+  /** Slots assigned to a local so far in this chunk. */
+  locals: Set<number>;
+  /** Slots read by a later block of the same chunk (or its epilogue). */
+  readHere: Set<number>;
+};
+
+/** The value of the output slot of a driving block: a literal, a local or a slot load. */
+function driverValue(a: AnalysedSheet, L: Layout, C: Chunk, d: { block: number; port: string }): string {
+  const src = a.sheet.blocks[d.block];
+  // Constants never change during a scan: use their value directly.
+  if (src.type === 'CONST') return lit(src.params.value);
+  if (src.type === 'CONST_BOOL') return lit(src.params.value);
+  const slot = L.out[d.block].get(d.port) as number;
+  return C.locals.has(slot) ? `s${slot}` : `v[${slot}]`;
 }
 
 /** Generates the statements of one block. */
-function emitBlock(a: AnalysedSheet, L: Layout, i: number): string {
+function emitBlock(a: AnalysedSheet, L: Layout, C: Chunk, i: number): string {
   const b = a.sheet.blocks[i];
-  const o = (port: string) => `v[${L.out[i].get(port)}]`;
+  const slotOf = (port: string) => L.out[i].get(port) as number;
+  /** Previous-scan value of one of this block's own outputs (read before it is stored). */
+  const o = (port: string) => `v[${slotOf(port)}]`;
   const m = (k: number) => `v[${L.mem[i][k]}]`;
   const inp = (port: string): string => {
     const d = a.drivers[i].get(port);
-    if (d) return `v[${L.out[d.block].get(d.port)}]`;
+    if (d) return driverValue(a, L, C, d);
     const spec = a.ports[i].inputs.find((p) => p.name === port) as PortSpec;
     const params = b.params as Record<string, unknown>;
     const value = spec.fromParam !== undefined ? (params[spec.fromParam] as number) : spec.default;
     return lit(value);
   };
+  /**
+   * Stores an output: into a local first when a later block of this chunk reads it.
+   * `expr` may be a literal, a local or any side-effect-free expression.
+   */
+  const put = (port: string, expr: string): string => {
+    // A shared slot already holds the value: its driver stored it (or holds it in a local).
+    if (L.shared.has(i)) return '';
+    const slot = slotOf(port);
+    if (!C.readHere.has(slot)) return `v[${slot}] = ${expr};`;
+    C.locals.add(slot);
+    return `const s${slot} = ${expr}; v[${slot}] = s${slot};`;
+  };
   const bit = (address: string) => {
     const x = addr(address);
-    return { area: x.area, byte: x.byte, mask: 1 << (x.bit ?? 0), bit: x.bit ?? 0 };
+    const k = x.bit ?? 0;
+    return { at: `${x.area}[${x.byte}]`, mask: 1 << k, bit: k };
   };
-  // A non-positive or NaN preset counts as 0 (only a wired PT can be negative).
-  const preset = () => `let p = ${inp('PT')}; if (!(p > 0)) p = 0;`;
+  // Bit k of a byte as 0/1.
+  const readBit = (at: string, k: number) => (k === 0 ? `(${at} & 1)` : `((${at} >> ${k}) & 1)`);
+  const readBitInv = (at: string, k: number) => (k === 0 ? `(~${at} & 1)` : `((~${at} >> ${k}) & 1)`);
+  // A non-positive or NaN preset counts as 0 (only a wired PT can be negative or NaN);
+  // a parameter preset is validated non-negative and folded into the code.
+  const preset = (): { decl: string; p: string } => {
+    if (!a.drivers[i].has('PT')) {
+      const value = (b.params as { PT: number }).PT;
+      return { decl: '', p: lit(value > 0 ? value : 0) };
+    }
+    return { decl: `let p${i} = ${inp('PT')}; if (!(p${i} > 0)) p${i} = 0; `, p: `p${i}` };
+  };
+  // An input used more than once: a literal or a local as it is, anything else (a slot
+  // load, a parenthesised literal) read once into a const.
+  const once = (name: string, expr: string) => (/^[\w[\]]+$/.test(expr) && !expr.startsWith('v[') ? { decl: '', ref: expr } : { decl: `const ${name}${i} = ${expr}; `, ref: `${name}${i}` });
 
   switch (b.type) {
     case 'NO_CONTACT': {
       const x = bit(b.params.address);
-      return `${o('Q')} = ${inp('IN')} & ((${x.area}[${x.byte}] >> ${x.bit}) & 1);`;
+      return put('Q', foldAnd([inp('IN'), readBit(x.at, x.bit)]));
     }
     case 'NC_CONTACT': {
       const x = bit(b.params.address);
-      return `${o('Q')} = ${inp('IN')} & (((${x.area}[${x.byte}] >> ${x.bit}) & 1) ^ 1);`;
+      return put('Q', foldAnd([inp('IN'), readBitInv(x.at, x.bit)]));
     }
     case 'COIL': {
       const x = bit(b.params.address);
-      return `{ const c = ${inp('IN')}; ${o('Q')} = c; if (c) ${x.area}[${x.byte}] |= ${x.mask}; else ${x.area}[${x.byte}] &= ${~x.mask & 0xff}; }`;
+      const c = inp('IN');
+      if (c === '1') return `${put('Q', '1')} ${x.at} |= ${x.mask};`;
+      if (c === '0') return `${put('Q', '0')} ${x.at} &= ${~x.mask & 0xff};`;
+      const r = once('c', c);
+      // Branch-free: clear the bit, then or in the (0/1) power flow shifted into place.
+      return `${r.decl}${put('Q', r.ref)} ${x.at} = (${x.at} & ${~x.mask & 0xff}) | ${x.bit === 0 ? r.ref : `(${r.ref} << ${x.bit})`};`;
     }
     case 'SET_COIL': {
       const x = bit(b.params.address);
-      return `{ const c = ${inp('IN')}; ${o('Q')} = c; if (c) ${x.area}[${x.byte}] |= ${x.mask}; }`;
+      const c = inp('IN');
+      const r = once('c', c);
+      if (c === '0') return put('Q', '0');
+      return `${r.decl}${put('Q', r.ref)} ${x.at} |= ${x.bit === 0 ? r.ref : `${r.ref} << ${x.bit}`};`;
     }
     case 'RESET_COIL': {
       const x = bit(b.params.address);
-      return `{ const c = ${inp('IN')}; ${o('Q')} = c; if (c) ${x.area}[${x.byte}] &= ${~x.mask & 0xff}; }`;
+      const c = inp('IN');
+      const r = once('c', c);
+      if (c === '0') return put('Q', '0');
+      // ~(c << bit) is negative; the byte store keeps its low 8 bits, clearing only this bit when c is 1.
+      return `${r.decl}${put('Q', r.ref)} ${x.at} &= ~${x.bit === 0 ? r.ref : `(${r.ref} << ${x.bit})`};`;
     }
     case 'AND':
+      return put('Q', foldAnd(a.ports[i].inputs.map((p) => inp(p.name))));
     case 'OR':
-    case 'XOR': {
-      const op = b.type === 'AND' ? ' & ' : b.type === 'OR' ? ' | ' : ' ^ ';
-      return `${o('Q')} = ${a.ports[i].inputs.map((p) => inp(p.name)).join(op)};`;
-    }
+      return put('Q', foldOr(a.ports[i].inputs.map((p) => inp(p.name))));
+    case 'XOR':
+      return put('Q', foldXor(a.ports[i].inputs.map((p) => inp(p.name))));
     case 'NOT':
-      return `${o('Q')} = ${inp('IN')} ^ 1;`;
-    case 'TON':
+      return put('Q', foldNot(inp('IN')));
+    // Timers and counters below load every slot and evaluate every comparison and sum on
+    // every scan, and branch only to choose among ready values: an optimising JIT then has
+    // type feedback for each operation from the first scans and never has to drop back to
+    // the interpreter when a rarely taken path (a reset, a count limit) finally runs.
+    case 'TON': {
       // IEC 61131-3 TON: ET runs from 0 while IN is TRUE, Q := ET >= PT, ET stops at PT; IN FALSE clears both.
-      return `{ const x = ${inp('IN')}; ${preset()} let e = 0; if (x) { if (${m(0)}) { e = ${o('ET')} + dt; if (e > p) e = p; } } ${o('ET')} = e; ${o('Q')} = x && e >= p ? 1 : 0; ${m(0)} = x; }`;
-    case 'TOF':
+      const { decl, p } = preset();
+      const x = once('x', inp('IN'));
+      const [was, t, e] = [`a${i}`, `t${i}`, `e${i}`];
+      return `${x.decl}${decl}const ${was} = ${m(0)}, ${t} = ${o('ET')} + dt; const ${e} = ${x.ref} && ${was} ? (${t} > ${p} ? ${p} : ${t}) : 0; ${put('ET', e)} ${put('Q', `${e} >= ${p} && ${x.ref} ? 1 : 0`)} ${m(0)} = ${x.ref};`;
+    }
+    case 'TOF': {
       // IEC 61131-3 TOF: Q follows IN up; after IN falls ET runs and Q drops at PT; ET stays at PT until IN is TRUE again, which re-arms it.
-      return `{ const x = ${inp('IN')}; ${preset()} let e, q; if (x) { e = 0; q = 1; } else if (${m(0)}) { e = 0; q = p > 0 ? 1 : 0; } else if (${o('Q')}) { e = ${o('ET')} + dt; if (e >= p) { e = p; q = 0; } else q = 1; } else { e = ${o('ET')}; q = 0; } ${o('ET')} = e; ${o('Q')} = q; ${m(0)} = x; }`;
-    case 'TP':
+      const { decl, p } = preset();
+      const x = once('x', inp('IN'));
+      const [was, oq, oe, t, reach, pos, e, q] = ['a', 'oq', 'oe', 't', 'r', 'g', 'e', 'q'].map((n) => `${n}${i}`);
+      return `${x.decl}${decl}const ${was} = ${m(0)}, ${oq} = ${o('Q')}, ${oe} = ${o('ET')}, ${t} = ${oe} + dt, ${reach} = ${t} >= ${p} ? 1 : 0, ${pos} = ${p} > 0 ? 1 : 0; let ${e}, ${q}; if (${x.ref}) { ${e} = 0; ${q} = 1; } else if (${was}) { ${e} = 0; ${q} = ${pos}; } else if (${oq}) { if (${reach}) { ${e} = ${p}; ${q} = 0; } else { ${e} = ${t}; ${q} = 1; } } else { ${e} = ${oe}; ${q} = 0; } ${put('ET', e)} ${put('Q', q)} ${m(0)} = ${x.ref};`;
+    }
+    case 'TP': {
       // IEC 61131-3 TP: a rising IN while no pulse runs starts a pulse of PT; edges during the pulse are ignored; ET holds PT while IN stays TRUE.
-      return `{ const x = ${inp('IN')}; ${preset()} let e = ${o('ET')}, q = ${o('Q')}; if (q) { e = e + dt; if (e >= p) { e = p; q = 0; } } else if (x && !${m(0)}) { e = 0; q = p > 0 ? 1 : 0; } if (!q && !x) e = 0; ${o('ET')} = e; ${o('Q')} = q; ${m(0)} = x; }`;
-    case 'CTU':
+      const { decl, p } = preset();
+      const x = once('x', inp('IN'));
+      const [was, t, reach, pos, e, q] = ['a', 't', 'r', 'g', 'e', 'q'].map((n) => `${n}${i}`);
+      return `${x.decl}${decl}const ${was} = ${m(0)}, ${t} = ${o('ET')} + dt, ${reach} = ${t} >= ${p} ? 1 : 0, ${pos} = ${p} > 0 ? 1 : 0; let ${e} = ${o('ET')}, ${q} = ${o('Q')}; if (${q}) { if (${reach}) { ${e} = ${p}; ${q} = 0; } else ${e} = ${t}; } else if (${x.ref} && !${was}) { ${e} = 0; ${q} = ${pos}; } if (!${q} && !${x.ref}) ${e} = 0; ${put('ET', e)} ${put('Q', q)} ${m(0)} = ${x.ref};`;
+    }
+    case 'CTU': {
       // IEC 61131-3 CTU: IF R THEN CV := 0 ELSIF rising CU AND CV < PVmax THEN CV := CV + 1; Q := CV >= PV.
-      return `{ const u = ${inp('CU')}; let cv = ${o('CV')}; if (${inp('R')}) cv = 0; else if (u && !${m(0)} && cv < ${CV_MAX}) cv = cv + 1; ${m(0)} = u; ${o('CV')} = cv; ${o('Q')} = cv >= ${inp('PV')} ? 1 : 0; }`;
-    case 'CTD':
+      const u = once('u', inp('CU'));
+      const r = inp('R');
+      const [was, c, k, room, n] = ['a', 'c', 'k', 'h', 'n'].map((x) => `${x}${i}`);
+      const counted = `${u.ref} && !${was} && ${room} ? ${k} : ${c}`;
+      const next = r === '0' ? counted : r === '1' ? '0' : `${r} ? 0 : ${counted}`;
+      return `${u.decl}const ${was} = ${m(0)}, ${c} = ${o('CV')}, ${k} = ${c} + 1, ${room} = ${c} < ${CV_MAX} ? 1 : 0; const ${n} = ${next}; ${m(0)} = ${u.ref}; ${put('CV', n)} ${put('Q', `${n} >= ${inp('PV')} ? 1 : 0`)}`;
+    }
+    case 'CTD': {
       // IEC 61131-3 CTD: IF LD THEN CV := PV ELSIF rising CD AND CV > PVmin THEN CV := CV - 1; Q := CV <= 0.
-      return `{ const d = ${inp('CD')}; let cv = ${o('CV')}; if (${inp('LD')}) cv = ${inp('PV')}; else if (d && !${m(0)} && cv > ${CV_MIN}) cv = cv - 1; ${m(0)} = d; ${o('CV')} = cv; ${o('Q')} = cv <= 0 ? 1 : 0; }`;
-    case 'CTUD':
+      const d = once('d', inp('CD'));
+      const ld = inp('LD');
+      const [was, c, k, room, n] = ['a', 'c', 'k', 'h', 'n'].map((x) => `${x}${i}`);
+      const counted = `${d.ref} && !${was} && ${room} ? ${k} : ${c}`;
+      const next = ld === '0' ? counted : ld === '1' ? inp('PV') : `${ld} ? ${inp('PV')} : ${counted}`;
+      return `${d.decl}const ${was} = ${m(0)}, ${c} = ${o('CV')}, ${k} = ${c} - 1, ${room} = ${c} > ${CV_MIN} ? 1 : 0; const ${n} = ${next}; ${m(0)} = ${d.ref}; ${put('CV', n)} ${put('Q', `${n} <= 0 ? 1 : 0`)}`;
+    }
+    case 'CTUD': {
       // IEC 61131-3 CTUD: R dominates, then LD; simultaneous up and down edges cancel.
-      return `{ const u = ${inp('CU')}, d = ${inp('CD')}, ue = u && !${m(0)}, de = d && !${m(1)}; let cv = ${o('CV')}; const pv = ${inp('PV')}; if (${inp('R')}) cv = 0; else if (${inp('LD')}) cv = pv; else if (!(ue && de)) { if (ue && cv < ${CV_MAX}) cv = cv + 1; else if (de && cv > ${CV_MIN}) cv = cv - 1; } ${m(0)} = u; ${m(1)} = d; ${o('CV')} = cv; ${o('QU')} = cv >= pv ? 1 : 0; ${o('QD')} = cv <= 0 ? 1 : 0; }`;
+      const [u, d, ue, de, pv, c, up, dn, hi, lo, n] = ['u', 'd', 'ue', 'de', 'pv', 'c', 'k', 'j', 'h', 'l', 'n'].map((x) => `${x}${i}`);
+      return `const ${u} = ${inp('CU')}, ${d} = ${inp('CD')}, ${ue} = ${u} && !${m(0)} ? 1 : 0, ${de} = ${d} && !${m(1)} ? 1 : 0, ${pv} = ${inp('PV')}, ${c} = ${o('CV')}, ${up} = ${c} + 1, ${dn} = ${c} - 1, ${hi} = ${c} < ${CV_MAX} ? 1 : 0, ${lo} = ${c} > ${CV_MIN} ? 1 : 0; const ${n} = ${inp('R')} ? 0 : ${inp('LD')} ? ${pv} : ${ue} && ${de} ? ${c} : ${ue} && ${hi} ? ${up} : ${de} && ${lo} ? ${dn} : ${c}; ${m(0)} = ${u}; ${m(1)} = ${d}; ${put('CV', n)} ${put('QU', `${n} >= ${pv} ? 1 : 0`)} ${put('QD', `${n} <= 0 ? 1 : 0`)}`;
+    }
     case 'SR':
-      return `${o('Q1')} = ${inp('S1')} | ((${inp('R')} ^ 1) & ${o('Q1')});`;
+      return put('Q1', foldOr([inp('S1'), foldAnd([foldNot(inp('R')), o('Q1')])]));
     case 'RS':
-      return `${o('Q1')} = (${inp('R1')} ^ 1) & (${inp('S')} | ${o('Q1')});`;
-    case 'R_TRIG':
+      return put('Q1', foldAnd([foldNot(inp('R1')), foldOr([inp('S'), o('Q1')])]));
+    case 'R_TRIG': {
       // IEC 61131-3 R_TRIG body: Q := CLK AND NOT M; M := CLK (M starts FALSE).
-      return `{ const c = ${inp('CLK')}; ${o('Q')} = c & (${m(0)} ^ 1); ${m(0)} = c; }`;
-    case 'F_TRIG':
+      const c = once('c', inp('CLK'));
+      return `${c.decl}${put('Q', foldAnd([c.ref, foldNot(m(0))]))} ${m(0)} = ${c.ref};`;
+    }
+    case 'F_TRIG': {
       // IEC 61131-3 F_TRIG body: Q := NOT CLK AND NOT M; M := NOT CLK (M starts FALSE).
-      return `{ const c = ${inp('CLK')} ^ 1; ${o('Q')} = c & (${m(0)} ^ 1); ${m(0)} = c; }`;
+      const c = once('c', foldNot(inp('CLK')));
+      return `${c.decl}${put('Q', foldAnd([c.ref, foldNot(m(0))]))} ${m(0)} = ${c.ref};`;
+    }
     case 'GT':
-      return `${o('Q')} = ${inp('IN1')} > ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} > ${inp('IN2')} ? 1 : 0`);
     case 'GE':
-      return `${o('Q')} = ${inp('IN1')} >= ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} >= ${inp('IN2')} ? 1 : 0`);
     case 'EQ':
-      return `${o('Q')} = ${inp('IN1')} === ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} === ${inp('IN2')} ? 1 : 0`);
     case 'NE':
-      return `${o('Q')} = ${inp('IN1')} !== ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} !== ${inp('IN2')} ? 1 : 0`);
     case 'LE':
-      return `${o('Q')} = ${inp('IN1')} <= ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} <= ${inp('IN2')} ? 1 : 0`);
     case 'LT':
-      return `${o('Q')} = ${inp('IN1')} < ${inp('IN2')} ? 1 : 0;`;
+      return put('Q', `${inp('IN1')} < ${inp('IN2')} ? 1 : 0`);
     case 'MOVE':
-      return `${o('OUT')} = ${inp('IN')};`;
+      return put('OUT', inp('IN'));
     case 'SEL':
-      return `${o('OUT')} = ${inp('G')} ? ${inp('IN1')} : ${inp('IN0')};`;
+      return put('OUT', `${inp('G')} ? ${inp('IN1')} : ${inp('IN0')}`);
     case 'LIMIT':
-      return `${o('OUT')} = Math.min(Math.max(${inp('IN')}, ${inp('MN')}), ${inp('MX')});`;
+      return put('OUT', `Math.min(Math.max(${inp('IN')}, ${inp('MN')}), ${inp('MX')})`);
     case 'SCALE': {
       const { inMin, inMax, outMin, outMax, clamp } = b.params;
       const y = `${lit(outMin)} + (${inp('IN')} - ${lit(inMin)}) * (${lit(outMax)} - ${lit(outMin)}) / (${lit(inMax)} - ${lit(inMin)})`;
-      if (!clamp) return `${o('OUT')} = ${y};`;
-      return `${o('OUT')} = Math.min(Math.max(${y}, ${lit(Math.min(outMin, outMax))}), ${lit(Math.max(outMin, outMax))});`;
+      if (!clamp) return put('OUT', y);
+      return put('OUT', `Math.min(Math.max(${y}, ${lit(Math.min(outMin, outMax))}), ${lit(Math.max(outMin, outMax))})`);
     }
     case 'WORD_IN': {
       const x = addr(b.params.address);
       const A = x.area;
       const k = x.byte;
-      if (x.size === 'B') return `${o('OUT')} = ${b.params.signed ? `(${A}[${k}] << 24) >> 24` : `${A}[${k}]`};`;
+      if (x.size === 'B') return put('OUT', b.params.signed ? `(${A}[${k}] << 24) >> 24` : `${A}[${k}]`);
       if (x.size === 'W') {
         const w = `(${A}[${k}] | (${A}[${k + 1}] << 8))`;
-        return `${o('OUT')} = ${b.params.signed ? `(${w} << 16) >> 16` : w};`;
+        return put('OUT', b.params.signed ? `(${w} << 16) >> 16` : w);
       }
       const d = `(${A}[${k}] | (${A}[${k + 1}] << 8) | (${A}[${k + 2}] << 16) | (${A}[${k + 3}] << 24))`;
-      return `${o('OUT')} = ${d} ${b.params.signed ? '| 0' : '>>> 0'};`;
+      return put('OUT', `${d} ${b.params.signed ? '| 0' : '>>> 0'}`);
     }
     case 'WORD_OUT': {
       const x = addr(b.params.address);
       const A = x.area;
       const k = x.byte;
       const bytes = x.size === 'B' ? 1 : x.size === 'W' ? 2 : 4;
-      const writes = Array.from({ length: bytes }, (_, j) => `${A}[${k + j}] = ${j === 0 ? 'w' : `w >> ${8 * j}`} & 255;`).join(' ');
+      const w = `w${i}`;
+      const writes = Array.from({ length: bytes }, (_, j) => `${A}[${k + j}] = ${j === 0 ? w : `${w} >> ${8 * j}`} & 255;`).join(' ');
       // Rounded to the nearest integer (as REAL_TO_INT), non-finite as 0, then wrapped to the width.
-      return `{ let w = ${inp('IN')}; w = w - w === 0 ? Math.round(w) : 0; ${writes} }`;
+      return `let ${w} = ${inp('IN')}; ${w} = ${w} - ${w} === 0 ? Math.round(${w}) : 0; ${writes}`;
     }
     case 'CONST':
-      return `${o('OUT')} = ${lit(b.params.value)};`;
+      return put('OUT', lit(b.params.value));
     case 'CONST_BOOL':
-      return `${o('Q')} = ${lit(b.params.value)};`;
+      return put('Q', lit(b.params.value));
     case 'PREV_BOOL':
-      return `${o('Q')} = ${m(0)};`;
+      return put('Q', m(0));
     case 'PREV_NUM':
-      return `${o('OUT')} = ${m(0)};`;
+      return put('OUT', m(0));
   }
 }
 
 /** After every block has run, PREV blocks remember their input for the next scan. */
-function emitEpilogue(a: AnalysedSheet, L: Layout): string[] {
+function emitEpilogue(a: AnalysedSheet, L: Layout, C: Chunk): string[] {
   const lines: string[] = [];
   a.sheet.blocks.forEach((b, i) => {
     if (b.type !== 'PREV_BOOL' && b.type !== 'PREV_NUM') return;
     const d = a.drivers[i].get('IN');
-    const value = d ? `v[${L.out[d.block].get(d.port)}]` : '0';
+    const value = d ? driverValue(a, L, C, d) : '0';
     lines.push(`v[${L.mem[i][0]}] = ${value};`);
   });
   return lines;
 }
 
-/** Builds the generated JavaScript source (exposed for inspection and tests). */
-export function generateSource(a: AnalysedSheet, L: Layout = layout(a)): string[] {
-  const chunks: string[] = [];
-  let current: string[] = [];
-  for (const i of a.order) {
-    current.push(emitBlock(a, L, i));
-    if (current.length >= BLOCKS_PER_CHUNK) {
-      chunks.push(current.join('\n'));
-      current = [];
+/** Builds the generated JavaScript source, one string per chunk (exposed for inspection and tests). */
+export function generateSource(a: AnalysedSheet, L: Layout = layout(a), blocksPerChunk: number = BLOCKS_PER_CHUNK): string[] {
+  const n = a.order.length;
+  const chunkOf = new Int32Array(a.sheet.blocks.length);
+  a.order.forEach((blockIndex, k) => (chunkOf[blockIndex] = Math.floor(k / blocksPerChunk)));
+  const chunkCount = Math.max(1, Math.ceil(n / blocksPerChunk));
+  const last = chunkCount - 1;
+  // Which output slots a later block in the same chunk reads (PREV inputs are read by the
+  // epilogue, which runs at the end of the last chunk).
+  const readHere: Set<number>[] = Array.from({ length: chunkCount }, () => new Set());
+  a.sheet.blocks.forEach((b, i) => {
+    const prev = b.type === 'PREV_BOOL' || b.type === 'PREV_NUM';
+    for (const d of a.drivers[i].values()) {
+      const consumerChunk = prev ? last : chunkOf[i];
+      if (chunkOf[d.block] === consumerChunk) readHere[consumerChunk].add(L.out[d.block].get(d.port) as number);
     }
+  });
+  const chunks: string[] = [];
+  for (let c = 0; c < chunkCount; c++) {
+    const C: Chunk = { locals: new Set(), readHere: readHere[c] };
+    const lines = a.order.slice(c * blocksPerChunk, (c + 1) * blocksPerChunk).map((i) => emitBlock(a, L, C, i));
+    if (c === last) lines.push(...emitEpilogue(a, L, C));
+    chunks.push(lines.map((line) => line.trim()).filter((line) => line !== '').join('\n'));
   }
-  current.push(...emitEpilogue(a, L));
-  if (current.length > 0) chunks.push(current.join('\n'));
   return chunks;
 }
 
@@ -259,11 +433,23 @@ export function generateSource(a: AnalysedSheet, L: Layout = layout(a)): string[
  * sheet; a good one becomes a {@link CompiledSheet} whose `scan` runs generated code.
  */
 export function compileSheet(input: unknown): Result<CompiledSheet, Problem> {
+  return compileSheetWith(input, {});
+}
+
+/** Code-generation options, for tests and benchmarks; {@link compileSheet} uses the defaults. */
+export type CompileOptions = {
+  /** Blocks per generated function (default {@link BLOCKS_PER_CHUNK}); small values exercise chunk boundaries. */
+  blocksPerChunk?: number;
+};
+
+/** {@link compileSheet} with explicit code-generation options. */
+export function compileSheetWith(input: unknown, options: CompileOptions): Result<CompiledSheet, Problem> {
   const analysed = analyseSheet(input);
   if (!analysed.ok) return analysed;
   const a = analysed.value;
   const L = layout(a);
-  const fns = generateSource(a, L).map(
+  const perChunk = Math.max(1, Math.floor(options.blocksPerChunk ?? BLOCKS_PER_CHUNK));
+  const fns = generateSource(a, L, perChunk).map(
     (body) => new Function('v', 'I', 'Q', 'M', 'dt', `"use strict";\n${body}`) as ChunkFn,
   );
   const initial = new Float64Array(L.slots);
