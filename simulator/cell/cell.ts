@@ -40,7 +40,7 @@ import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/
 import { validateCellDocument, validateStagedRows, zodProblems } from '@/simulator/schema/validate';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
 import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
-import { isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
+import { evaluateCondition, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
 import { moveTime } from '@/simulator/controller/motion';
 import {
   INPUT_FAMILIES,
@@ -135,6 +135,18 @@ function contact(closed: boolean): Src {
   return closed ? CLOSED : OPEN;
 }
 const NO_WIRE_FAULT = { open: false, short24: false, short0: false };
+/** The hardware causes of a healthy cell: one shared, frozen value, so an idle refresh allocates nothing. */
+const NO_CAUSES = Object.freeze([]) as unknown as string[];
+
+/** What a fault-free row delivers now (0/1, or the word); see `CellRuntime.buildFastRows`. */
+type RowReader = () => number;
+/** What a fault-free source puts on its row now. */
+type SrcReader = () => Src;
+
+/** True when a digital input sees a source as ON (the supply reaches it, for its wiring). */
+function digitalOn(s: Src, sinking: boolean): boolean {
+  return s.k === 'contact' ? s.closed : s.k === 'drive' ? s.on && sinking : s.k === 'sensor' ? s.on && (s.out === 'PNP') === sinking : false;
+}
 
 function err(code: string, message: string, path: (string | number)[] = []): { ok: false; errors: Problem[] } {
   return { ok: false, errors: [{ path, code, message }] };
@@ -220,6 +232,11 @@ class CellRuntime {
   readonly arrOf = new Map<object, Float64Array>();
   /** Inputs and hardware causes of the last refresh sent to the controller, to skip identical idle refreshes. */
   lastInputs: number[] = [];
+  /** The refresh's input buffer, swapped with `lastInputs` when a refresh is sent (no allocation per refresh). */
+  inputBuffer: number[] = [];
+  /** Last raw word and its decoded value per input point (a WI point's word rarely changes). */
+  wordRaw: number[] = [];
+  wordValue: number[] = [];
   lastHardware = '';
   lastHardwareList: string[] = [];
   pendingDt = 0;
@@ -228,6 +245,36 @@ class CellRuntime {
   readonly plcInRows: number[] = [];
   readonly ctlInRows: number[] = [];
   readonly loadRows: number[] = [];
+  /** Per row: a reader specialised to the objects it reads while the row is fault-free, else null. */
+  fastRows: (RowReader | null)[] = [];
+  /** Byte and bit mask in the I area of each PLC input row (`plcInRows` order; unused for word and analog rows). */
+  readonly plcInByte: number[] = [];
+  readonly plcInMask: number[] = [];
+  /** Driven device of each load row (`loadRows` order). */
+  readonly loadDevs: DevState[] = [];
+  /** Devices an output can command: the only ones that can be travelling. */
+  readonly actuators: DevState[] = [];
+  /**
+   * Whether what the wiring last delivered still holds, per consumer: the PLC's input bytes
+   * (kept in `plcInCache`), the controller's input values (`lastInputs`) and the loads. Set
+   * after a reading taken while nothing time-dependent was in play ({@link wiringSettled});
+   * cleared by anything that can change a row's source — an event, a fault, the controller
+   * writing its outputs, a PLC output byte that feeds a row, a device command.
+   */
+  plcInValid = false;
+  ctlInValid = false;
+  loadsValid = false;
+  plcInCache: Uint8Array = new Uint8Array(0);
+  /**
+   * The Q bytes that rows read, as of the latest reading: while any reading is held, Q still
+   * equals this copy (forces come as events, which invalidate), so a scan that leaves Q
+   * different from it has changed what a row delivers.
+   */
+  qFedEnd = 0;
+  qFed: Uint8Array = new Uint8Array(0);
+  /** Every controller input module's channel array, and the one each controller input row feeds. */
+  readonly ctlInArrs: Float64Array[] = [];
+  readonly ctlRowArrs: Float64Array[] = [];
   readonly rowIndex = new Map<string, number>();
   readonly prevReading: InputReading[];
   /** Bytes of the I area that wiring or forces can set (cleared before each scan). */
@@ -288,7 +335,64 @@ class CellRuntime {
     }
     this.rowFaults = plans.map(() => null);
     this.busSrc = plans.map((p) => Array.from({ length: p.bits }, () => OFF));
+    // Hot-path tables, resolved once: the wiring plan never changes during a run.
+    for (const i of this.plcInRows) {
+      const sink = plans[i].sink;
+      const bit = sink.kind === 'plc-bit' ? (sink.address.bit ?? 0) : 0;
+      this.plcInByte.push(sink.kind === 'plc-bit' ? sink.address.byte : 0);
+      this.plcInMask.push(1 << bit);
+    }
+    const LIGHTS = ['numeric-display', 'stack-light', 'pilot-light', 'illuminated-button'];
+    for (const i of this.loadRows) {
+      const sink = plans[i].sink;
+      if (sink.kind !== 'device') continue;
+      const d = this.devs.get(sink.device.id)!;
+      this.loadDevs.push(d);
+      if (!LIGHTS.includes(d.dev.type) && !this.actuators.includes(d)) this.actuators.push(d);
+    }
+    this.ctlInArrs.push(...this.ctlIn.values());
+    for (const i of this.ctlInRows) {
+      const sink = plans[i].sink;
+      this.ctlRowArrs.push(sink.kind === 'controller' ? this.arrOf.get(sink.module)! : new Float64Array(0));
+    }
+    this.plcInCache = new Uint8Array(this.inputBytes);
+    for (const p of plans) {
+      const s = p.source;
+      if (s.kind === 'plc-bit') this.qFedEnd = Math.max(this.qFedEnd, s.address.byte + 1);
+      // A word source may span up to four bytes (a double word).
+      if (s.kind === 'plc-word') this.qFedEnd = Math.max(this.qFedEnd, s.address.byte + 4);
+    }
+    this.qFedEnd = Math.min(this.qFedEnd, this.image.Q.length);
+    this.qFed = new Uint8Array(this.qFedEnd);
+    this.buildFastRows();
     this.actor = createActor(controllerMachine, { input: { config: doc.controller } });
+  }
+
+  /** Records the Q bytes a reading is being taken from (see `qFed`). */
+  noteFedQ(): void {
+    if (this.qFed.length > 0) this.qFed.set(this.image.Q.subarray(0, this.qFed.length));
+  }
+
+  /** Forgets every held wiring reading (see `plcInValid`). */
+  invalidateWiring(): void {
+    this.plcInValid = false;
+    this.ctlInValid = false;
+    this.loadsValid = false;
+  }
+
+  /**
+   * True when no row's reading can change with time alone: no fault card (chatter, drift,
+   * timed and triggered cards, link watchdogs), no fieldbus exchange, and every commanded
+   * device at the end of its travel now. Readings taken then hold until an invalidation.
+   */
+  wiringSettled(): boolean {
+    if (this.cards.length > 0 || this.busMs !== null) return false;
+    const acts = this.actuators;
+    for (let k = 0; k < acts.length; k++) {
+      const d = acts[k];
+      if (this.posAt(d, this.now) !== (d.cmd ? 1 : 0)) return false;
+    }
+    return true;
   }
 
   start(): void {
@@ -306,6 +410,9 @@ class CellRuntime {
     this.inArrs = this.inPoints.map((p) => this.ctlIn.get(`${p.rack}.${p.slot}`) ?? null);
     this.outArrs = this.outPoints.map((p) => this.ctlOut.get(`${p.rack}.${p.slot}`) ?? null);
     this.lastInputs = [];
+    this.ctlInValid = false;
+    this.wordRaw = this.inPoints.map(() => NaN);
+    this.wordValue = this.inPoints.map(() => 0);
   }
 
   // ---------------------------------------------------------------- devices
@@ -348,6 +455,7 @@ class CellRuntime {
     if (d.cmd === on) return;
     this.rebase(d);
     d.cmd = on;
+    this.invalidateWiring();
   }
 
   detecting(d: DevState): boolean {
@@ -458,10 +566,160 @@ class CellRuntime {
   }
 
   /**
+   * Specialises the reading of every fault-free row into a closure over exactly the objects
+   * it reads (the device state, the Q byte, the controller channel), so the scan and the
+   * refresh skip the generic source → wire → input walk and its lookups. Faults, dead
+   * modules and link loss change only in {@link rebuildFaults}, which rebuilds these; a row
+   * they touch keeps the generic path. Each reader gives what the generic path gives.
+   */
+  buildFastRows(): void {
+    this.fastRows = this.plans.map((p, i) => (this.linkLoss || this.rowFaults[i] !== null ? null : this.fastRow(p, i)));
+  }
+
+  fastRow(p: RowPlan, i: number): RowReader | null {
+    const sink = p.sink;
+    if (sink.kind === 'plc-analog' || (sink.kind === 'controller' && sink.module.type === 'analog-in')) return null;
+    if (p.bits === 1 && sink.kind === 'device' && sink.terminalKind === 'load') {
+      const src = this.fastSource(p, i, 0);
+      if (!src) return null;
+      return () => {
+        const s = src();
+        return s.k === 'drive' && s.on ? 1 : 0;
+      };
+    }
+    if (p.bits === 1 && (sink.kind === 'plc-bit' || sink.kind === 'controller')) {
+      const src = this.fastSource(p, i, 0);
+      if (!src) return null;
+      const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;
+      const prev = this.prevReading;
+      return () => {
+        const on = digitalOn(src(), sinking);
+        prev[i] = on ? 'on' : 'off';
+        return on ? 1 : 0;
+      };
+    }
+    if (p.bits > 1 || sink.kind === 'plc-word-bits' || (sink.kind === 'device' && sink.terminalKind === 'word')) {
+      if (p.source.kind === 'controller') {
+        const bits: SrcReader[] = [];
+        for (let b = 0; b < p.bits; b++) {
+          const src = this.fastSource(p, i, b);
+          if (!src) return null;
+          bits.push(src);
+        }
+        return () => {
+          let word = 0;
+          for (let b = 0; b < bits.length; b++) {
+            const s = bits[b]();
+            if (s.k === 'drive' && s.on) word |= 1 << b;
+          }
+          return word;
+        };
+      }
+      const src = this.fastSource(p, i, 0);
+      if (!src) return null;
+      return () => {
+        const s = src();
+        return s.k === 'word' ? s.value : 0;
+      };
+    }
+    return null;
+  }
+
+  /**
+   * A reader of what row `i`'s fault-free source puts on it (bit `bit` of a controller word
+   * source), matching {@link rowSource}; null where only the generic path is worth having.
+   */
+  fastSource(p: RowPlan, i: number, bit: number): SrcReader | null {
+    if (p.isLink && this.busMs !== null) {
+      const held = this.busSrc[i];
+      const k = Math.min(bit, held.length - 1);
+      return () => held[k];
+    }
+    const s = p.source;
+    switch (s.kind) {
+      case 'plc-bit': {
+        if (this.moduleDead(s.module.id)) return null;
+        const img = this.image;
+        const byte = s.address.byte;
+        const shift = s.address.bit ?? 0;
+        return () => (((img.Q[byte] >> shift) & 1) === 1 ? DRIVE_ON : OFF);
+      }
+      case 'plc-word': {
+        if (this.moduleDead(s.module.id)) return null;
+        const img = this.image;
+        const addr = s.address;
+        const bits = p.bits;
+        return () => {
+          const w = readAddress(img, addr);
+          return { k: 'word', value: bits >= 32 ? w : w % 2 ** bits };
+        };
+      }
+      case 'controller': {
+        const m = s.module;
+        if (this.moduleDead(m.id) || m.type === 'analog-out') return null;
+        const arr = this.arrOf.get(m);
+        const ch = s.channel + (p.bits > 1 ? bit : 0);
+        if (!arr) return () => OFF;
+        return () => ((arr[ch] ?? 0) !== 0 ? DRIVE_ON : OFF);
+      }
+      case 'device':
+        return this.fastDeviceSource(this.devOf.get(s.device)!, s.terminal);
+    }
+  }
+
+  /** {@link deviceSource} for a device without device faults, specialised to its type and terminal. */
+  fastDeviceSource(d: DevState, terminal: string): SrcReader | null {
+    const dev = d.dev;
+    if (this.devFaults.has(dev.id)) return null;
+    switch (dev.type) {
+      case 'push-button':
+      case 'illuminated-button': {
+        // contactClosed(kind, actuated): an NO contact is closed when actuated, an NC one when not.
+        const no = dev.contact === 'NO';
+        return dev.action === 'momentary' ? () => contact(d.pressed === no) : () => contact(d.latched === no);
+      }
+      case 'selector-switch': {
+        // Closed when the terminal is `pos<position>`; a terminal of any other shape never closes.
+        const m = /^pos(0|[1-9]\d*)$/.exec(terminal);
+        const at = m ? Number(m[1]) : -1;
+        return () => contact(d.position === at);
+      }
+      case 'e-stop':
+        return () => contact(!d.latched);
+      case 'guard-switch': {
+        const no = dev.contact === 'NO';
+        return () => contact(!d.active === no);
+      }
+      case 'proximity-sensor':
+      case 'photo-eye':
+      case 'part-sensor': {
+        const pair = SENSOR[dev.output];
+        const inverted = dev.type === 'photo-eye' && dev.mode === 'light-on';
+        return inverted ? () => pair[d.active ? 0 : 1] : () => pair[d.active ? 1 : 0];
+      }
+      case 'gripper':
+        return terminal === 'closed' ? () => contact(this.posAt(d, this.now) >= 1) : () => contact(this.posAt(d, this.now) <= 0);
+      case 'vacuum-cup':
+        return () => {
+          const pos = this.posAt(d, this.now);
+          return contact(d.cmd ? pos >= 1 : pos > 0);
+        };
+      case 'conveyor':
+        return () => contact(this.posAt(d, this.now) >= 1);
+      case 'potentiometer':
+        return null;
+      default:
+        return () => OFF;
+    }
+  }
+
+  /**
    * The value row `i` delivers (0/1 for digital rows): a fast path for fault-free digital rows,
    * where the input sees either the full supply or nothing (ON or OFF for every input type).
    */
   readValue(i: number): number {
+    const fast = this.fastRows[i];
+    if (fast !== null) return fast();
     const p = this.plans[i];
     if (p.bits === 1 && this.rowFaults[i] === null && !this.linkLoss) {
       const sink = p.sink;
@@ -530,11 +788,10 @@ class CellRuntime {
     else if (src.k === 'drive') volts = src.on && sinking ? 24 : 0;
     else if (src.k === 'sensor') volts = src.on && (src.out === 'PNP') === sinking ? 24 : 0;
     else volts = 0;
-    let reading = classifyDigitalInput(volts, inputType);
+    const reading = classifyDigitalInput(volts, inputType);
     // In the transition band an input keeps its last state (what a real input most often does).
     const value = reading === 'on' ? 1 : reading === 'off' ? 0 : this.prevReading[i] === 'on' ? 1 : 0;
     if (reading !== 'undefined' && commit) this.prevReading[i] = reading;
-    else reading = 'undefined';
     return { level: volts, unit: 'V', reading, value };
   }
 
@@ -547,13 +804,37 @@ class CellRuntime {
 
   scanPlc(): void {
     // Every input bit is rewritten from the wiring each scan; unwired bits read 0.
-    this.image.I.fill(0, 0, this.inputBytes);
-    for (const i of this.plcInRows) {
+    const I = this.image.I;
+    if (this.plcInValid) I.set(this.plcInCache);
+    else this.readPlcInputs(I);
+    this.applyPlcForces('I');
+    this.sheet.scan(this.plcState, this.image, this.scanMs);
+    this.applyPlcForces('Q');
+    this.applyPlcForces('M');
+    // A row fed by an output byte the scan (or a force) changed reads anew.
+    const Q = this.image.Q;
+    const fed = this.qFed;
+    for (let b = 0; b < fed.length; b++) {
+      if (fed[b] !== Q[b]) {
+        fed.set(Q.subarray(0, fed.length));
+        this.invalidateWiring();
+        break;
+      }
+    }
+    this.updateLoads();
+  }
+
+  /** Writes the wiring's view of every PLC input into the first `inputBytes` of I, and keeps a copy. */
+  readPlcInputs(I: Uint8Array): void {
+    I.fill(0, 0, this.inputBytes);
+    const rows = this.plcInRows;
+    for (let k = 0; k < rows.length; k++) {
+      const i = rows[k];
       const p = this.plans[i];
       const sink = p.sink;
-      if (this.sinkModuleDead(sink)) continue;
+      if (this.deadModules.size > 0 && this.sinkModuleDead(sink)) continue;
       if (sink.kind === 'plc-bit') {
-        if (this.readValue(i) !== 0) setBit(this.image, 'I', sink.address.byte, sink.address.bit ?? 0, true);
+        if (this.readValue(i) !== 0) I[this.plcInByte[k]] |= this.plcInMask[k];
         continue;
       }
       const r = this.readRow(i, true);
@@ -567,11 +848,9 @@ class CellRuntime {
         setWord(this.image, 'I', sink.address.byte, counts & 0xffff);
       }
     }
-    this.applyPlcForces('I');
-    this.sheet.scan(this.plcState, this.image, this.scanMs);
-    this.applyPlcForces('Q');
-    this.applyPlcForces('M');
-    this.updateLoads();
+    this.plcInCache.set(I.subarray(0, this.inputBytes));
+    this.plcInValid = this.wiringSettled();
+    this.noteFedQ();
   }
 
   applyPlcForces(area: 'I' | 'Q' | 'M'): void {
@@ -580,10 +859,17 @@ class CellRuntime {
   }
 
   updateLoads(): void {
-    for (const i of this.loadRows) {
+    // Re-applying the same readings would change nothing (same lamps, same display, same commands).
+    if (this.loadsValid) return;
+    // Valid once applied, unless a command changes below (which invalidates).
+    this.loadsValid = this.wiringSettled();
+    this.noteFedQ();
+    const rows = this.loadRows;
+    for (let k = 0; k < rows.length; k++) {
+      const i = rows[k];
       const sink = this.plans[i].sink;
       if (sink.kind !== 'device') continue;
-      const d = this.devs.get(sink.device.id)!;
+      const d = this.loadDevs[k];
       const dev = d.dev;
       const value = this.readValue(i);
       if (dev.type === 'numeric-display') {
@@ -600,36 +886,9 @@ class CellRuntime {
   // ---------------------------------------------------------------- controller
 
   refreshController(): void {
-    for (const a of this.ctlIn.values()) a.fill(0);
-    for (const i of this.ctlInRows) {
-      const p = this.plans[i];
-      const sink = p.sink;
-      if (sink.kind !== 'controller' || this.sinkModuleDead(sink)) continue;
-      const arr = this.arrOf.get(sink.module)!;
-      const v = this.readValue(i);
-      if (p.bits > 1) for (let b = 0; b < p.bits; b++) arr[sink.channel + b] = (v >> b) & 1;
-      else arr[sink.channel] = v;
-    }
-    const pts = this.inPoints;
-    const values = new Array<number>(pts.length);
-    for (let k = 0; k < pts.length; k++) {
-      const pt = pts[k];
-      const arr = this.inArrs[k];
-      let v = 0;
-      if (!arr) v = 0;
-      else if (pt.family === 'WI') {
-        let raw = 0;
-        for (let b = 0; b < pt.bits; b++) if (arr[pt.channel + b] !== 0) raw |= 1 << b;
-        const dec = decodeWord(raw, pt.encoding, pt.bits);
-        v = dec.ok ? dec.value : -1;
-      } else if (pt.family === 'AI') v = arr[pt.channel];
-      else v = (arr[pt.channel] !== 0) !== pt.invert ? 1 : 0;
-      if (this.forces.size > 0) {
-        const f = this.forces.get(pt.ref);
-        if (f !== undefined) v = f;
-      }
-      values[k] = v;
-    }
+    // Held readings are exactly what the last refresh read (`lastInputs` always ends up
+    // holding those), and the input channels still show them.
+    const values = this.ctlInValid ? this.lastInputs : this.readControllerInputs();
     const hardware = this.hardwareCauses();
     const hwKey = hardware.length === 0 ? '' : hardware.join('\n');
     if (this.canCoast(values, hwKey)) {
@@ -639,7 +898,63 @@ class CellRuntime {
       this.pendingDt += this.refreshMs;
       return;
     }
+    this.sendRefresh(values, hardware, hwKey);
+  }
+
+  /** Reads the controller's input rows into its channels, and its logical input values into `inputBuffer`. */
+  readControllerInputs(): number[] {
+    const ins = this.ctlInArrs;
+    for (let k = 0; k < ins.length; k++) ins[k].fill(0);
+    const rows = this.ctlInRows;
+    for (let k = 0; k < rows.length; k++) {
+      const i = rows[k];
+      const p = this.plans[i];
+      const sink = p.sink;
+      if (sink.kind !== 'controller' || (this.deadModules.size > 0 && this.sinkModuleDead(sink))) continue;
+      const arr = this.ctlRowArrs[k];
+      const v = this.readValue(i);
+      if (p.bits > 1) for (let b = 0; b < p.bits; b++) arr[sink.channel + b] = (v >> b) & 1;
+      else arr[sink.channel] = v;
+    }
+    const pts = this.inPoints;
+    if (this.inputBuffer.length !== pts.length) this.inputBuffer = new Array<number>(pts.length);
+    const values = this.inputBuffer;
+    for (let k = 0; k < pts.length; k++) {
+      const pt = pts[k];
+      const arr = this.inArrs[k];
+      let v = 0;
+      if (!arr) v = 0;
+      else if (pt.family === 'WI') {
+        let raw = 0;
+        for (let b = 0; b < pt.bits; b++) if (arr[pt.channel + b] !== 0) raw |= 1 << b;
+        if (raw === this.wordRaw[k]) v = this.wordValue[k];
+        else {
+          const dec = decodeWord(raw, pt.encoding, pt.bits);
+          v = dec.ok ? dec.value : -1;
+          this.wordRaw[k] = raw;
+          this.wordValue[k] = v;
+        }
+      } else if (pt.family === 'AI') v = arr[pt.channel];
+      else v = (arr[pt.channel] !== 0) !== pt.invert ? 1 : 0;
+      if (this.forces.size > 0) {
+        const f = this.forces.get(pt.ref);
+        if (f !== undefined) v = f;
+      }
+      values[k] = v;
+    }
+    this.ctlInValid = this.wiringSettled();
+    this.noteFedQ();
+    return values;
+  }
+
+  /** Sends one refresh's inputs (and any time held back) to the controller, then writes its outputs. */
+  sendRefresh(values: number[], hardware: string[], hwKey: string): void {
+    // Time held back in a wait or pause reaches that step first, with the inputs it was held
+    // under: a wait that new inputs end hands the rest of its refresh to the next step, which
+    // must get this refresh's time only, as it would have without coasting.
+    if (this.pendingDt > 0 && this.inTimedStep(this.ctx())) this.syncController();
     const inputs: Record<string, number> = {};
+    const pts = this.inPoints;
     for (let k = 0; k < pts.length; k++) inputs[pts[k].ref] = values[k];
     for (const [t, v] of this.forces) {
       if (t.startsWith('%') || inputs[t] !== undefined) continue;
@@ -647,7 +962,11 @@ class CellRuntime {
       if (p && INPUT_FAMILIES.has(p.family)) inputs[t] = v;
     }
     this.logicalIn = inputs;
-    this.lastInputs = values;
+    // The buffers swap: this refresh's values become the reference, the old reference the next buffer.
+    if (values !== this.lastInputs) {
+      this.inputBuffer = this.lastInputs;
+      this.lastInputs = values;
+    }
     this.lastHardware = hwKey;
     this.lastHardwareList = hardware;
     const dt = this.refreshMs + this.pendingDt;
@@ -664,22 +983,54 @@ class CellRuntime {
     this.actor.send({ type: 'TICK', dt, inputs: this.logicalIn, hardware: this.lastHardwareList });
   }
 
+  /**
+   * True when this refresh may be held back: the controller reads exactly what it read at the
+   * last refresh sent, and running it would only let time pass — no pulse, cycle-done signal,
+   * wait timeout, pause or move would end by the time it covers. Edges are off (the inputs
+   * repeat), so no guard can change its mind either. Exact: the held-back time is handed over
+   * in one TICK, and every time sum the machine keeps (`timeMs`, `stepElapsedMs`, a move's
+   * `elapsedMs`) adds up the same.
+   */
   canCoast(values: number[], hwKey: string): boolean {
     if (hwKey !== this.lastHardware || values.length !== this.lastInputs.length) return false;
     for (let k = 0; k < values.length; k++) if (values[k] !== this.lastInputs[k]) return false;
     const snap = this.actor.getSnapshot();
     const ctx = snap.context;
-    if (ctx.pulses.length > 0 || ctx.timeMs < ctx.cycleDoneUntilMs) return false;
+    // The controller's clock once this refresh had run.
+    const until = ctx.timeMs + this.pendingDt + this.refreshMs;
+    for (let k = 0; k < ctx.pulses.length; k++) if (until >= ctx.pulses[k].untilMs) return false;
+    if (ctx.timeMs < ctx.cycleDoneUntilMs && until >= ctx.cycleDoneUntilMs) return false;
     const v = snap.value;
     if (v === 'cycling') {
       const m = ctx.motion;
-      if (!m || m.kind !== 'move') return false;
       const step = ctx.config.routine[ctx.pc];
-      if (!step || step.kind !== 'move' || step.pose !== m.poseId) return false;
+      if (!step) return false;
+      const stepUntil = ctx.stepElapsedMs + this.pendingDt + this.refreshMs;
+      if (m === null && step.kind === 'wait') {
+        // The condition was false at the last refresh with these inputs and outputs.
+        return !evaluateCondition(ctx, step.condition) && (step.timeoutMs === undefined || stepUntil < step.timeoutMs);
+      }
+      if (m === null && step.kind === 'pause') return stepUntil < step.ms;
+      if (!m || m.kind !== 'move') return false;
+      if (step.kind !== 'move' || step.pose !== m.poseId) return false;
       return m.elapsedMs + this.pendingDt + this.refreshMs < moveTime(m.length, m.vmax, m.amax) * 1000;
     }
     if (ctx.motion !== null) return false;
+    // Holding at rest: the refresh would only confirm speed 0 (resuming needs a start edge).
+    if (v === 'holding') return ctx.speed === 0;
     return v === 'ready' || v === 'stopped' || v === 'faulted' || v === 'off' || (typeof v === 'object' && (v as Record<string, string>).eStopped === 'halted');
+  }
+
+  /** True when the routine sits in a wait or pause step (the steps that count `stepElapsedMs`). */
+  inTimedStep(ctx: ControllerContext): boolean {
+    if (ctx.motion !== null || this.actor.getSnapshot().value !== 'cycling') return false;
+    const step = ctx.config.routine[ctx.pc];
+    return step !== undefined && (step.kind === 'wait' || step.kind === 'pause');
+  }
+
+  /** Time spent in the current step, including time held back by {@link canCoast}. */
+  stepElapsedNow(ctx: ControllerContext): number {
+    return this.pendingDt > 0 && this.inTimedStep(ctx) ? ctx.stepElapsedMs + this.pendingDt : ctx.stepElapsedMs;
   }
 
   /** Arm pose and speed now, including time held back while coasting through a move. */
@@ -693,6 +1044,7 @@ class CellRuntime {
   }
 
   hardwareCauses(): string[] {
+    if (this.deadModules.size === 0 && !this.linkLoss) return NO_CAUSES;
     const causes: string[] = [];
     for (const m of this.doc.controller.modules) if (this.moduleDead(m.id)) causes.push(`module "${m.id}" (rack ${m.rack} slot ${m.slot}) failed`);
     if (this.busMs !== null && !this.linkHealthy()) causes.push('fieldbus link lost');
@@ -726,6 +1078,7 @@ class CellRuntime {
   }
 
   writeControllerOutputs(): void {
+    this.invalidateWiring();
     const ctx = this.ctx();
     const { state } = this.stateName();
     const out: Record<string, number> = {};
@@ -927,6 +1280,8 @@ class CellRuntime {
     });
     // A restored fieldbus link resynchronises at its next exchange, not from stale data.
     if (wasLoss && !this.linkLoss && this.busMs !== null) this.lastBusMs = null;
+    this.buildFastRows();
+    this.invalidateWiring();
   }
 
   checkTimedFaults(): void {
@@ -950,8 +1305,10 @@ class CellRuntime {
     next = Math.min(next, nextMultiple(n, this.scanMs), nextMultiple(n, this.refreshMs));
     if (this.busMs !== null) next = Math.min(next, nextMultiple(n, this.busMs));
     for (const c of this.cards) if (c.status === 'armed' && c.card.at !== undefined && c.card.at > n) next = Math.min(next, c.card.at);
-    for (const d of this.devs.values()) {
-      const a = this.arrival(d);
+    // Only a commanded device can be travelling (see `actuators`).
+    const acts = this.actuators;
+    for (let k = 0; k < acts.length; k++) {
+      const a = this.arrival(acts[k]);
       if (a !== null && a > n) next = Math.min(next, a);
     }
     return next;
@@ -992,6 +1349,7 @@ class CellRuntime {
     const parsed = cellEventSchema.safeParse(input);
     if (!parsed.success) return { ok: false, errors: zodProblems(parsed.error.issues) };
     const e = parsed.data;
+    this.invalidateWiring();
     const r = this.applyParsed(e);
     if (!r.ok) return r;
     this.log.push({ t: this.now, event: e });
@@ -1356,7 +1714,7 @@ class CellRuntime {
         powered: state !== 'off',
         servoOn: ctx.servoOn,
         pc: ctx.pc,
-        stepElapsedMs: ctx.stepElapsedMs,
+        stepElapsedMs: this.stepElapsedNow(ctx),
         holdReason: ctx.holdReason,
         cyclesCompleted: ctx.cyclesCompleted,
         alarms: ctx.alarms.map((a) => ({ ...a })),

@@ -10,6 +10,7 @@
  */
 import { benchSheets } from './sheet-bench';
 import { workspaceBench } from './workspace-bench';
+import { drillsBench } from './drills-bench';
 import { createCell, pickAndPlaceCell } from '@/simulator/index';
 
 type Figures = Record<string, number>;
@@ -84,6 +85,7 @@ export const MEASUREMENTS: Measurement[] = [
   { name: 'logic sheets', describe: 'scans/s of generated sheets vs the same logic hand-written (PLC helper)', run: sheets },
   { name: 'demo cell', describe: 'pick-and-place demo, one hour of cell time', run: cellRealtime },
   { name: 'workspace', describe: 'first-load JS (gzip KiB) and 500-block canvas fps in Chromium; needs BENCH_BASE_URL (logic+controller helper)', run: workspaceBench },
+  { name: 'drills', describe: 'server regrade of a 10-minute run; batch POST p95 with 50 clients (autocannon), needs BENCH_BASE_URL (drills backend helper)', run: drillsBench },
 ];
 
 function round(x: number, digits: number): number {

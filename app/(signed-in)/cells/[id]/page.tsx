@@ -1,0 +1,41 @@
+import type { Metadata } from 'next';
+import { notFound } from 'next/navigation';
+import { Refused } from '@/components/ui/refused';
+import { Workspace } from '@/components/workspace/workspace-shell';
+import { requirePageUser } from '@/lib/auth/session';
+import { ApiError } from '@/lib/api/errors';
+import { CELL_ROLES } from '@/lib/cells/roles';
+import { cellForReader } from '@/lib/cells/access';
+import { cellIdParamSchema } from '@/lib/schemas/cells';
+import { getVersion } from '@/db/cells';
+
+export const metadata: Metadata = { title: 'Cell workspace · Cellwright' };
+
+/**
+ * The cell workspace. The server checks the session and that the user may read this cell
+ * (their own, or shared with their cohort: run only), then hands the latest version to the
+ * client island, which runs it in a Web Worker.
+ */
+export default async function CellWorkspacePage({ params }: { params: Promise<{ id: string }> }) {
+  const raw = await params;
+  const { user, allowed } = await requirePageUser(`/cells/${raw.id}`, CELL_ROLES);
+  if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
+  const parsed = cellIdParamSchema.safeParse(raw);
+  if (!parsed.success) notFound();
+  const id = parsed.data.id;
+
+  let access: 'owner' | 'shared';
+  let name: string;
+  try {
+    const found = await cellForReader(user, id);
+    access = found.access;
+    name = found.cell.name;
+  } catch (e) {
+    if (e instanceof ApiError && (e.status === 404 || e.status === 403)) notFound();
+    throw e;
+  }
+  const latest = await getVersion(id);
+  if (!latest) notFound();
+
+  return <Workspace cellName={name} init={{ cellId: id, version: latest.version, document: latest.document, canEdit: access === 'owner' }} />;
+}

@@ -1,0 +1,23 @@
+import type { Metadata } from 'next';
+import { CellsList } from '@/components/cells/cells-list';
+import { PageHeader } from '@/components/ui/card';
+import { Refused } from '@/components/ui/refused';
+import { requirePageUser } from '@/lib/auth/session';
+import { CELL_ROLES, SHARE_ROLES } from '@/lib/cells/roles';
+
+export const metadata: Metadata = { title: 'Cells · Cellwright' };
+
+export default async function CellsPage() {
+  const { user, allowed } = await requirePageUser('/cells', CELL_ROLES);
+  if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
+  const description =
+    user.role === 'student'
+      ? 'Your cells, and the cells your trainer shared with your cohort: open your own copy to work on it.'
+      : 'Your cells. Each save is a new version; share a cell with a cohort and each student works on their own copy.';
+  return (
+    <>
+      <PageHeader title="Cells" description={description} />
+      <CellsList canShare={SHARE_ROLES.includes(user.role)} isStudent={user.role === 'student'} />
+    </>
+  );
+}

@@ -1,0 +1,19 @@
+import type { Metadata } from 'next';
+import { CohortList } from '@/components/cohorts/cohort-list';
+import { PageHeader } from '@/components/ui/card';
+import { Refused } from '@/components/ui/refused';
+import { requirePageUser } from '@/lib/auth/session';
+import { COHORT_ROLES } from '@/lib/roles';
+
+export const metadata: Metadata = { title: 'Cohorts · Cellwright' };
+
+export default async function CohortsPage() {
+  const { user, allowed } = await requirePageUser('/cohorts', COHORT_ROLES);
+  if (!allowed) return <Refused role={user.role} needs="trainers and administrators" />;
+  return (
+    <>
+      <PageHeader title="Cohorts" description="Your classes of students. Invite students by e-mail; each invitation link works once." />
+      <CohortList showTrainer={user.role === 'admin'} />
+    </>
+  );
+}

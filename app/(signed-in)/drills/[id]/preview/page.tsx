@@ -1,0 +1,46 @@
+import type { Metadata } from 'next';
+import { notFound } from 'next/navigation';
+import { Refused } from '@/components/ui/refused';
+import { DrillPreview } from '@/components/drills/drill-preview';
+import { requirePageUser } from '@/lib/auth/session';
+import { ApiError } from '@/lib/api/errors';
+import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillIdParamSchema } from '@/lib/schemas/drills';
+import { getVersion } from '@/db/cells';
+
+export const metadata: Metadata = { title: 'Drill preview · Cellwright' };
+
+/** The drill as a student would attempt it, with the trainer's full view of the hidden faults. */
+export default async function DrillPreviewPage({ params }: { params: Promise<{ id: string }> }) {
+  const raw = await params;
+  const { user, allowed } = await requirePageUser(`/drills/${raw.id}/preview`, DRILL_ROLES);
+  if (!allowed) return <Refused role={user.role} needs="trainers" />;
+  const parsed = drillIdParamSchema.safeParse(raw);
+  if (!parsed.success) notFound();
+  let drill;
+  try {
+    drill = await drillForAuthor(user, parsed.data.id);
+  } catch (e) {
+    if (e instanceof ApiError && e.status === 404) notFound();
+    throw e;
+  }
+  const version = await getVersion(drill.cellId, drill.cellVersion);
+  if (!version) notFound();
+  return (
+    <DrillPreview
+      drill={{
+        id: drill.id,
+        title: drill.title,
+        brief: drill.brief,
+        objectives: drill.objectives,
+        faults: drill.faults,
+        answer: drill.answer,
+        timeLimitMs: drill.timeLimitMs,
+        permissions: { forceAllowed: drill.permissions.forceAllowed, editable: [...drill.permissions.editable] },
+        cellId: drill.cellId,
+        cellVersion: drill.cellVersion,
+      }}
+      document={version.document}
+    />
+  );
+}

@@ -1,0 +1,60 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { PageHeader } from '@/components/ui/card';
+import { RunReplay } from '@/components/replay/run-replay';
+import { requirePageUser } from '@/lib/auth/session';
+import { ApiError } from '@/lib/api/errors';
+import { runForReader } from '@/lib/runs/access';
+import { runIdParamSchema } from '@/lib/schemas/runs';
+import { findDrill } from '@/db/drills';
+import { getVersion } from '@/db/cells';
+
+export const metadata: Metadata = { title: 'Replay · Cellwright' };
+
+/**
+ * Replay of a run for its owner, its drill's trainer or an admin. The drill's fault cards, the
+ * run's seed and the rule marks are handed to the browser only when the reader may see hidden
+ * parts (the same rule as the run routes: trainer and admin always, the student after close).
+ */
+export default async function ReplayPage({ params }: { params: Promise<{ id: string }> }) {
+  const raw = await params;
+  const { user } = await requirePageUser(`/runs/${raw.id}/replay`);
+  const parsed = runIdParamSchema.safeParse(raw);
+  if (!parsed.success) notFound();
+  let found;
+  try {
+    found = await runForReader(user, parsed.data.id);
+  } catch (e) {
+    if (e instanceof ApiError && e.status === 404) notFound();
+    throw e;
+  }
+  const { run, hiddenVisible } = found;
+  const version = await getVersion(run.cellId, run.cellVersion);
+  if (!version) notFound();
+  const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
+  const violations = hiddenVisible && run.breakdown ? run.breakdown.rules.filter((r) => r.violation).map((r) => ({ timeMs: r.violation!.timeMs, rule: r.label ?? r.id, message: r.violation!.message })) : [];
+  const first = violations.sort((a, b) => a.timeMs - b.timeMs)[0] ?? null;
+  return (
+    <>
+      <PageHeader
+        title={`Replay: ${drill ? drill.title : 'free practice'}`}
+        description={`${run.userName} · cell version ${run.cellVersion}`}
+        actions={
+          <Link href={`/runs/${run.id}`} className="text-sm font-medium text-accent-700 hover:underline">
+            Back to the result
+          </Link>
+        }
+      />
+      <RunReplay
+        runId={run.id}
+        document={version.document}
+        faults={hiddenVisible && drill ? drill.faults : null}
+        seed={hiddenVisible ? run.seed : null}
+        hiddenVisible={hiddenVisible}
+        mode={run.mode}
+        violation={first}
+      />
+    </>
+  );
+}

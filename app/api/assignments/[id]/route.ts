@@ -1,0 +1,19 @@
+import { apiRoute, parseParams } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { assignmentForStudent, STUDENT_ROLES, studentDrillPayload } from '@/lib/drills/access';
+import { assignmentIdParamSchema } from '@/lib/schemas/drills';
+import { getVersion } from '@/db/cells';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/**
+ * The drill as a student receives it: brief, objectives, time limit, what they may use, and
+ * the base cell document to draw the workspace. Never the fault cards, the rules or the answer.
+ */
+export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, STUDENT_ROLES);
+  const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
+  const { assignment, drill } = await assignmentForStudent(user, id);
+  const version = await getVersion(drill.cellId, drill.cellVersion);
+  return Response.json({ ...(await studentDrillPayload(assignment, drill)), document: version?.document ?? null });
+});

@@ -1,0 +1,21 @@
+import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { COPY_ROLES } from '@/lib/cells/roles';
+import { cellForReader } from '@/lib/cells/access';
+import { cellIdParamSchema } from '@/lib/schemas/cells';
+import { openStudentCopy } from '@/db/cells';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/**
+ * A student opens a cell shared with their cohort: they get their own copy (201 when made
+ * now, 200 when they had one already), linked to its source.
+ */
+export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, COPY_ROLES);
+  const { id } = await parseParams(ctx.params, cellIdParamSchema);
+  const { cell, access } = await cellForReader(user, id);
+  if (access !== 'shared') throw new ApiError(409, 'This is already your own cell.');
+  const copy = await openStudentCopy(cell, user.id);
+  return Response.json({ cell: copy.cell }, { status: copy.created ? 201 : 200 });
+});

@@ -1,0 +1,27 @@
+import { ApiError, apiRoute, parseJsonBody } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { CELL_ROLES } from '@/lib/cells/roles';
+import { checkDocument, problemsToFields } from '@/lib/cells/document';
+import { importCellSchema } from '@/lib/schemas/cells';
+import { createCell } from '@/db/cells';
+
+/**
+ * Import a cell document (as exported) as a new cell. A document that fails the engine's
+ * schema is refused with 422 and every problem keyed by its path; cross-reference problems
+ * (wiring, point map ...) are imported and listed, as on a save.
+ */
+export const POST = apiRoute(async (req: Request) => {
+  const user = await requireApiUser(req, CELL_ROLES);
+  const body = await parseJsonBody(req, importCellSchema);
+  const checked = checkDocument(body.document);
+  if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));
+  const name = body.name ?? checked.document.name;
+  const cell = await createCell({
+    ownerId: user.id,
+    name,
+    origin: 'import',
+    document: { ...checked.document, name },
+    message: 'Imported from JSON',
+  });
+  return Response.json({ cell, problems: checked.problems }, { status: 201 });
+});

@@ -1,0 +1,21 @@
+import { apiRoute, ApiError, parseJsonBody } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { COHORT_ROLES } from '@/lib/roles';
+import { createCohortSchema } from '@/lib/schemas/cohorts';
+import { createCohort, listCohorts } from '@/db/cohorts';
+
+/** Trainers list their own cohorts; admins list all. */
+export const GET = apiRoute(async (req: Request) => {
+  const user = await requireApiUser(req, COHORT_ROLES);
+  const cohorts = await listCohorts(user.role === 'admin' ? null : user.id);
+  return Response.json({ cohorts });
+});
+
+/** Trainers and admins create a cohort they then own. */
+export const POST = apiRoute(async (req: Request) => {
+  const user = await requireApiUser(req, COHORT_ROLES);
+  const body = await parseJsonBody(req, createCohortSchema);
+  const result = await createCohort(user.id, body);
+  if (!result.ok) throw new ApiError(409, 'You already have a cohort with this name.', { name: ['Choose another name.'] });
+  return Response.json({ cohort: result.cohort }, { status: 201 });
+});

@@ -1,0 +1,39 @@
+import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { checkDrillInput, drillAsInput } from '@/lib/drills/author';
+import { drillIdParamSchema, drillPatchSchema } from '@/lib/schemas/drills';
+import { deleteDrill, drillHasRuns, updateDrill } from '@/db/drills';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/** The whole drill, for its author (or an admin). */
+export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, drillIdParamSchema);
+  return Response.json({ drill: await drillForAuthor(user, id) });
+});
+
+/**
+ * Change a drill. Once anyone has started a run its grading inputs are frozen (409), so a
+ * regrade of any stored run always gives its stored grade: duplicate the drill instead.
+ */
+export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, drillIdParamSchema);
+  const drill = await drillForAuthor(user, id);
+  const patch = await parseJsonBody(req, drillPatchSchema);
+  if (await drillHasRuns(id)) throw new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
+  const input = { ...drillAsInput(drill), ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) };
+  await checkDrillInput(user, input);
+  return Response.json({ drill: await updateDrill(id, input) });
+});
+
+/** Delete (soft): runs and grades stay in the gradebook. */
+export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, drillIdParamSchema);
+  await drillForAuthor(user, id);
+  await deleteDrill(id);
+  return Response.json({ deleted: true });
+});

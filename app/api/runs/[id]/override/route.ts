@@ -1,0 +1,23 @@
+import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { DRILL_ROLES } from '@/lib/drills/access';
+import { runForReader, runView } from '@/lib/runs/access';
+import { overrideSchema, runIdParamSchema } from '@/lib/schemas/runs';
+import { findRun, overrideGrade } from '@/db/runs';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/**
+ * The drill's trainer (or an admin) overrides a submitted run's grade with a reason; `grade:
+ * null` removes the override. Both the grade and the audit entry are written in one transaction.
+ */
+export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, runIdParamSchema);
+  const { run, reader } = await runForReader(user, id);
+  if (reader === 'owner' || run.mode !== 'drill') throw new ApiError(404, 'No such run.');
+  if (run.status !== 'submitted') throw new ApiError(409, 'Only a submitted run has a grade to override.');
+  const body = await parseJsonBody(req, overrideSchema);
+  await overrideGrade(run, body.grade, body.reason, user.id);
+  return Response.json({ run: runView((await findRun(run.id))!, true) });
+});

@@ -1,0 +1,23 @@
+import { apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { runForOwner, runView } from '@/lib/runs/access';
+import { submit } from '@/lib/runs/service';
+import { runIdParamSchema, submitSchema } from '@/lib/schemas/runs';
+import { findAssignment } from '@/db/drills';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/**
+ * Submit (a drill run, with the diagnosis) or finish (a practice run). The server regrades
+ * from the stored log; a second submit → 409, after the close date → 403; nothing changes then.
+ */
+export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req);
+  const { id } = await parseParams(ctx.params, runIdParamSchema);
+  const run = await runForOwner(user, id);
+  const body = await parseJsonBody(req, submitSchema);
+  const done = await submit(run, body.diagnosis ?? null);
+  const assignment = done.assignmentId ? await findAssignment(done.assignmentId) : null;
+  const closed = done.mode === 'practice' || (assignment !== null && Date.now() > Date.parse(assignment.closesAt));
+  return Response.json({ run: runView(done, closed) });
+});

@@ -1,0 +1,31 @@
+import { ApiError, apiRoute, parseJsonBody } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { CELL_ROLES } from '@/lib/cells/roles';
+import { cellForReader } from '@/lib/cells/access';
+import { runView } from '@/lib/runs/access';
+import { newSeed } from '@/lib/runs/service';
+import { practiceStartSchema } from '@/lib/schemas/runs';
+import { getVersion } from '@/db/cells';
+import { createRun, listRunsOfUser } from '@/db/runs';
+
+/** The caller's own runs, newest first (drill attempts without their hidden parts, practice runs). */
+export const GET = apiRoute(async (req: Request) => {
+  const user = await requireApiUser(req, CELL_ROLES);
+  const runs = await listRunsOfUser(user.id);
+  return Response.json({ runs: runs.map((r) => runView(r, r.mode === 'practice')) });
+});
+
+/**
+ * Start a free-practice run on a cell the caller may open (their own, or one shared with their
+ * cohort), at a given version or the latest. The browser runs it; its events are streamed to
+ * /api/runs/[id]/batches so it is saved and replayable.
+ */
+export const POST = apiRoute(async (req: Request) => {
+  const user = await requireApiUser(req, CELL_ROLES);
+  const body = await parseJsonBody(req, practiceStartSchema);
+  await cellForReader(user, body.cellId);
+  const version = await getVersion(body.cellId, body.version);
+  if (!version) throw new ApiError(422, 'Some fields are not valid.', { version: ['The cell has no such version.'] });
+  const run = await createRun({ userId: user.id, mode: 'practice', cellId: body.cellId, cellVersion: version.version, seed: newSeed() });
+  return Response.json({ run: runView(run, true), document: version.document }, { status: 201 });
+});

@@ -1,0 +1,74 @@
+import { describe, expect, it } from 'vitest';
+import type { ControllerModule, PointMapRow } from '@/simulator';
+import { canApplyStaged, pointMapView, rowChannels, rowConflicts } from './point-map-state';
+import { moveStep, defaultStep } from './routine-steps';
+import { armGeometry } from './arm-geometry';
+
+const modules: ControllerModule[] = [
+  { id: 'di', rack: 0, slot: 1, type: 'digital-in', channels: 16 },
+  { id: 'do', rack: 0, slot: 2, type: 'digital-out', channels: 16 },
+];
+const live: PointMapRow[] = [
+  { id: 'r-di', family: 'DI', first: 1, count: 6, rack: 0, slot: 1, firstChannel: 0 },
+  { id: 'r-wi', family: 'WI', first: 1, count: 1, rack: 0, slot: 1, firstChannel: 8, bits: 4, encoding: 'binary' },
+  { id: 'r-do', family: 'DO', first: 1, count: 7, rack: 0, slot: 2, firstChannel: 0 },
+];
+
+describe('pointMapView', () => {
+  it('shows every row live when nothing is staged', () => {
+    const v = pointMapView(live, null, modules);
+    expect(v.map((x) => x.state)).toEqual(['live', 'live', 'live']);
+    expect(v[1].explanation[0]).toBe('WI1 on rack 0 slot 1 channels 8–11, running now');
+    expect(canApplyStaged(v, null)).toBe(false);
+  });
+  it('marks a changed row staged and says what changed', () => {
+    const staged = live.map((r) => (r.id === 'r-do' ? { ...r, firstChannel: 8 } : r));
+    const v = pointMapView(live, staged, modules);
+    expect(v.map((x) => x.state)).toEqual(['live', 'live', 'staged']);
+    expect(v[2].explanation.join('; ')).toContain('first channel 0 → 8');
+    expect(canApplyStaged(v, staged)).toBe(true);
+  });
+  it('explains a channel overlap with the other row number and the shared channels', () => {
+    // DI row grown to 10 points covers channels 0–9; the WI row uses 8–11 → shared 8–9.
+    const staged = live.map((r) => (r.id === 'r-di' ? { ...r, count: 10 } : r));
+    const v = pointMapView(live, staged, modules);
+    expect(v[0].state).toBe('conflict');
+    expect(v[0].explanation).toContain('overlaps row 2 on rack 0 slot 1 channels 8–9');
+    expect(v[1].explanation).toContain('overlaps row 1 on rack 0 slot 1 channels 8–9');
+    expect(canApplyStaged(v, staged)).toBe(false);
+  });
+  it('lists removed rows as staged removals and added rows as new', () => {
+    const staged = [live[0], live[1], { ...live[2], id: 'r-do2' }];
+    const v = pointMapView(live, staged, modules);
+    expect(v.find((x) => x.row.id === 'r-do2')?.change).toBe('added');
+    expect(v.find((x) => x.row.id === 'r-do')).toMatchObject({ state: 'staged', change: 'removed' });
+  });
+  it('reports a wrong module type and a row beyond the module', () => {
+    const c = rowConflicts([{ id: 'x', family: 'DO', first: 1, count: 20, rack: 0, slot: 1, firstChannel: 0 }], modules);
+    const words = c.get(0) ?? [];
+    expect(words.some((w) => w.includes('DO points need a digital-out module'))).toBe(true);
+    expect(words.some((w) => w.includes('needs channels 0–19 but the module has channels 0–15'))).toBe(true);
+  });
+  it('counts word rows as bits × points channels', () => {
+    expect(rowChannels({ id: 'w', family: 'WO', first: 1, count: 2, rack: 0, slot: 2, firstChannel: 4, bits: 4 })).toEqual([4, 11]);
+  });
+});
+
+describe('routine steps', () => {
+  it('reordering keeps numeric jump targets on the same step', () => {
+    const steps = [defaultStep('pause', { inputs: [], outputs: [], poses: [] }), defaultStep('alarm', { inputs: [], outputs: [], poses: [] }), { kind: 'jump' as const, to: 1 }];
+    const moved = moveStep(steps, 1, 0);
+    expect(moved.map((s) => s.kind)).toEqual(['alarm', 'pause', 'jump']);
+    expect(moved[2]).toEqual({ kind: 'jump', to: 0 });
+  });
+});
+
+describe('arm geometry', () => {
+  it('places the tool at the requested point with two equal links (planar 2-link IK, common practice)', () => {
+    const g = armGeometry([[0.5, 0.3]]);
+    const { elbow, tool } = g.solve(0.5, 0.3);
+    expect(tool).toEqual([0.5, 0.3]);
+    expect(Math.hypot(elbow[0], elbow[1])).toBeCloseTo(g.link, 9);
+    expect(Math.hypot(tool[0] - elbow[0], tool[1] - elbow[1])).toBeCloseTo(g.link, 9);
+  });
+});

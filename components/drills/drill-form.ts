@@ -1,0 +1,240 @@
+/**
+ * The drill editor's form values and their conversion to and from the drills API's input
+ * (lib/schemas/drills.ts). The form keeps a condition either as one comparison (signal, op,
+ * value), which covers most drills, or as the engine's JSON predicate for compound ones
+ * (all / any / not), so a library drill round-trips without loss.
+ */
+import { z } from 'zod';
+import { FAULT_KINDS, type FaultCard, type SignalPredicate } from '@/simulator';
+import { DIAGNOSIS_KINDS, EDITABLE_AREAS, type DrillInput } from '@/lib/schemas/drills';
+
+export const OPS = ['==', '!=', '>', '>=', '<', '<='] as const;
+export const RULE_KINDS = ['never', 'always', 'after', 'eventually'] as const;
+
+/** Which fields each fault kind needs (the engine's faultCardSchema). */
+export const FAULT_FIELDS: Record<(typeof FAULT_KINDS)[number], ('device' | 'row' | 'rows' | 'module' | 'periodMs' | 'probability' | 'factor' | 'ratePerS')[]> = {
+  'stuck-on': ['device'],
+  'stuck-off': ['device'],
+  'open-wire': ['row'],
+  'short-24v': ['row'],
+  'short-0v': ['row'],
+  chatter: ['row', 'periodMs', 'probability'],
+  'swapped-wires': ['rows'],
+  'dead-module': ['module'],
+  'link-loss': [],
+  'slow-actuator': ['device', 'factor'],
+  'analog-drift': ['device', 'ratePerS'],
+  'analog-loss': ['device'],
+  'sensor-type-mismatch': ['device'],
+};
+
+const conditionSchema = z.object({
+  mode: z.enum(['simple', 'json']),
+  signal: z.string(),
+  op: z.enum(OPS),
+  value: z.string(),
+  json: z.string(),
+});
+export type ConditionValue = z.infer<typeof conditionSchema>;
+
+const idText = z.string().trim().regex(/^[A-Za-z][A-Za-z0-9_.-]*$/, { message: 'Letters, digits and _ . - (start with a letter).' });
+
+export const drillFormSchema = z.object({
+  title: z.string().trim().min(3, { message: 'Use at least 3 characters.' }).max(160),
+  cellId: z.string().min(1, { message: 'Choose the base cell.' }),
+  cellVersion: z.number().int().min(1, { message: 'Choose a version.' }),
+  brief: z.string().max(40_000),
+  faults: z.array(
+    z.object({
+      id: idText,
+      label: z.string().max(200),
+      kind: z.enum(FAULT_KINDS as unknown as [string, ...string[]]),
+      device: z.string(),
+      row: z.string(),
+      row2: z.string(),
+      module: z.string(),
+      periodMs: z.number().int().min(1).max(60_000),
+      probability: z.number().min(0).max(1),
+      factor: z.number().min(1).max(1000),
+      ratePerS: z.number().min(-100).max(100),
+      trigger: z.enum(['now', 'at', 'when']),
+      atMs: z.number().int().min(0),
+      when: conditionSchema,
+    }),
+  ),
+  objectives: z.array(z.object({ text: z.string().trim().min(1, { message: 'Write the objective or remove it.' }).max(300) })),
+  rules: z.array(
+    z.object({
+      id: idText,
+      label: z.string().max(200),
+      kind: z.enum(RULE_KINDS),
+      p: conditionSchema,
+      event: conditionSchema,
+      withinMs: z.number().int().min(0),
+      weight: z.number().int().min(0).max(1000),
+    }),
+  ),
+  answerKind: z.string().refine((k) => DIAGNOSIS_KINDS.includes(k), { message: 'Choose a kind.' }),
+  answerLocation: z.string().trim().min(1, { message: 'Say where.' }).max(200),
+  diagnosisWeight: z.number().int().min(0).max(1000),
+  timeLimitMin: z.number().min(1 / 60, { message: 'At least one second.' }).max(240, { message: 'At most 4 hours.' }),
+  forceAllowed: z.boolean(),
+  editable: z.array(z.enum(EDITABLE_AREAS)),
+});
+export type DrillFormValues = z.infer<typeof drillFormSchema>;
+
+export const emptyCondition = (): ConditionValue => ({ mode: 'simple', signal: '', op: '==', value: '1', json: '' });
+
+export function newFault(index: number): DrillFormValues['faults'][number] {
+  return { id: `f${index + 1}`, label: '', kind: 'open-wire', device: '', row: '', row2: '', module: '', periodMs: 200, probability: 0.3, factor: 4, ratePerS: 0.5, trigger: 'now', atMs: 0, when: emptyCondition() };
+}
+
+export function newRule(index: number): DrillFormValues['rules'][number] {
+  return { id: `r${index + 1}`, label: '', kind: 'never', p: emptyCondition(), event: emptyCondition(), withinMs: 1000, weight: 10 };
+}
+
+/** A typed value from the text field: numbers and booleans as such, anything else as text. */
+export function parseValue(text: string): number | string | boolean {
+  const t = text.trim();
+  if (t === 'true') return true;
+  if (t === 'false') return false;
+  if (t !== '' && Number.isFinite(Number(t))) return Number(t);
+  return t;
+}
+
+export function toCondition(p: SignalPredicate | undefined): ConditionValue {
+  if (!p) return emptyCondition();
+  if ('signal' in p) return { mode: 'simple', signal: p.signal, op: p.op, value: String(p.value), json: '' };
+  return { mode: 'json', signal: '', op: '==', value: '1', json: JSON.stringify(p, null, 1) };
+}
+
+/** The predicate of a condition; throws with a readable message on bad JSON. */
+export function fromCondition(c: ConditionValue): SignalPredicate {
+  if (c.mode === 'json') {
+    try {
+      return JSON.parse(c.json) as SignalPredicate;
+    } catch {
+      throw new Error('The condition is not valid JSON.');
+    }
+  }
+  return { signal: c.signal.trim(), op: c.op, value: parseValue(c.value) };
+}
+
+/** A stored drill (or nothing: a new one) as form values. */
+export function toFormValues(d: (DrillInput & { id?: string }) | null, defaults: { cellId: string; cellVersion: number }): DrillFormValues {
+  if (!d) {
+    return {
+      title: '',
+      cellId: defaults.cellId,
+      cellVersion: defaults.cellVersion,
+      brief: '## What the operator reports\n\n',
+      faults: [newFault(0)],
+      objectives: [{ text: 'Name the fault and where it is.' }],
+      rules: [],
+      answerKind: 'open-wire',
+      answerLocation: '',
+      diagnosisWeight: 10,
+      timeLimitMin: 10,
+      forceAllowed: true,
+      editable: ['point-map'],
+    };
+  }
+  return {
+    title: d.title,
+    cellId: d.cellId,
+    cellVersion: d.cellVersion,
+    brief: d.brief,
+    faults: d.faults.map((f, i) => {
+      const base = newFault(i);
+      const any = f as Record<string, unknown>;
+      return {
+        ...base,
+        id: f.id,
+        label: f.label ?? '',
+        kind: f.kind,
+        device: typeof any.device === 'string' ? any.device : '',
+        row: typeof any.row === 'string' ? any.row : Array.isArray(any.rows) ? String(any.rows[0]) : '',
+        row2: Array.isArray(any.rows) ? String(any.rows[1]) : '',
+        module: typeof any.module === 'string' ? any.module : '',
+        periodMs: typeof any.periodMs === 'number' ? any.periodMs : base.periodMs,
+        probability: typeof any.probability === 'number' ? any.probability : base.probability,
+        factor: typeof any.factor === 'number' ? any.factor : base.factor,
+        ratePerS: typeof any.ratePerS === 'number' ? any.ratePerS : base.ratePerS,
+        trigger: f.when ? 'when' : f.at !== undefined ? 'at' : 'now',
+        atMs: f.at ?? 0,
+        when: toCondition(f.when),
+      };
+    }),
+    objectives: d.objectives.map((text) => ({ text })),
+    rules: d.rules.map(({ rule, weight }) => ({
+      id: rule.id,
+      label: rule.label ?? '',
+      kind: rule.kind,
+      p: toCondition(rule.p),
+      event: rule.kind === 'after' ? toCondition(rule.event) : emptyCondition(),
+      withinMs: rule.kind === 'after' || rule.kind === 'eventually' ? rule.withinMs : 1000,
+      weight,
+    })),
+    answerKind: d.answer.kind,
+    answerLocation: d.answer.location,
+    diagnosisWeight: d.diagnosisWeight,
+    timeLimitMin: d.timeLimitMs / 60_000,
+    forceAllowed: d.permissions.forceAllowed,
+    editable: [...d.permissions.editable],
+  };
+}
+
+/** Form values as the drills API's input (the server checks it again, against the base cell). */
+export function toDrillInput(v: DrillFormValues): DrillInput {
+  return {
+    title: v.title.trim(),
+    cellId: v.cellId,
+    cellVersion: v.cellVersion,
+    brief: v.brief,
+    faults: v.faults.map((f) => {
+      const card: Record<string, unknown> = { id: f.id.trim(), kind: f.kind };
+      if (f.label.trim()) card.label = f.label.trim();
+      const need = FAULT_FIELDS[f.kind as keyof typeof FAULT_FIELDS];
+      if (need.includes('device')) card.device = f.device;
+      if (need.includes('row')) card.row = f.row;
+      if (need.includes('rows')) card.rows = [f.row, f.row2];
+      if (need.includes('module')) card.module = f.module;
+      if (need.includes('periodMs')) card.periodMs = f.periodMs;
+      if (need.includes('probability')) card.probability = f.probability;
+      if (need.includes('factor')) card.factor = f.factor;
+      if (need.includes('ratePerS')) card.ratePerS = f.ratePerS;
+      if (f.trigger === 'at') card.at = f.atMs;
+      if (f.trigger === 'when') card.when = fromCondition(f.when);
+      return card as FaultCard;
+    }),
+    objectives: v.objectives.map((o) => o.text.trim()),
+    rules: v.rules.map((r) => {
+      const common = { id: r.id.trim(), ...(r.label.trim() ? { label: r.label.trim() } : {}) };
+      const p = fromCondition(r.p);
+      const rule =
+        r.kind === 'after'
+          ? { ...common, kind: 'after' as const, event: fromCondition(r.event), withinMs: r.withinMs, p }
+          : r.kind === 'eventually'
+            ? { ...common, kind: 'eventually' as const, withinMs: r.withinMs, p }
+            : { ...common, kind: r.kind, p };
+      return { rule, weight: r.weight };
+    }),
+    answer: { kind: v.answerKind, location: v.answerLocation.trim() },
+    diagnosisWeight: v.diagnosisWeight,
+    timeLimitMs: Math.round(v.timeLimitMin * 60_000),
+    permissions: { forceAllowed: v.forceAllowed, editable: v.editable },
+  };
+}
+
+/** A server field path (`rules.2.rule.p.signal`, `faults.0.rows.1`) as the form's field name, when there is one. */
+export function formPath(serverPath: string): string {
+  return serverPath
+    .replace(/^rules\.(\d+)\.rule\./, 'rules.$1.')
+    .replace(/^faults\.(\d+)\.rows\.1$/, 'faults.$1.row2')
+    .replace(/^faults\.(\d+)\.rows(\.0)?$/, 'faults.$1.row')
+    .replace(/^faults\.(\d+)\.at$/, 'faults.$1.atMs')
+    .replace(/^answer\.kind$/, 'answerKind')
+    .replace(/^answer\.location$/, 'answerLocation')
+    .replace(/^timeLimitMs$/, 'timeLimitMin')
+    .replace(/^objectives\.(\d+)$/, 'objectives.$1.text');
+}

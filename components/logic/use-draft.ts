@@ -1,0 +1,17 @@
+'use client';
+/**
+ * Text being typed into a field that commits on blur: follows the committed `value` when it
+ * changes from outside (undo, another area), otherwise keeps what the user is typing.
+ * Adjusts during render, as React recommends for state derived from a prop.
+ */
+import { useState } from 'react';
+
+export function useDraft(value: string): [string, (text: string) => void] {
+  const [text, setText] = useState(value);
+  const [seen, setSeen] = useState(value);
+  if (seen !== value) {
+    setSeen(value);
+    setText(value);
+  }
+  return [text, setText];
+}

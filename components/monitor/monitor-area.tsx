@@ -1,0 +1,140 @@
+'use client';
+import { useState } from 'react';
+import { cn } from '@/components/ui/cn';
+import { shallowEqual, useSelection, useSendEvent, useSnapshot, useWorkspace } from '@/components/workspace/contract';
+import { endpointText } from '@/components/field/endpoint-text';
+import type { WiringRow } from '@/simulator';
+import { useRelated } from '@/components/workspace/use-related';
+
+/** What each PLC address is wired to, from the terminal strip (`← start:contact`, `→ R0.S1.C0`). */
+function wiredTo(wiring: WiringRow[]): Map<string, string> {
+  const map = new Map<string, string>();
+  for (const w of wiring) {
+    if ('plc' in w.to) map.set(w.to.plc, `← ${endpointText(w.from)}`);
+    if ('plc' in w.from) map.set(w.from.plc, `→ ${endpointText(w.to)}`);
+  }
+  return map;
+}
+
+type Row = { target: string; kind: 'address' | 'point'; label: string; where: string; value: number; forced: boolean; bit: boolean };
+
+/** Whether a target is one bit: `%IX0.0`-style addresses and the discrete point families. */
+function isBit(target: string): boolean {
+  return /^%[IQM]X/i.test(target) || /^(DI|DO|TI|TO)\d/.test(target);
+}
+
+/** Every PLC address and controller point with its live value; force and unforce. */
+export function MonitorArea() {
+  const addresses = useSnapshot((s) => s.plc.addresses, shallowEqual) ?? {};
+  const points = useSnapshot((s) => s.controller.points, shallowEqual) ?? [];
+  const [filter, setFilter] = useState('');
+  const wiring = useWorkspace((s) => s.document.wiring);
+  const wired = wiredTo(wiring);
+
+  const rows: Row[] = [
+    ...Object.entries(addresses).map(([a, v]) => ({ target: a, kind: 'address' as const, label: '', where: `PLC ${wired.get(a) ?? '(not wired)'}`, value: v.value, forced: v.forced, bit: isBit(a) })),
+    ...points.map((p) => ({
+      target: p.ref,
+      kind: 'point' as const,
+      label: p.label + (p.invert ? ' (inverted)' : ''),
+      where: `rack ${p.rack} · slot ${p.slot} · ch ${p.channel}`,
+      value: p.value,
+      forced: p.forced,
+      bit: isBit(p.ref),
+    })),
+  ];
+  const q = filter.trim().toLowerCase();
+  const shown = q ? rows.filter((r) => `${r.target} ${r.label}`.toLowerCase().includes(q)) : rows;
+
+  return (
+    <div className="space-y-3">
+      <label className="flex max-w-sm items-center gap-2 text-sm">
+        <span className="text-slate-700">Filter</span>
+        <input value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="%IX0 or DI" className="flex-1 rounded border border-slate-300 px-2 py-1 font-mono text-sm" />
+      </label>
+      <div className="overflow-x-auto rounded-md border border-slate-300 bg-white">
+        <table className="w-full text-left text-sm" data-testid="monitor-table">
+          <thead className="bg-slate-100 text-xs uppercase tracking-wide text-slate-600">
+            <tr>
+              <th className="px-2 py-1.5">Point</th>
+              <th className="px-2 py-1.5">Label / where</th>
+              <th className="px-2 py-1.5">Value</th>
+              <th className="px-2 py-1.5">Force</th>
+            </tr>
+          </thead>
+          <tbody>
+            {shown.map((r) => (
+              <MonitorRow key={`${r.kind}:${r.target}`} row={r} />
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}
+
+function MonitorRow({ row }: { row: Row }) {
+  const send = useSendEvent();
+  const [selection, select] = useSelection();
+  const [word, setWord] = useState('0');
+  const related = useRelated();
+  const selected = (selection?.kind === row.kind && selection.id === row.target) || (row.kind === 'address' && related.addresses.has(row.target));
+  const on = row.bit && row.value !== 0;
+  return (
+    <tr
+      className={cn('border-t border-slate-200', row.forced && 'bg-amber-50', selected && 'outline outline-2 -outline-offset-2 outline-accent-600')}
+      data-testid={`monitor-${row.target}`}
+      data-forced={row.forced}
+      onClick={() => select({ kind: row.kind, id: row.target })}
+    >
+      <td className="px-2 py-1.5 font-mono text-xs font-semibold">{row.target}</td>
+      <td className="px-2 py-1.5 text-xs text-slate-600">
+        {row.label ? <span className="text-slate-900">{row.label} · </span> : null}
+        {row.where}
+      </td>
+      <td className="px-2 py-1.5">
+        <span className="flex items-center gap-1.5 font-mono text-xs">
+          {row.bit ? <span aria-hidden className={cn('inline-block w-5 rounded-full', on ? 'h-1.5 bg-accent-500' : 'h-0.5 bg-slate-300')} /> : null}
+          <span className={cn(on ? 'font-bold text-slate-900' : 'text-slate-600')} data-testid={`monitor-${row.target}-value`}>
+            {row.bit ? (on ? '1 ON' : '0 off') : row.value}
+          </span>
+          {row.forced ? <span className="rounded bg-amber-500 px-1 text-[10px] font-bold text-white">FORCED</span> : null}
+        </span>
+      </td>
+      <td className="px-2 py-1.5" onClick={(e) => e.stopPropagation()}>
+        <div className="flex items-center gap-1">
+          {row.bit ? (
+            <>
+              <ForceButton label={`Force ${row.target} to 1`} onClick={() => send({ type: 'force', target: row.target, value: 1 })}>
+                1
+              </ForceButton>
+              <ForceButton label={`Force ${row.target} to 0`} onClick={() => send({ type: 'force', target: row.target, value: 0 })}>
+                0
+              </ForceButton>
+            </>
+          ) : (
+            <>
+              <input aria-label={`Force value for ${row.target}`} value={word} onChange={(e) => setWord(e.target.value)} inputMode="numeric" className="w-16 rounded border border-slate-300 px-1 py-0.5 font-mono text-xs" />
+              <ForceButton label={`Force ${row.target}`} onClick={() => Number.isFinite(Number(word)) && send({ type: 'force', target: row.target, value: Number(word) })}>
+                Force
+              </ForceButton>
+            </>
+          )}
+          {row.forced ? (
+            <button type="button" onClick={() => send({ type: 'unforce', target: row.target })} className="rounded border border-amber-600 bg-white px-2 py-0.5 text-xs font-medium text-amber-900 hover:bg-amber-50" aria-label={`Unforce ${row.target}`}>
+              Unforce
+            </button>
+          ) : null}
+        </div>
+      </td>
+    </tr>
+  );
+}
+
+function ForceButton({ label, onClick, children }: { label: string; onClick: () => void; children: React.ReactNode }) {
+  return (
+    <button type="button" aria-label={label} onClick={onClick} className="rounded border border-slate-300 bg-white px-2 py-0.5 font-mono text-xs hover:bg-slate-100">
+      {children}
+    </button>
+  );
+}

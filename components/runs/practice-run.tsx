@@ -1,0 +1,66 @@
+'use client';
+/**
+ * Free practice on a cell: it runs in this browser's engine worker as in the workspace, and its
+ * event log is streamed to the server as a practice run, so it is saved and replayable.
+ */
+import { useCallback, useEffect, useMemo, useState } from 'react';
+import Link from 'next/link';
+import { Notice } from '@/components/ui/notice';
+import { ApiClientError, fetchJson } from '@/lib/api/client';
+import type { CellDocument } from '@/simulator';
+import { RunWorkspace } from './run-workspace';
+import { useRunRecorder } from './use-run-recorder';
+
+type Started = { run: { id: string; seed?: number } };
+
+export function PracticeRun({ cellId, cellName, version, document }: { cellId: string; cellName: string; version: number; document: CellDocument }) {
+  const [run, setRun] = useState<{ id: string; seed: number } | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const start = useCallback(() => fetchJson<Started>('/api/runs', { method: 'POST', body: { cellId, version } }), [cellId, version]);
+  useEffect(() => {
+    let cancelled = false;
+    start()
+      .then((a) => !cancelled && setRun({ id: a.run.id, seed: a.run.seed ?? document.seed }))
+      .catch((e) => !cancelled && setError(e instanceof ApiClientError ? e.message : 'The practice run could not start.'));
+    return () => {
+      cancelled = true;
+    };
+  }, [start, document.seed]);
+  const startNext = useCallback(async () => (await start()).run.id, [start]);
+  // The worker seeds the cell from the document: the run's seed makes the saved run replay exactly.
+  const init = useMemo(() => (run ? { cellId, version, document: { ...document, seed: run.seed }, canEdit: false } : null), [run, cellId, version, document]);
+
+  if (error) return <Notice tone="error">{error}</Notice>;
+  if (!run || !init) return <p className="text-sm text-slate-500">Starting a practice run…</p>;
+  return (
+    <RunWorkspace
+      init={init}
+      editing={{}}
+      forceAllowed
+      header={
+        <header className="mb-3">
+          <p className="text-xs font-medium uppercase tracking-wide text-accent-700">Free practice · recorded</p>
+          <h1 className="text-xl font-semibold text-slate-900">{cellName}</h1>
+        </header>
+      }
+    >
+      <Recorder runId={run.id} startNext={startNext} />
+    </RunWorkspace>
+  );
+}
+
+function Recorder({ runId, startNext }: { runId: string; startNext: () => Promise<string> }) {
+  const rec = useRunRecorder(runId, startNext);
+  const s = rec.saving;
+  return (
+    <p className="mb-2 text-xs text-slate-500" role="status" data-testid="practice-recording">
+      Saving this practice as a run ·{' '}
+      <Link href={`/runs/${rec.runId}/replay`} className="text-accent-700 underline">
+        replay it
+      </Link>
+      {s ? ` · ${s.fatal ? `not saving (${s.lastError})` : s.attempt > 0 ? 'retrying…' : s.pending > 0 || s.inFlight ? 'saving…' : `saved to ${Math.round(s.storedUntilMs / 100) / 10} s`}` : ''}
+      {rec.runsStarted > 1 ? ` · the cell restarted, so this is run ${rec.runsStarted} of the session` : ''}
+      {rec.error ? ` · ${rec.error}` : ''}
+    </p>
+  );
+}

@@ -1,0 +1,168 @@
+'use client';
+/**
+ * The workspace as a run shows it (a drill attempt, a trainer's preview, free practice): the
+ * same areas as the cell workspace, each editable or read-only as the run allows, without the
+ * save controls (a run never changes the saved cell).
+ */
+import { useMemo, useState, type KeyboardEvent, type ReactNode } from 'react';
+import { Activity, Cable, Cpu, LayoutPanelTop, Network, SlidersHorizontal } from 'lucide-react';
+import type { StoreApi } from 'zustand/vanilla';
+import { cn } from '@/components/ui/cn';
+import { SafetyCaution } from '@/components/ui/safety-caution';
+import { PanelArea } from '@/components/panel/panel-area';
+import { FieldArea } from '@/components/field/field-area';
+import { MonitorArea } from '@/components/monitor/monitor-area';
+import { ForceBanner } from '@/components/monitor/force-banner';
+import { ScopeArea } from '@/components/scope/scope-area';
+import { ScopeRecorderProvider } from '@/components/scope/scope-context';
+import { LogicSlot, ControllerSlot } from '@/components/workspace/area-slots';
+import { StatusStrip } from '@/components/workspace/status-strip';
+import { WorkspaceStoreContext, useWorkspace, useWorkspaceApi, type WorkspaceInit, type WorkspaceStore, type WorkspaceStoreApi } from '@/components/workspace/contract';
+import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
+import type { EngineFactory } from '@/components/workspace/store';
+
+export const RUN_AREAS = [
+  { id: 'panel', label: 'Panel', icon: LayoutPanelTop },
+  { id: 'field', label: 'Field', icon: Cable },
+  { id: 'logic', label: 'Logic', icon: Network },
+  { id: 'controller', label: 'Controller', icon: Cpu },
+  { id: 'monitor', label: 'Monitor', icon: SlidersHorizontal },
+  { id: 'scope', label: 'Scope', icon: Activity },
+] as const;
+export type RunAreaId = (typeof RUN_AREAS)[number]['id'];
+
+/** Which areas may change the cell; the panel is always operable. */
+export type AreaEditing = Partial<Record<RunAreaId, boolean>>;
+
+/**
+ * The same store seen with a different `canEdit`: areas decide editability from it, so one
+ * workspace can have a read-only logic sheet beside an editable point map. State objects are
+ * cached per store state so selectors see stable references.
+ */
+function withCanEdit(api: WorkspaceStoreApi, canEdit: boolean): WorkspaceStoreApi {
+  const cache = new WeakMap<WorkspaceStore, WorkspaceStore>();
+  const view = (s: WorkspaceStore): WorkspaceStore => {
+    if (s.canEdit === canEdit) return s;
+    let v = cache.get(s);
+    if (!v) {
+      v = { ...s, canEdit };
+      cache.set(s, v);
+    }
+    return v;
+  };
+  const derived: StoreApi<WorkspaceStore> = {
+    getState: () => view(api.getState()),
+    getInitialState: () => view(api.getInitialState()),
+    setState: api.setState,
+    subscribe: (listener) => api.subscribe((s, prev) => listener(view(s), view(prev))),
+  };
+  return derived;
+}
+
+function AreaScope({ canEdit, children }: { canEdit: boolean; children: ReactNode }) {
+  const api = useWorkspaceApi();
+  const derived = useMemo(() => withCanEdit(api, canEdit), [api, canEdit]);
+  return <WorkspaceStoreContext.Provider value={derived}>{children}</WorkspaceStoreContext.Provider>;
+}
+
+export type RunWorkspaceProps = {
+  init: WorkspaceInit;
+  engineFactory?: EngineFactory;
+  editing: AreaEditing;
+  forceAllowed: boolean;
+  /** Replaces the standard run strip (a drill attempt has its own: ×1 only, timer, saving). */
+  strip?: ReactNode;
+  /** Shown above the areas (brief, timer, submit). */
+  header?: ReactNode;
+  /** Rendered inside the provider (recorders, fault injection). */
+  children?: ReactNode;
+};
+
+/** A run's workspace: provider, areas with per-area editing, force shown only when allowed. */
+export function RunWorkspace({ init, engineFactory, editing, forceAllowed, strip, header, children }: RunWorkspaceProps) {
+  return (
+    <WorkspaceProvider init={init} engineFactory={engineFactory}>
+      <ScopeRecorderProvider>
+        {children}
+        {header}
+        <RunAreas editing={editing} forceAllowed={forceAllowed} strip={strip} />
+      </ScopeRecorderProvider>
+    </WorkspaceProvider>
+  );
+}
+
+function RunAreas({ editing, forceAllowed, strip }: { editing: AreaEditing; forceAllowed: boolean; strip?: ReactNode }) {
+  const [area, setArea] = useState<RunAreaId>('panel');
+  const rejection = useWorkspace((s) => s.engine.lastRejection);
+  const status = useWorkspace((s) => s.engine.status);
+  const problems = useWorkspace((s) => s.engine.problems);
+
+  const onTabKey = (e: KeyboardEvent<HTMLButtonElement>, index: number) => {
+    const delta = e.key === 'ArrowRight' ? 1 : e.key === 'ArrowLeft' ? -1 : 0;
+    if (!delta) return;
+    e.preventDefault();
+    setArea(RUN_AREAS[(index + delta + RUN_AREAS.length) % RUN_AREAS.length].id);
+  };
+
+  return (
+    <div className="space-y-3" data-testid="workspace">
+      {forceAllowed ? <ForceBanner /> : null}
+      {strip ?? <StatusStrip />}
+      <SafetyCaution compact />
+      {status === 'crashed' || status === 'invalid' ? (
+        <p role="alert" className="rounded-md border border-red-300 bg-red-50 px-3 py-2 text-sm text-red-800" data-testid="engine-problems">
+          {problems.map((p) => p.message).join('; ') || 'The cell does not run.'}
+        </p>
+      ) : null}
+      {rejection ? (
+        <p role="status" className="rounded-md border border-amber-300 bg-amber-50 px-3 py-1.5 text-xs text-amber-900" data-testid="event-refused">
+          Refused “{rejection.event.type}”: {rejection.problems.map((p) => p.message).join('; ')}
+        </p>
+      ) : null}
+      <div role="tablist" aria-label="Workspace areas" className="flex flex-wrap gap-1 border-b border-slate-300">
+        {RUN_AREAS.map((a, i) => {
+          const Icon = a.icon;
+          const selected = area === a.id;
+          return (
+            <button
+              key={a.id}
+              type="button"
+              role="tab"
+              id={`tab-${a.id}`}
+              aria-selected={selected}
+              aria-controls={`area-${a.id}`}
+              tabIndex={selected ? 0 : -1}
+              onClick={() => setArea(a.id)}
+              onKeyDown={(e) => onTabKey(e, i)}
+              className={cn(
+                '-mb-px inline-flex items-center gap-1.5 rounded-t-md border px-3 py-2 text-sm',
+                selected ? 'border-slate-300 border-b-white bg-white font-semibold text-accent-800' : 'border-transparent text-slate-600 hover:text-slate-900',
+              )}
+            >
+              <Icon aria-hidden className="h-4 w-4" />
+              {a.label}
+              {a.id !== 'panel' && a.id !== 'monitor' && a.id !== 'scope' && !editing[a.id] ? <span className="text-[10px] font-normal text-slate-400">read-only</span> : null}
+            </button>
+          );
+        })}
+      </div>
+      <div
+        role="tabpanel"
+        id={`area-${area}`}
+        aria-labelledby={`tab-${area}`}
+        className={cn('min-h-[420px]', !forceAllowed && "[&_button[aria-label^='Force']]:hidden [&_button[aria-label^='Unforce']]:hidden")}
+        data-testid={`area-${area}`}
+        data-force-allowed={forceAllowed}
+      >
+        <AreaScope canEdit={Boolean(editing[area])}>
+          {area === 'panel' ? <PanelArea /> : null}
+          {area === 'field' ? <FieldArea /> : null}
+          {area === 'logic' ? <LogicSlot /> : null}
+          {area === 'controller' ? <ControllerSlot /> : null}
+          {area === 'monitor' ? <MonitorArea /> : null}
+          {area === 'scope' ? <ScopeArea /> : null}
+        </AreaScope>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,220 @@
+'use client';
+/**
+ * The workspace contract: how any area of the cell workspace (panel, field, logic,
+ * controller, monitor, scope, and whatever comes later) reads the cell and drives it.
+ *
+ * Shape
+ * -----
+ * One zustand store per open cell, built by `createWorkspaceStore(initial, engine?)`
+ * (components/workspace/store.ts) and handed down by `<WorkspaceProvider>`
+ * (components/workspace/workspace-provider.tsx). There is no module-level store, so two
+ * workspaces (or two tests) never share state (shared/STYLE.md).
+ *
+ * The store holds:
+ * - `cellId`, `version`: the saved version the editable document is based on (the
+ *   `baseVersion` of the next save),
+ * - `document`: the editable cell document (simulator/schema/cell-document.ts),
+ * - undo/redo history and a `dirty` flag (document differs from the saved version),
+ * - `snapshot`: the live CellSnapshot from the engine worker, replaced at most once per
+ *   animation frame,
+ * - `engine`: run state (running/paused, speed, problems of an invalid document),
+ * - `selection`: one selected device / block / point / address / wire id, shared by every
+ *   area so they all highlight the same signal.
+ *
+ * Reading
+ * -------
+ *   const doc = useWorkspace((s) => s.document);
+ *   const state = useSnapshot((snap) => snap.controller.state);           // undefined until the first snapshot
+ *   const pts = useSnapshot((snap) => snap.controller.points, shallowEqual);
+ *
+ * Selectors run on every store change (including every snapshot, ~60/s): return a primitive,
+ * an existing object from the state, or pass an equality function (e.g. `shallowEqual`,
+ * re-exported below) when building a new array/object, so components re-render only when
+ * what they show changes.
+ *
+ * Editing
+ * -------
+ *   const edit = useEditDocument();
+ *   edit((draft) => { draft.panel.push(button); }, 'Add push button');
+ *   edit(nextDocument, 'Import');
+ *
+ * A recipe gets a deep copy of the current document: mutate it and return nothing, or return
+ * a new document. Each call is one undo step named by `label`. After an edit the worker
+ * reloads the cell from the new document at time 0 (deterministic: same document, same events,
+ * same seed → same trace). Pass `{ engine: 'keep' }` when the running cell was already told
+ * about the change by an event (e.g. a point-map edit sent as `stage-point-map`, which must
+ * stay staged without resetting the run) — the document is updated for saving and undo, the
+ * run continues untouched.
+ *
+ * Driving the run
+ * ---------------
+ *   const send = useSendEvent();
+ *   send({ type: 'press', device: 'start' });
+ * Events go to the engine worker and are recorded in its event log (for replay and grading).
+ * The result comes back asynchronously; a rejected event is reported in `engine.lastRejection`.
+ *
+ * Run controls: `run(1 | 10 | 'max')`, `pause()`, `stepScan()` (advance to the end of the next
+ * PLC scan), `restartRun()` (reload the current document at time 0).
+ */
+import { createContext, useContext } from 'react';
+import { useStoreWithEqualityFn } from 'zustand/traditional';
+import { shallow } from 'zustand/shallow';
+import type { StoreApi } from 'zustand/vanilla';
+import type { CellDocument, CellSnapshot, CellEvent, LoggedEvent, Problem } from '@/simulator';
+import type { EngineFactory } from './store';
+import type { TraceChunk } from './engine-protocol';
+
+export type { CellDocument, CellSnapshot, CellEvent, LoggedEvent, Problem };
+
+/** Run speed: real time, ten times real time, or as fast as the worker can go. */
+export type RunSpeed = 1 | 10 | 'max';
+
+/** What can be selected; the id is a device id, block id, point ref (`DI3`), PLC address (`%IX0.0`) or wiring row id. */
+export type SelectionKind = 'device' | 'block' | 'point' | 'address' | 'wire';
+export type Selection = { kind: SelectionKind; id: string } | null;
+
+/** One entry of the undo or redo stack. */
+export type HistoryEntry = { label: string; document: CellDocument };
+
+/** How an edit affects the running cell. */
+export type EditOptions = {
+  /** 'reload' (default): the worker reloads the cell from the edited document at time 0. 'keep': the run continues. */
+  engine?: 'reload' | 'keep';
+};
+
+/** A recipe: mutate the deep copy and return nothing, or return the next document. */
+export type DocumentRecipe = (draft: CellDocument) => CellDocument | void;
+
+/** Engine worker status as the UI sees it. */
+export type EngineState = {
+  /** 'loading' until the first snapshot; 'invalid' when the document does not load (see `problems`). */
+  status: 'loading' | 'ready' | 'invalid' | 'crashed';
+  running: boolean;
+  speed: RunSpeed;
+  /** Problems of the current document (createCell's validation), with paths into the document. */
+  problems: Problem[];
+  /** The last event the cell rejected, with why; null when the last event was accepted. */
+  lastRejection: { event: CellEvent; problems: Problem[] } | null;
+  /** Every signal name the cell exposes (scope and rule pickers). */
+  signalNames: string[];
+  /** How many events the current run has logged. */
+  eventCount: number;
+};
+
+/** What the provider is created from: the page's props. */
+export type WorkspaceInit = {
+  cellId: string;
+  /** Version number the document was read from. */
+  version: number;
+  document: CellDocument;
+  /** False for a viewer who may run the cell but not save it. */
+  canEdit: boolean;
+};
+
+/** Store state. */
+export type WorkspaceState = {
+  cellId: string;
+  version: number;
+  canEdit: boolean;
+  document: CellDocument;
+  /** The document as last saved (or loaded); `dirty` compares against it. */
+  savedDocument: CellDocument;
+  past: HistoryEntry[];
+  future: HistoryEntry[];
+  dirty: boolean;
+  /** Panel/field editing mode (add, move, edit devices) versus operating mode. */
+  editMode: boolean;
+  snapshot: CellSnapshot | null;
+  engine: EngineState;
+  selection: Selection;
+};
+
+/** Store actions. */
+export type WorkspaceActions = {
+  /** Changes the document as one undo step named `label`. */
+  editDocument(recipe: DocumentRecipe | CellDocument, label: string, options?: EditOptions): void;
+  undo(): void;
+  redo(): void;
+  /** Replaces document and base version after a save or a reload; clears history when `resetHistory`. */
+  markSaved(version: number, document?: CellDocument, resetHistory?: boolean): void;
+  setEditMode(on: boolean): void;
+  /** Sends an event to the engine worker (logged in the run's event log). */
+  sendEvent(event: CellEvent): void;
+  run(speed: RunSpeed): void;
+  pause(): void;
+  /** Advances the cell to the end of the next PLC scan (paused). */
+  stepScan(): void;
+  /** Reloads the current document at time 0 and keeps the run state (running or paused). */
+  restartRun(): void;
+  /** The run's event log so far, from the worker. */
+  getEventLog(): Promise<LoggedEvent[]>;
+  select(selection: Selection): void;
+  /** Exact changes of PLC addresses and controller points, as the engine traces them (the scope uses it). */
+  subscribeTrace(listener: (chunk: TraceChunk) => void): () => void;
+  /** Internal: the engine connection pushes into the store through these. */
+  receiveSnapshot(snapshot: CellSnapshot): void;
+  patchEngine(patch: Partial<EngineState>): void;
+  /**
+   * Internal: connects an engine (the provider does this with the Web Worker) and loads the
+   * current document into it; returns the function that disconnects and stops it.
+   */
+  attachEngine(factory: EngineFactory): () => void;
+};
+
+export type WorkspaceStore = WorkspaceState & WorkspaceActions;
+export type WorkspaceStoreApi = StoreApi<WorkspaceStore>;
+
+/** The React context carrying this workspace's store; provided by `<WorkspaceProvider>`. */
+export const WorkspaceStoreContext = createContext<WorkspaceStoreApi | null>(null);
+
+/** Equality helper for selectors that build new arrays or objects. */
+export const shallowEqual = shallow;
+
+/** The store API of the nearest provider (for imperative reads: `api.getState()`). */
+export function useWorkspaceApi(): WorkspaceStoreApi {
+  const api = useContext(WorkspaceStoreContext);
+  if (!api) throw new Error('useWorkspace* hooks need a <WorkspaceProvider> above them');
+  return api;
+}
+
+/** Selects from the whole workspace store (state and actions). */
+export function useWorkspace<T>(selector: (state: WorkspaceStore) => T, equality?: (a: T, b: T) => boolean): T {
+  return useStoreWithEqualityFn(useWorkspaceApi(), selector, equality);
+}
+
+/** Selects from the live snapshot; `undefined` until the engine posts the first one. */
+export function useSnapshot<T>(selector: (snapshot: CellSnapshot) => T, equality?: (a: T | undefined, b: T | undefined) => boolean): T | undefined {
+  return useStoreWithEqualityFn(useWorkspaceApi(), (s) => (s.snapshot ? selector(s.snapshot) : undefined), equality);
+}
+
+/** The current editable document. */
+export function useCellDocument(): CellDocument {
+  return useWorkspace((s) => s.document);
+}
+
+/** `editDocument(recipe | next, label, options?)`. */
+export function useEditDocument(): WorkspaceActions['editDocument'] {
+  return useWorkspace((s) => s.editDocument);
+}
+
+/** `sendEvent(event)` to the engine worker. */
+export function useSendEvent(): WorkspaceActions['sendEvent'] {
+  return useWorkspace((s) => s.sendEvent);
+}
+
+/** The shared selection and its setter. */
+export function useSelection(): [Selection, WorkspaceActions['select']] {
+  const selection = useWorkspace((s) => s.selection);
+  const select = useWorkspace((s) => s.select);
+  return [selection, select];
+}
+
+/** True when `kind`/`id` is the selected item (cheap per-row check). */
+export function useIsSelected(kind: SelectionKind, id: string): boolean {
+  return useWorkspace((s) => s.selection?.kind === kind && s.selection.id === id);
+}
+
+/** Whether the document may be edited here (role and edit mode aside). */
+export function useCanEdit(): boolean {
+  return useWorkspace((s) => s.canEdit);
+}

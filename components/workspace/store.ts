@@ -1,0 +1,207 @@
+/**
+ * The workspace store factory (see contract.ts for the shape and how areas use it).
+ * Engine-agnostic: the store talks to the engine through an `EngineConnection`, so unit tests
+ * run it without a Web Worker and the worker stays replaceable.
+ */
+import { createStore } from 'zustand/vanilla';
+import type { CellDocument, CellEvent, LoggedEvent, CellSnapshot } from '@/simulator';
+import type { TraceChunk } from './engine-protocol';
+import type { EngineState, HistoryEntry, RunSpeed, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
+
+/** Undo depth; older steps fall off (a document is small, but hours of editing add up). */
+export const HISTORY_LIMIT = 100;
+
+/** What the store needs from an engine (the worker adapter in engine-connection.ts, or a fake). */
+export type EngineConnection = {
+  load(document: CellDocument): void;
+  send(event: CellEvent): void;
+  run(speed: RunSpeed): void;
+  pause(): void;
+  stepScan(): void;
+  getEventLog(): Promise<LoggedEvent[]>;
+  dispose(): void;
+};
+
+/** Where the engine pushes its results. */
+export type EngineSink = {
+  snapshot(snapshot: CellSnapshot): void;
+  /** Exact signal changes; never coalesced (unlike snapshots), so no edge is lost. */
+  trace(chunk: TraceChunk): void;
+  patch(patch: Partial<EngineState>): void;
+};
+
+/** Builds an engine connection for a store; receives the sink it reports into. */
+export type EngineFactory = (sink: EngineSink) => EngineConnection;
+
+const INITIAL_ENGINE: EngineState = {
+  status: 'loading',
+  running: false,
+  speed: 1,
+  problems: [],
+  lastRejection: null,
+  signalNames: [],
+  eventCount: 0,
+};
+
+/** Structural equality of two JSON documents (cheap enough for a cell document per edit). */
+export function sameDocument(a: CellDocument, b: CellDocument): boolean {
+  return a === b || JSON.stringify(a) === JSON.stringify(b);
+}
+
+/**
+ * Creates one workspace store. `engineFactory` is optional: the provider attaches the worker in
+ * an effect (so React's mount/unmount/mount in development leaves exactly one worker), tests
+ * pass a fake here, and without any engine the run controls are no-ops.
+ */
+export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: EngineFactory): WorkspaceStoreApi {
+  let engine: EngineConnection | null = null;
+  const traceListeners = new Set<(chunk: TraceChunk) => void>();
+
+  const store = createStore<WorkspaceStore>()((set, get) => {
+    const applyDocument = (document: CellDocument, reload: boolean) => {
+      if (reload) {
+        set({ engine: { ...get().engine, status: 'loading', problems: [], lastRejection: null } });
+        engine?.load(document);
+      }
+    };
+    const pushHistory = (stack: HistoryEntry[], entry: HistoryEntry) => {
+      const next = [...stack, entry];
+      return next.length > HISTORY_LIMIT ? next.slice(next.length - HISTORY_LIMIT) : next;
+    };
+
+    return {
+      cellId: init.cellId,
+      version: init.version,
+      canEdit: init.canEdit,
+      document: init.document,
+      savedDocument: init.document,
+      past: [],
+      future: [],
+      dirty: false,
+      editMode: false,
+      snapshot: null,
+      engine: INITIAL_ENGINE,
+      selection: null,
+
+      editDocument(recipe, label, options) {
+        const current = get().document;
+        let next: CellDocument;
+        if (typeof recipe === 'function') {
+          const draft = structuredClone(current);
+          next = recipe(draft) ?? draft;
+        } else {
+          next = recipe;
+        }
+        if (sameDocument(current, next)) return;
+        set((s) => ({
+          document: next,
+          past: pushHistory(s.past, { label, document: current }),
+          future: [],
+          dirty: !sameDocument(next, s.savedDocument),
+        }));
+        applyDocument(next, options?.engine !== 'keep');
+      },
+
+      undo() {
+        const { past, document } = get();
+        const last = past.at(-1);
+        if (!last) return;
+        set((s) => ({
+          document: last.document,
+          past: s.past.slice(0, -1),
+          future: [...s.future, { label: last.label, document }],
+          dirty: !sameDocument(last.document, s.savedDocument),
+        }));
+        applyDocument(last.document, true);
+      },
+
+      redo() {
+        const { future, document } = get();
+        const last = future.at(-1);
+        if (!last) return;
+        set((s) => ({
+          document: last.document,
+          future: s.future.slice(0, -1),
+          past: pushHistory(s.past, { label: last.label, document }),
+          dirty: !sameDocument(last.document, s.savedDocument),
+        }));
+        applyDocument(last.document, true);
+      },
+
+      markSaved(version, document, resetHistory) {
+        const doc = document ?? get().document;
+        const reload = document !== undefined && !sameDocument(document, get().document);
+        set((s) => ({
+          version,
+          document: doc,
+          savedDocument: doc,
+          dirty: false,
+          past: resetHistory ? [] : s.past,
+          future: resetHistory ? [] : s.future,
+        }));
+        applyDocument(doc, reload);
+      },
+
+      setEditMode(on) {
+        set({ editMode: on });
+      },
+
+      sendEvent(event) {
+        engine?.send(event);
+      },
+      run(speed) {
+        set((s) => ({ engine: { ...s.engine, running: true, speed } }));
+        engine?.run(speed);
+      },
+      pause() {
+        set((s) => ({ engine: { ...s.engine, running: false } }));
+        engine?.pause();
+      },
+      stepScan() {
+        set((s) => ({ engine: { ...s.engine, running: false } }));
+        engine?.stepScan();
+      },
+      restartRun() {
+        applyDocument(get().document, true);
+      },
+      getEventLog() {
+        return engine ? engine.getEventLog() : Promise.resolve([]);
+      },
+      select(selection) {
+        set({ selection });
+      },
+      subscribeTrace(listener) {
+        traceListeners.add(listener);
+        return () => void traceListeners.delete(listener);
+      },
+      receiveSnapshot(snapshot) {
+        set({ snapshot });
+      },
+      patchEngine(patch) {
+        // A document that does not load leaves no running cell: drop the old picture rather than show it as live.
+        set((s) => ({ engine: { ...s.engine, ...patch }, ...(patch.status === 'invalid' ? { snapshot: null } : {}) }));
+      },
+      attachEngine(factory) {
+        engine?.dispose();
+        const conn = factory({
+          snapshot: (snap) => get().receiveSnapshot(snap),
+          trace: (chunk) => traceListeners.forEach((l) => l(chunk)),
+          patch: (p) => get().patchEngine(p),
+        });
+        engine = conn;
+        const { running, speed } = get().engine;
+        set({ snapshot: null, engine: { ...INITIAL_ENGINE, running, speed } });
+        conn.load(get().document);
+        if (running) conn.run(speed);
+        return () => {
+          conn.dispose();
+          if (engine === conn) engine = null;
+        };
+      },
+    };
+  });
+
+  if (engineFactory) store.getState().attachEngine(engineFactory);
+
+  return store;
+}

@@ -1,0 +1,54 @@
+import 'server-only';
+import { hashToken, newToken } from '@/lib/tokens';
+import { db } from './knex';
+import { writeAudit } from './audit';
+
+export const RESET_TTL_MINUTES = 60;
+
+/** A reset token for an active account, or null (unknown or disabled: the caller says the same thing either way). */
+export async function createPasswordReset(email: string): Promise<{ token: string; userId: string; name: string } | null> {
+  const user = await db()('users').where({ email: email.trim().toLowerCase() }).first();
+  if (!user || user.disabled) return null;
+  const { token, hash } = newToken();
+  await db()('password_resets').insert({
+    user_id: user.id,
+    token_hash: hash,
+    expires_at: db().raw(`now() + interval '${RESET_TTL_MINUTES} minutes'`),
+  });
+  return { token, userId: user.id, name: user.name };
+}
+
+export type ResetState = 'valid' | 'invalid' | 'used' | 'expired';
+
+export async function lookupPasswordReset(token: string): Promise<ResetState> {
+  const row = await db()('password_resets')
+    .where('token_hash', hashToken(token))
+    .select('*', db().raw('expires_at <= now() as is_expired'))
+    .first();
+  if (!row) return 'invalid';
+  if (row.used_at) return 'used';
+  if (row.is_expired) return 'expired';
+  return 'valid';
+}
+
+/** Use a reset token once; also retires the account's other open reset tokens. */
+export async function completePasswordReset(
+  token: string,
+  passwordHash: string,
+): Promise<{ ok: true; userId: string } | { ok: false; reason: Exclude<ResetState, 'valid'> }> {
+  return db().transaction(async (trx) => {
+    const row = await trx('password_resets')
+      .where('token_hash', hashToken(token))
+      .select('*', trx.raw('expires_at <= now() as is_expired'))
+      .forUpdate()
+      .first();
+    if (!row) return { ok: false, reason: 'invalid' };
+    if (row.used_at) return { ok: false, reason: 'used' };
+    if (row.is_expired) return { ok: false, reason: 'expired' };
+    await trx('users').where({ id: row.user_id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+    await trx('password_resets').where({ user_id: row.user_id }).whereNull('used_at').update({ used_at: trx.fn.now() });
+    await trx('sign_in_failures').where({ email: trx('users').select('email').where({ id: row.user_id }) }).delete();
+    await writeAudit({ actorId: row.user_id, action: 'password.reset', targetUserId: row.user_id }, trx);
+    return { ok: true, userId: row.user_id };
+  });
+}

@@ -1,0 +1,249 @@
+import 'server-only';
+import type { Knex } from 'knex';
+import type { LoggedEvent } from '@/simulator';
+import type { Diagnosis } from '@/lib/schemas/runs';
+import type { GradeBreakdown } from '@/lib/runs/grade';
+import { writeAudit } from './audit';
+import { db } from './knex';
+import { isUuid } from './users';
+
+export type RunMode = 'drill' | 'practice';
+export type RunStatus = 'active' | 'submitted';
+
+export interface Run {
+  id: string;
+  userId: string;
+  userName: string;
+  mode: RunMode;
+  drillId: string | null;
+  assignmentId: string | null;
+  cellId: string;
+  cellVersion: number;
+  seed: number;
+  status: RunStatus;
+  startedAt: string;
+  submittedAt: string | null;
+  endedMs: number | null;
+  diagnosis: Diagnosis | null;
+  grade: number | null;
+  breakdown: GradeBreakdown | null;
+  traceHash: string | null;
+  overrideGrade: number | null;
+  overrideReason: string | null;
+  overrideBy: string | null;
+  /** Batches stored so far and the cell time the last one reached. */
+  lastSeq: number;
+  untilMs: number;
+}
+
+export interface StoredBatch {
+  seq: number;
+  key: string;
+  untilMs: number;
+  events: LoggedEvent[];
+  createdAt: string;
+}
+
+const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function toRun(r: any): Run {
+  return {
+    id: r.id,
+    userId: r.user_id,
+    userName: r.user_name,
+    mode: r.mode,
+    drillId: r.drill_id,
+    assignmentId: r.assignment_id,
+    cellId: r.cell_id,
+    cellVersion: r.cell_version,
+    seed: Number(r.seed),
+    status: r.status,
+    startedAt: iso(r.started_at)!,
+    submittedAt: iso(r.submitted_at),
+    endedMs: r.ended_ms,
+    diagnosis: r.diagnosis,
+    grade: r.grade,
+    breakdown: r.breakdown,
+    traceHash: r.trace_hash,
+    overrideGrade: r.override_grade,
+    overrideReason: r.override_reason,
+    overrideBy: r.override_by,
+    lastSeq: r.last_seq ?? 0,
+    untilMs: r.until_ms ?? 0,
+  };
+}
+
+function runQuery(k: Knex = db()) {
+  return k('runs as r')
+    .join('users as u', 'u.id', 'r.user_id')
+    .select(
+      'r.*',
+      'u.name as user_name',
+      k.raw('(select coalesce(max(b.seq), 0) from run_batches b where b.run_id = r.id)::int as last_seq'),
+      k.raw('(select coalesce(max(b.until_ms), 0) from run_batches b where b.run_id = r.id)::int as until_ms'),
+    );
+}
+
+export async function findRun(id: string): Promise<Run | null> {
+  if (!isUuid(id)) return null;
+  const row = await runQuery().where('r.id', id).first();
+  return row ? toRun(row) : null;
+}
+
+export interface NewRun {
+  userId: string;
+  mode: RunMode;
+  drillId?: string | null;
+  assignmentId?: string | null;
+  cellId: string;
+  cellVersion: number;
+  seed: number;
+}
+
+/** A new practice run. */
+export async function createRun(input: NewRun): Promise<Run> {
+  const [row] = await db()('runs')
+    .insert({
+      user_id: input.userId,
+      mode: input.mode,
+      drill_id: input.drillId ?? null,
+      assignment_id: input.assignmentId ?? null,
+      cell_id: input.cellId,
+      cell_version: input.cellVersion,
+      seed: input.seed,
+    })
+    .returning('id');
+  return (await findRun(row.id))!;
+}
+
+/**
+ * The student's one attempt at an assignment: the existing run, or a new one. Two starts
+ * racing (two tabs) meet at the unique index and both get the same run.
+ */
+export async function startAssignmentRun(input: NewRun & { assignmentId: string }): Promise<{ run: Run; created: boolean }> {
+  const existing = async () => db()('runs').where({ assignment_id: input.assignmentId, user_id: input.userId }).first('id');
+  const found = await existing();
+  if (found) return { run: (await findRun(found.id))!, created: false };
+  try {
+    const [row] = await db()('runs')
+      .insert({
+        user_id: input.userId,
+        mode: 'drill',
+        drill_id: input.drillId,
+        assignment_id: input.assignmentId,
+        cell_id: input.cellId,
+        cell_version: input.cellVersion,
+        seed: input.seed,
+      })
+      .returning('id');
+    return { run: (await findRun(row.id))!, created: true };
+  } catch (err) {
+    if ((err as { code?: string }).code !== '23505') throw err;
+  }
+  const again = await existing();
+  return { run: (await findRun(again!.id))!, created: false };
+}
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function toBatch(r: any): StoredBatch {
+  return { seq: r.seq, key: r.idempotency_key, untilMs: r.until_ms, events: r.events, createdAt: iso(r.created_at)! };
+}
+
+/** Every batch of a run in sequence order: the run's whole event log. */
+export async function listBatches(runId: string, k: Knex = db()): Promise<StoredBatch[]> {
+  return (await k('run_batches').where({ run_id: runId }).orderBy('seq')).map(toBatch);
+}
+
+export async function findBatchByKey(runId: string, key: string): Promise<StoredBatch | null> {
+  const row = await db()('run_batches').where({ run_id: runId, idempotency_key: key }).first();
+  return row ? toBatch(row) : null;
+}
+
+export async function lastBatch(runId: string): Promise<StoredBatch | null> {
+  const row = await db()('run_batches').where({ run_id: runId }).orderBy('seq', 'desc').first();
+  return row ? toBatch(row) : null;
+}
+
+export type InsertBatchResult = { ok: true } | { ok: false; reason: 'conflict' | 'submitted' };
+
+/**
+ * Stores a batch while the run is still active, in one statement: the insert selects from the
+ * run row with FOR SHARE, so it waits for (and then sees) a concurrent submit's update, and
+ * stores nothing once the run is submitted. A duplicate key or seq (a racing request) is a conflict.
+ */
+export async function insertBatch(runId: string, batch: { seq: number; key: string; untilMs: number; events: LoggedEvent[] }): Promise<InsertBatchResult> {
+  try {
+    const res = await db().raw(
+      `insert into run_batches (run_id, seq, idempotency_key, until_ms, events, event_count)
+       select r.id, ?, ?, ?, ?::jsonb, ? from runs r where r.id = ? and r.status = 'active' for share`,
+      [batch.seq, batch.key, batch.untilMs, JSON.stringify(batch.events), batch.events.length, runId],
+    );
+    return res.rowCount === 1 ? { ok: true } : { ok: false, reason: 'submitted' };
+  } catch (err) {
+    if ((err as { code?: string }).code === '23505') return { ok: false, reason: 'conflict' };
+    throw err;
+  }
+}
+
+export interface Submission {
+  endedMs: number;
+  diagnosis: Diagnosis | null;
+  grade: number | null;
+  breakdown: GradeBreakdown | null;
+  traceHash: string;
+}
+
+/** Marks an active run submitted with its grade; false when it was no longer active (a second submit). */
+export async function submitRun(runId: string, s: Submission): Promise<boolean> {
+  const n = await db()('runs')
+    .where({ id: runId, status: 'active' })
+    .update({
+      status: 'submitted',
+      submitted_at: db().fn.now(),
+      ended_ms: s.endedMs,
+      diagnosis: s.diagnosis ? JSON.stringify(s.diagnosis) : null,
+      grade: s.grade,
+      breakdown: s.breakdown ? JSON.stringify(s.breakdown) : null,
+      trace_hash: s.traceHash,
+    });
+  return n > 0;
+}
+
+/** Sets (or, with null, removes) a trainer's override of a run's grade, and records it in the audit log in the same transaction. */
+export async function overrideGrade(run: Run, grade: number | null, reason: string, by: string): Promise<void> {
+  await db().transaction(async (trx) => {
+    await trx('runs').where({ id: run.id }).update({ override_grade: grade, override_reason: reason, override_by: by, override_at: trx.fn.now() });
+    await writeAudit(
+      {
+        actorId: by,
+        action: 'grade.overridden',
+        targetUserId: run.userId,
+        detail: { runId: run.id, from: run.overrideGrade ?? run.grade, to: grade, computed: run.grade, reason },
+      },
+      trx,
+    );
+  });
+}
+
+/** A user's runs, newest first (the "my runs" list and the practice history). */
+export async function listRunsOfUser(userId: string, limit = 100): Promise<Run[]> {
+  return (await runQuery().where('r.user_id', userId).orderBy('r.started_at', 'desc').limit(limit)).map(toRun);
+}
+
+/** Runs on a set of assignments (the gradebook). */
+export async function listRunsOfAssignments(assignmentIds: string[]): Promise<Run[]> {
+  if (assignmentIds.length === 0) return [];
+  return (await runQuery().whereIn('r.assignment_id', assignmentIds)).map(toRun);
+}
+
+/** Every submitted run (the regrade check). */
+export async function listSubmittedRuns(): Promise<Run[]> {
+  return (await runQuery().where('r.status', 'submitted').orderBy('r.submitted_at')).map(toRun);
+}
+
+/** A student's run on an assignment, if any. */
+export async function findRunOfAssignment(assignmentId: string, userId: string): Promise<Run | null> {
+  const row = await runQuery().where({ 'r.assignment_id': assignmentId, 'r.user_id': userId }).first();
+  return row ? toRun(row) : null;
+}

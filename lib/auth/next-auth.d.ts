@@ -1,0 +1,18 @@
+import type { DefaultSession } from 'next-auth';
+import type { Role } from '@/lib/roles';
+
+declare module 'next-auth' {
+  interface Session {
+    user: DefaultSession['user'] & { id: string; role: Role };
+  }
+  interface User {
+    role: Role;
+  }
+}
+
+declare module 'next-auth/jwt' {
+  interface JWT {
+    id: string;
+    role: Role;
+  }
+}

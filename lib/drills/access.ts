@@ -1,0 +1,78 @@
+import 'server-only';
+import { ApiError } from '@/lib/api/errors';
+import type { Role } from '@/lib/roles';
+import type { User } from '@/db/users';
+import { findAssignment, findDrill, isCohortMember, type Assignment, type Drill } from '@/db/drills';
+import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
+// The diagnosis form's catalogue (DIAGNOSIS_KINDS in lib/schemas/drills.ts) is static and not
+// sent here, so a payload search for fault kinds finds only what would be a leak.
+import type { DrillPermissions } from '@/lib/schemas/drills';
+
+/** Who authors drills: trainers their own, admins any. */
+export const DRILL_ROLES: readonly Role[] = ['trainer', 'admin'];
+/** Who attempts drills. */
+export const STUDENT_ROLES: readonly Role[] = ['student'];
+
+/** A drill the user may author: 404 for another trainer's (ids reveal nothing). */
+export async function drillForAuthor(user: User, id: string): Promise<Drill> {
+  const drill = await findDrill(id);
+  if (!drill || (user.role !== 'admin' && drill.trainerId !== user.id)) throw new ApiError(404, 'No such drill.');
+  return drill;
+}
+
+/** An assignment given to a cohort the student belongs to; anything else is 404. */
+export async function assignmentForStudent(user: User, id: string): Promise<{ assignment: Assignment; drill: Drill }> {
+  const assignment = await findAssignment(id);
+  if (!assignment || !(await isCohortMember(assignment.cohortId, user.id))) throw new ApiError(404, 'No such assignment.');
+  const drill = await findDrill(assignment.drillId);
+  if (!drill) throw new ApiError(404, 'No such assignment.');
+  return { assignment, drill };
+}
+
+export type AssignmentState = 'upcoming' | 'open' | 'closed';
+
+export function assignmentState(a: Pick<Assignment, 'opensAt' | 'closesAt'>, now = Date.now()): AssignmentState {
+  if (now < Date.parse(a.opensAt)) return 'upcoming';
+  if (now > Date.parse(a.closesAt)) return 'closed';
+  return 'open';
+}
+
+/** What a student receives about a drill: never its fault cards, rules or answer. */
+export interface StudentDrillPayload {
+  assignmentId: string;
+  state: AssignmentState;
+  opensAt: string;
+  closesAt: string;
+  drill: {
+    id: string;
+    title: string;
+    brief: string;
+    objectives: string[];
+    timeLimitMs: number;
+    permissions: DrillPermissions;
+    cellId: string;
+    cellVersion: number;
+    assets: DrillAssetMeta[];
+  };
+}
+
+/** Builds the student payload field by field (nothing is spread from the drill row). */
+export async function studentDrillPayload(assignment: Assignment, drill: Drill): Promise<StudentDrillPayload> {
+  return {
+    assignmentId: assignment.id,
+    state: assignmentState(assignment),
+    opensAt: assignment.opensAt,
+    closesAt: assignment.closesAt,
+    drill: {
+      id: drill.id,
+      title: drill.title,
+      brief: drill.brief,
+      objectives: [...drill.objectives],
+      timeLimitMs: drill.timeLimitMs,
+      permissions: { forceAllowed: drill.permissions.forceAllowed, editable: [...drill.permissions.editable] },
+      cellId: drill.cellId,
+      cellVersion: drill.cellVersion,
+      assets: await listAssets(drill.id),
+    },
+  };
+}

@@ -1,0 +1,231 @@
+/**
+ * The built-in drill library: invented fault-finding exercises on the demo cells. Each names
+ * its base document (the pick-and-place demo, or a variant of it built here through the
+ * engine's document schema), its hidden fault cards, brief, objectives, weighted rules and the
+ * answer. No `server-only`: the demo seed (tsx, vitest global setup) imports it.
+ *
+ * Scenarios are invented; the behaviour they rely on is the engine's (docs/engine.md) and
+ * common practice: NC stop circuits read "stop" on a broken wire; a sinking input needs a
+ * sourcing (PNP) sensor; NE 43 treats a 4–20 mA loop below 3.6 mA as failed.
+ */
+import { pickAndPlaceCell, type CellDocumentInput, type FaultCard } from '@/simulator';
+import type { DrillInput, WeightedRule } from '@/lib/schemas/drills';
+
+/** Base documents the library needs besides the plain demo cell. */
+export type LibraryBase = 'pick-and-place' | 'staged-restart' | 'job-encoding' | 'air-pressure';
+
+export interface LibraryDrill {
+  key: string;
+  base: LibraryBase;
+  input: Omit<DrillInput, 'cellId' | 'cellVersion'>;
+}
+
+const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
+
+/** Names of the variant cells the seed creates for the drills that need them. */
+export const LIBRARY_BASE_NAMES: Record<Exclude<LibraryBase, 'pick-and-place'>, string> = {
+  'staged-restart': 'Drill base — Cell B after the I/O card move',
+  'job-encoding': 'Drill base — Cell B with the new job selector',
+  'air-pressure': 'Drill base — Cell B with supply air monitoring',
+};
+
+/**
+ * The variant documents. staged-restart: the digital-input row was moved one channel up
+ * (points count from 1, channels from 0 — the classic slip) and the correction was staged but
+ * the controller never restarted. job-encoding: the job word is read as Gray code while the PLC
+ * sends binary. air-pressure: a 4–20 mA supply-air transmitter (modelled with the engine's
+ * analog dial device) on a new analog input module at %IW4.
+ */
+export function libraryBaseDocument(base: LibraryBase): CellDocumentInput {
+  const doc = clone(pickAndPlaceCell);
+  if (base === 'staged-restart') {
+    const rows = doc.controller.pointMap;
+    const di = rows.find((r) => r.id === 'pm-di')!;
+    doc.controller.staged = clone(rows);
+    di.firstChannel = 1;
+    doc.id = 'harbourside-cell-b-staged';
+    doc.name = LIBRARY_BASE_NAMES['staged-restart'];
+  } else if (base === 'job-encoding') {
+    doc.controller.pointMap.find((r) => r.id === 'pm-wi')!.encoding = 'gray';
+    doc.id = 'harbourside-cell-b-job-encoding';
+    doc.name = LIBRARY_BASE_NAMES['job-encoding'];
+  } else if (base === 'air-pressure') {
+    doc.panel.push({
+      id: 'airPressure',
+      type: 'potentiometer',
+      label: 'Supply air pressure transmitter (simulated)',
+      colour: 'black',
+      position: { x: 40, y: 200 },
+      signal: '4-20mA',
+      min: 0,
+      max: 10,
+      unit: 'bar',
+    });
+    doc.plc.modules.push({ id: 'plc-ai4', kind: 'analog-in', address: 4, channels: 1, signal: '4-20mA', resolutionBits: 12 });
+    doc.wiring.push({ id: 'w-air', from: { device: 'airPressure', terminal: 'signal' }, to: { plc: '%IW4' }, label: 'Supply air 4–20 mA' });
+    doc.initial = { ...doc.initial!, devices: { ...(doc.initial?.devices ?? {}), airPressure: { value: 6 } } };
+    doc.id = 'harbourside-cell-b-air';
+    doc.name = LIBRARY_BASE_NAMES['air-pressure'];
+  }
+  return doc;
+}
+
+const GUARD_RULE: WeightedRule = {
+  weight: 3,
+  rule: {
+    id: 'no-motion-guard-open',
+    kind: 'after',
+    label: 'The arm is at rest within 600 ms of the guard reading open',
+    event: { signal: 'plc.%IX0.4', op: '==', value: 0 },
+    withinMs: 600,
+    p: { signal: 'arm.moving', op: '==', value: 0 },
+  },
+};
+
+const ESTOP_RULE: WeightedRule = {
+  weight: 2,
+  rule: {
+    id: 'estop-stops',
+    kind: 'after',
+    label: 'Within 1 s of the e-stop the arm is at rest with the servos off',
+    event: { signal: 'dev.estop.latched', op: '==', value: 1 },
+    withinMs: 1000,
+    p: { all: [{ signal: 'arm.moving', op: '==', value: 0 }, { signal: 'ctl.servo', op: '==', value: 0 }] },
+  },
+};
+
+const TEN_MIN = 600_000;
+const READ_ONLY = { forceAllowed: true, editable: [] as ('point-map' | 'logic' | 'wiring' | 'routine')[] };
+const CAUTION =
+  '> Cellwright is a training tool: its interlocks are not safety functions. Real e-stop and guard circuits are hardwired or use safety-rated devices (ISO 13849-1 / IEC 62061, IEC 60204-1); robot cells follow ISO 10218; real work needs lockout/tagout.';
+
+function card(c: FaultCard): FaultCard {
+  return c;
+}
+
+/** Every built-in drill, in the order a course would take them. */
+export const DRILL_LIBRARY: readonly LibraryDrill[] = [
+  {
+    key: 'nc-stop-broken-wire',
+    base: 'pick-and-place',
+    input: {
+      title: 'Cell B holds for no reason',
+      brief: `## Night shift report\n\nCell B at Harbourside ran fine at the start of the shift. Then the robot went to hold mid-cycle and now refuses to start; the yellow lamp is lit. Nobody touched the stop button.\n\nFind the cause with the monitor, the meter readings on the terminal strip and the scope. Do not bypass anything you cannot explain.\n\n${CAUTION}`,
+      faults: [card({ id: 'f1', kind: 'open-wire', row: 'w-stop', at: 15_000, label: 'Stop circuit conductor broken in the cable chain' })],
+      objectives: ['Run the cell and watch what happens when the robot holds.', 'Compare the stop button with what the PLC input reads.', 'Name the fault and the terminal-strip row.'],
+      rules: [GUARD_RULE, ESTOP_RULE],
+      answer: { kind: 'open-wire', location: 'w-stop' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: READ_ONLY,
+    },
+  },
+  {
+    key: 'part-sensor-type',
+    base: 'pick-and-place',
+    input: {
+      title: 'The new part sensor lights but nothing happens',
+      brief: `## After the sensor swap\n\nMaintenance replaced the part sensor at the pick station from the stores. Its LED lights when a part is there, but the robot waits for a part forever ("No part at the pick station").\n\nThe PLC's input card is a sinking card. Find out why the input never turns on.\n\n${CAUTION}`,
+      faults: [card({ id: 'f1', kind: 'sensor-type-mismatch', device: 'part', label: 'NPN sensor fitted where a PNP one belongs' })],
+      objectives: ['Put a part at the pick station and compare the sensor LED with the PLC input.', 'Check the input card type against the sensor output type.', 'Name the fault and the device.'],
+      rules: [GUARD_RULE],
+      answer: { kind: 'sensor-type-mismatch', location: 'part|w-part' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: READ_ONLY,
+    },
+  },
+  {
+    key: 'swapped-start-reset',
+    base: 'pick-and-place',
+    input: {
+      title: 'Start resets, reset starts',
+      brief: `## After the panel rewire\n\nThe operator panel of Cell B was taken off its hinges for a repaint and wired back up. Since then the buttons "do strange things".\n\nWork out what is going on from the inputs and the robot's behaviour.\n\n${CAUTION}`,
+      faults: [card({ id: 'f1', kind: 'swapped-wires', rows: ['w-start', 'w-reset'], label: 'Start and fault-reset conductors landed on each other\'s terminals' })],
+      objectives: ['Press each panel button and note which PLC input follows it.', 'Name the fault and both terminal-strip rows.'],
+      rules: [GUARD_RULE, ESTOP_RULE],
+      answer: { kind: 'swapped-wires', location: 'w-start,w-reset' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: READ_ONLY,
+    },
+  },
+  {
+    key: 'staged-restart-forgotten',
+    base: 'staged-restart',
+    input: {
+      title: 'The I/O card move that never took effect',
+      brief: `## Change left half done\n\nLast week the controller's digital-input range was moved and a correction was entered afterwards. The robot still reacts to the wrong buttons: start does nothing, and it reports a stop request that nobody made.\n\nFind out why the correction is not in effect, put it in effect, and run one full cycle.\n\n${CAUTION}`,
+      faults: [],
+      objectives: ['Compare the live point map with the staged one.', 'Bring the correction into effect.', 'Complete one full cycle.', 'Name the fault and the point-map row.'],
+      rules: [
+        GUARD_RULE,
+        { weight: 5, rule: { id: 'one-cycle', kind: 'eventually', withinMs: TEN_MIN, label: 'At least one complete cycle', p: { signal: 'ctl.cycles', op: '>=', value: 1 } } },
+      ],
+      answer: { kind: 'staged-not-applied', location: 'pm-di' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: { forceAllowed: true, editable: ['point-map'] },
+    },
+  },
+  {
+    key: 'job-word-encoding',
+    base: 'job-encoding',
+    input: {
+      title: 'Job 2 parts land on place 1',
+      brief: `## Wrong place\n\nSince the controller's job input was reconfigured, parts for job 2 end up at place 1. Job 1 still works.\n\nFind the cause from the job word's bits and what the controller makes of them, correct it, and place one job-2 part at place 2.\n\n${CAUTION}`,
+      faults: [],
+      objectives: ['Select job 2 and read the job word bits and the value the controller decodes.', 'Correct the configuration (a controller restart applies point-map changes).', 'Place one part at place 2.', 'Name the fault and the point-map row.'],
+      rules: [
+        GUARD_RULE,
+        {
+          weight: 5,
+          rule: {
+            id: 'reached-place-2',
+            kind: 'eventually',
+            withinMs: TEN_MIN,
+            label: 'The arm reaches place 2',
+            p: { all: [{ signal: 'arm.0', op: '<=', value: -0.39 }, { signal: 'arm.1', op: '>=', value: 0.34 }] },
+          },
+        },
+      ],
+      answer: { kind: 'wrong-word-encoding', location: 'pm-wi' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: { forceAllowed: true, editable: ['point-map'] },
+    },
+  },
+  {
+    key: 'chattering-part-sensor',
+    base: 'pick-and-place',
+    input: {
+      title: 'Ghost parts at the pick station',
+      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope, name the fault and where it is, and propose the logic change (a debounce timer) you would make in your notes.\n\n${CAUTION}`,
+      faults: [card({ id: 'f1', kind: 'chatter', row: 'w-part', periodMs: 30, probability: 0.35, label: 'Loose terminal on the part-sensor input' })],
+      objectives: ['Put the part sensor on the scope and compare it with the device.', 'Name the fault and the row.', 'In your diagnosis note, describe the debounce you would add (block and preset).'],
+      rules: [GUARD_RULE],
+      answer: { kind: 'chatter', location: 'w-part|part' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: { forceAllowed: true, editable: [] },
+    },
+  },
+  {
+    key: 'air-pressure-lost',
+    base: 'air-pressure',
+    input: {
+      title: 'Supply air reading dropped out',
+      brief: `## Pressure alarm\n\nCell B now monitors its supply air with a 4–20 mA transmitter on a new analog input. Twenty seconds into the shift the reading fell to nothing, although the gauge on the regulator still shows about 6 bar.\n\nMeasure the loop, decide whether the air or the signal is lost, and say where.\n\n${CAUTION}`,
+      faults: [card({ id: 'f1', kind: 'analog-loss', device: 'airPressure', at: 20_000, label: 'Transmitter loop interrupted at the junction box' })],
+      objectives: ['Read the loop current on the terminal strip before and after the drop.', 'Classify the loop against the NAMUR NE 43 bands.', 'Name the fault and where it is.'],
+      rules: [GUARD_RULE],
+      answer: { kind: 'analog-loss', location: 'airPressure|w-air' },
+      diagnosisWeight: 10,
+      timeLimitMs: TEN_MIN,
+      permissions: READ_ONLY,
+    },
+  },
+];
+
+/** The drill the demo seed assigns to the demo cohort. */
+export const DEMO_ASSIGNED_DRILL = 'nc-stop-broken-wire';

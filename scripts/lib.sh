@@ -1,0 +1,77 @@
+# Shared steps for scripts/start.sh and scripts/test.sh (sourced, not run).
+# Each step checks first, so a second run does no work.
+
+REPO="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$REPO"
+
+log() { printf '\033[1;36m==>\033[0m %s\n' "$*"; }
+
+as_root() {
+  if [[ "$(id -u)" == "0" ]]; then "$@"
+  elif command -v sudo >/dev/null 2>&1; then sudo "$@"
+  else echo "need root (or sudo) to run: $*" >&2; return 1
+  fi
+}
+
+APT_UPDATED=0
+apt_install() {
+  if [[ "$APT_UPDATED" == "0" ]]; then
+    as_root env DEBIAN_FRONTEND=noninteractive apt-get update -qq
+    APT_UPDATED=1
+  fi
+  as_root env DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
+}
+
+ensure_postgresql() {
+  if dpkg -s postgresql >/dev/null 2>&1 && ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1; then return; fi
+  log "installing Debian's postgresql"
+  apt_install postgresql
+}
+
+ensure_chromium() {
+  if [[ -x /usr/bin/chromium ]]; then return; fi
+  log "installing Debian's chromium"
+  apt_install chromium
+}
+
+# npm ci when node_modules is missing or older than package-lock.json.
+ensure_node_modules() {
+  if [[ -d node_modules && -f node_modules/.package-lock.json && ! package-lock.json -nt node_modules/.package-lock.json ]]; then return; fi
+  log "npm ci"
+  npm ci --no-audit --no-fund
+}
+
+start_database() {
+  log "PostgreSQL (project-local cluster)"
+  bash db/cluster.sh start
+}
+
+# tsx with the react-server condition so `import 'server-only'` resolves to its empty module outside Next.js.
+tsx_server() { node_modules/.bin/tsx --conditions=react-server "$@"; }
+
+# Build unless .next is newer than every source file that goes into it.
+build_app() {
+  if [[ -f .next/BUILD_ID ]]; then
+    local newer
+    newer="$(find app components lib db simulator public proxy.ts next.config.mjs tailwind.config.ts postcss.config.mjs package-lock.json tsconfig.json \
+      -newer .next/BUILD_ID -type f -not -path '*/node_modules/*' 2>/dev/null | head -n 1 || true)"
+    if [[ -z "$newer" ]]; then log "build is up to date"; return; fi
+  fi
+  log "next build"
+  NEXT_TELEMETRY_DISABLED=1 npx next build
+}
+
+# HTTP 2xx check with node (a fresh machine may have no curl).
+http_ok() { node -e "fetch(process.argv[1]).then((r) => process.exit(r.ok ? 0 : 1), () => process.exit(1))" "$1"; }
+
+port_open() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
+
+wait_for_port() {
+  local port="$1" tries="${2:-100}"
+  for ((i = 0; i < tries; i++)); do
+    if port_open "$port"; then return 0; fi
+    sleep 0.1
+  done
+  echo "nothing answered on 127.0.0.1:$port" >&2
+  return 1
+}

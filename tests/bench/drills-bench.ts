@@ -1,0 +1,252 @@
+/**
+ * Drills and runs benchmarks (not timed tests: the numbers depend on the machine).
+ *
+ * - `regrade_10min_ms`: the server's grading function (lib/runs/grade.ts: re-simulate the
+ *   stored log with the hidden faults, check the weighted rules, score the diagnosis, hash the
+ *   trace) on a 10-minute run of the pick-and-place demo cell with a realistic operator log
+ *   (a part and a start press every 15 s, the guard opened once, one e-stop and reset) and the
+ *   library's chattering-sensor drill (its input flickers every 30 ms: the busiest fault).
+ *   In-process, median of 5 after one warm-up. Target ≤ 500 (issue 5).
+ * - `batch_p95_ms_50_clients`: 95th percentile latency (ms) of POST /api/runs/[id]/batches with
+ *   50 concurrent connections (autocannon) against the real server on loopback, each batch a
+ *   fresh idempotency key carrying one second of cell time and an operator event, each
+ *   connection streaming to its own run (practice runs of the demo students on the shared demo
+ *   cell, so the server applies every batch to its live cell as in a drill). A student's client
+ *   sends a batch about once a second; each connection here sends two a second
+ *   (autocannon `connectionRate`), twice that cadence. Target ≤ 100.
+ *   `batch_p95_ms_50_clients_saturated` and `batch_saturated_requests_per_s` repeat it with
+ *   every connection sending as fast as answers come back: the server's throughput limit,
+ *   where latency is queueing (50 / throughput) rather than the cost of one batch.
+ *   Needs BENCH_BASE_URL (e.g. http://127.0.0.1:3000 after `bash scripts/start.sh`); signs in
+ *   as the demo students (BENCH_STUDENT_PASSWORD overrides their password). Skipped with a
+ *   message when the app does not answer.
+ *
+ * Alone: `npx tsx tests/bench/drills-bench.ts`.
+ */
+import { createRequire } from 'node:module';
+import type { LoggedEvent } from '@/simulator';
+import { pickAndPlaceCell } from '@/simulator';
+import { drillInputSchema } from '@/lib/schemas/drills';
+import { gradeRun } from '@/lib/runs/grade';
+import { DRILL_LIBRARY } from '@/lib/drills/library';
+
+type Figures = Record<string, number>;
+
+const TEN_MIN = 600_000;
+const DEMO_STUDENTS = ['ada.lindqvist@kestrelvale.test', 'ravi.mendez@kestrelvale.test', 'noor.achterberg@kestrelvale.test'];
+const STUDENT_PASSWORD = process.env.BENCH_STUDENT_PASSWORD ?? 'student-demo-2026';
+const CONNECTIONS = 50;
+const DURATION_S = 10;
+
+/** An operator's 10 minutes at the demo cell. */
+export function operatorLog(durationMs = TEN_MIN): LoggedEvent[] {
+  const log: LoggedEvent[] = [];
+  for (let t = 2000; t + 1000 < durationMs; t += 15_000) {
+    log.push({ t, event: { type: 'set-field', device: 'part', active: true } });
+    log.push({ t: t + 100, event: { type: 'press', device: 'start' } });
+    log.push({ t: t + 200, event: { type: 'release', device: 'start' } });
+    log.push({ t: t + 9000, event: { type: 'set-field', device: 'part', active: false } });
+    if (t === 302_000) {
+      log.push({ t: t + 9500, event: { type: 'set-field', device: 'guard', active: false } });
+      log.push({ t: t + 12_500, event: { type: 'set-field', device: 'guard', active: true } });
+    }
+    if (t === 422_000) {
+      log.push({ t: t + 9500, event: { type: 'press', device: 'estop' } });
+      log.push({ t: t + 11_000, event: { type: 'release', device: 'estop' } });
+      log.push({ t: t + 11_500, event: { type: 'press', device: 'reset' } });
+      log.push({ t: t + 11_600, event: { type: 'release', device: 'reset' } });
+    }
+  }
+  return log;
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+/** regrade_10min_ms (see the file comment). */
+export function regradeBench(): Figures {
+  const lib = DRILL_LIBRARY.find((d) => d.key === 'chattering-part-sensor')!;
+  const drill = drillInputSchema.parse({ ...lib.input, cellId: '00000000-0000-4000-8000-000000000000', cellVersion: 1 });
+  const events = operatorLog();
+  const once = () => {
+    const t0 = performance.now();
+    const r = gradeRun({
+      context: { document: pickAndPlaceCell, seed: 20261201, faults: drill.faults },
+      events,
+      endedMs: TEN_MIN,
+      rules: drill.rules,
+      answer: drill.answer,
+      diagnosisWeight: drill.diagnosisWeight,
+      diagnosis: { kind: 'chatter', location: 'w-part', note: '' },
+    });
+    if (!r.ok) throw new Error(`bench run does not grade: ${JSON.stringify(r.errors.slice(0, 2))}`);
+    return performance.now() - t0;
+  };
+  once();
+  const times = [0, 1, 2, 3, 4].map(once);
+  return { regrade_10min_ms: Math.round(median(times) * 10) / 10, regrade_10min_events: events.length };
+}
+
+async function reachableBase(): Promise<{ ok: true; base: string } | { ok: false; reason: string }> {
+  const base = process.env.BENCH_BASE_URL?.replace(/\/$/, '');
+  if (!base) return { ok: false, reason: 'BENCH_BASE_URL is not set (e.g. http://127.0.0.1:3000 after `bash scripts/start.sh`)' };
+  try {
+    const r = await fetch(`${base}/api/health`, { signal: AbortSignal.timeout(5000) });
+    if (!r.ok) return { ok: false, reason: `${base}/api/health answered ${r.status}` };
+  } catch (e) {
+    return { ok: false, reason: `${base} is not reachable (${(e as Error).message})` };
+  }
+  return { ok: true, base };
+}
+
+function cookiesOf(res: Response): string[] {
+  return res.headers.getSetCookie().map((c) => c.split(';')[0]);
+}
+
+/** Signs in through next-auth's credentials flow; returns the Cookie header of the session. */
+async function signIn(base: string, email: string, password: string): Promise<string> {
+  const csrfRes = await fetch(`${base}/api/auth/csrf`);
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+  const jar = cookiesOf(csrfRes);
+  const res = await fetch(`${base}/api/auth/callback/credentials`, {
+    method: 'POST',
+    redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: jar.join('; ') },
+    body: new URLSearchParams({ csrfToken, email, password, callbackUrl: `${base}/dashboard`, json: 'true' }),
+  });
+  const session = cookiesOf(res).find((c) => c.includes('session-token='));
+  if (!session) throw new Error(`sign-in as ${email} failed (${res.status}): is the demo seeded?`);
+  return session;
+}
+
+type AutocannonRequest = { method: string; path: string; headers: Record<string, string>; body: string };
+type AutocannonOptions = {
+  url: string;
+  connections: number;
+  duration: number;
+  connectionRate?: number;
+  requests: { setupRequest: (req: AutocannonRequest, ctx: Record<string, unknown>) => AutocannonRequest; onResponse: (status: number, body: string, ctx: Record<string, unknown>) => void }[];
+};
+type AutocannonResult = { requests: { total: number }; non2xx: number; errors: number; timeouts: number };
+const autocannon = createRequire(import.meta.url)('autocannon') as (o: AutocannonOptions, cb: (err: Error | null, r: AutocannonResult) => void) => unknown;
+
+/** batch_p95_ms_50_clients (see the file comment). */
+export async function batchBench(): Promise<Figures> {
+  const target = await reachableBase();
+  if (!target.ok) {
+    process.stderr.write(`drills batch bench skipped: ${target.reason}\n`);
+    return {};
+  }
+  const base = target.base;
+  const cookies = await Promise.all(DEMO_STUDENTS.map((e) => signIn(base, e, STUDENT_PASSWORD)));
+  const cells = (await (await fetch(`${base}/api/cells`, { headers: { cookie: cookies[0] } })).json()) as { shared?: { id: string; name: string }[] };
+  const cell = cells.shared?.find((c) => /pick and place/i.test(c.name));
+  if (!cell) throw new Error('the demo pick-and-place cell is not shared with the demo cohort: seed the database');
+  type Lane = { runId: string; cookie: string; seq: number; untilMs: number; busy: boolean };
+  const lanes: Lane[] = [];
+  for (let i = 0; i < CONNECTIONS; i++) {
+    const cookie = cookies[i % cookies.length];
+    const r = await fetch(`${base}/api/runs`, { method: 'POST', headers: { cookie, 'content-type': 'application/json' }, body: JSON.stringify({ cellId: cell.id }) });
+    if (r.status !== 201) throw new Error(`could not start a practice run (${r.status}): ${await r.text()}`);
+    lanes.push({ runId: ((await r.json()) as { run: { id: string } }).run.id, cookie, seq: 0, untilMs: 0, busy: false });
+  }
+  const stamp = Date.now().toString(36);
+  let n = 0;
+  /** One autocannon phase; `rate` is requests per second per connection (undefined: as fast as answered). */
+  const phase = async (rate: number | undefined) => {
+    const latencies: number[] = [];
+    let unexpected = 0;
+    const result = await new Promise<AutocannonResult>((resolve, reject) => {
+      autocannon(
+        {
+          url: base,
+          connections: CONNECTIONS,
+          duration: DURATION_S,
+          ...(rate ? { connectionRate: rate } : {}),
+          requests: [
+            {
+              setupRequest: (req, ctx) => {
+                const lane = lanes.find((l) => !l.busy)!;
+                lane.busy = true;
+                const from = lane.untilMs;
+                const until = from + 1000;
+                const press = lane.seq % 15 === 0;
+                const events: LoggedEvent[] =
+                  lane.seq === 0
+                    ? [{ t: 500, event: { type: 'set-field', device: 'part', active: true } }]
+                    : [{ t: from + 500, event: { type: press ? 'press' : 'release', device: 'start' } }];
+                ctx.lane = lane;
+                ctx.next = { seq: lane.seq + 1, untilMs: until };
+                ctx.t0 = performance.now();
+                return {
+                  ...req,
+                  method: 'POST',
+                  path: `/api/runs/${lane.runId}/batches`,
+                  headers: { 'content-type': 'application/json', cookie: lane.cookie },
+                  body: JSON.stringify({ key: `bench-${stamp}-${++n}`, seq: lane.seq + 1, untilMs: until, events }),
+                };
+              },
+              onResponse: (status, _body, ctx) => {
+                latencies.push(performance.now() - (ctx.t0 as number));
+                const lane = ctx.lane as Lane;
+                if (status === 201) {
+                  const next = ctx.next as { seq: number; untilMs: number };
+                  lane.seq = next.seq;
+                  lane.untilMs = next.untilMs;
+                } else unexpected += 1;
+                lane.busy = false;
+              },
+            },
+          ],
+        },
+        (err, r) => (err ? reject(err) : resolve(r)),
+      );
+    });
+    const sorted = latencies.sort((a, b) => a - b);
+    const p = (q: number) => Math.round(sorted[Math.min(sorted.length - 1, Math.ceil(q * sorted.length) - 1)] * 10) / 10;
+    return { p50: p(0.5), p95: p(0.95), perS: Math.round(result.requests.total / DURATION_S), errors: unexpected + result.errors + result.timeouts };
+  };
+  // Requests in flight when a phase stops are abandoned by autocannon (the server may still
+  // store them): read each run's last batch back before the next phase.
+  const resync = async () => {
+    await Promise.all(
+      lanes.map(async (l) => {
+        const r = (await (await fetch(`${base}/api/runs/${l.runId}`, { headers: { cookie: l.cookie } })).json()) as { run: { lastSeq: number; untilMs: number } };
+        l.seq = r.run.lastSeq;
+        l.untilMs = r.run.untilMs;
+        l.busy = false;
+      }),
+    );
+  };
+  const paced = await phase(2);
+  await new Promise((r) => setTimeout(r, 1000));
+  await resync();
+  const saturated = await phase(undefined);
+  // Finish the runs so they do not stay open in the demo students' lists.
+  await Promise.all(lanes.map((l) => fetch(`${base}/api/runs/${l.runId}/submit`, { method: 'POST', headers: { cookie: l.cookie, 'content-type': 'application/json' }, body: '{}' })));
+  return {
+    batch_p95_ms_50_clients: paced.p95,
+    batch_p50_ms_50_clients: paced.p50,
+    batch_requests_per_s: paced.perS,
+    batch_p95_ms_50_clients_saturated: saturated.p95,
+    batch_saturated_requests_per_s: saturated.perS,
+    batch_errors: paced.errors + saturated.errors,
+  };
+}
+
+/** Both measurements, as one entry of tests/bench/run.ts. */
+export async function drillsBench(): Promise<Figures> {
+  return { ...regradeBench(), ...(await batchBench()) };
+}
+
+if (process.argv[1] && import.meta.url === new URL(`file://${process.argv[1]}`).href) {
+  drillsBench().then(
+    (f) => process.stdout.write(`${JSON.stringify(f)}\n`),
+    (e: unknown) => {
+      process.stderr.write(`${(e as Error).stack ?? String(e)}\n`);
+      process.exit(1);
+    },
+  );
+}

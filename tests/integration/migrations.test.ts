@@ -1,0 +1,58 @@
+/** Every migration goes up and comes down cleanly, in a scratch schema of the test database. */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import knexFactory from 'knex';
+import type { Knex } from 'knex';
+import { knexConfig } from '@/db/config';
+import { TEST_ENV } from './test-env';
+
+const SCHEMA = 'migration_check';
+const TABLES = ['users', 'cohorts', 'memberships', 'invitations', 'password_resets', 'sign_in_failures', 'audit_log', 'mail_messages', 'seed_markers'];
+let knex: Knex;
+
+async function tablesInSchema(): Promise<string[]> {
+  const rows = await knex('information_schema.tables').where({ table_schema: SCHEMA }).select('table_name');
+  return rows.map((r) => r.table_name as string).sort();
+}
+
+beforeAll(async () => {
+  const admin = knexFactory(knexConfig(TEST_ENV.DATABASE_URL));
+  await admin.raw(`drop schema if exists ${SCHEMA} cascade`);
+  await admin.raw(`create schema ${SCHEMA}`);
+  await admin.destroy();
+  const base = knexConfig(TEST_ENV.DATABASE_URL);
+  knex = knexFactory({ ...base, searchPath: [SCHEMA], migrations: { ...base.migrations, schemaName: SCHEMA } });
+});
+
+afterAll(async () => {
+  await knex.raw(`drop schema if exists ${SCHEMA} cascade`);
+  await knex.destroy();
+});
+
+describe('migrations', () => {
+  it('go all the way up', async () => {
+    await knex.migrate.latest();
+    const [, pending] = await knex.migrate.list();
+    expect(pending).toEqual([]);
+    const tables = await tablesInSchema();
+    for (const t of TABLES) expect(tables).toContain(t);
+  });
+
+  it('come all the way down, leaving only knex bookkeeping', async () => {
+    await knex.migrate.rollback(undefined, true);
+    expect(await tablesInSchema()).toEqual(['knex_migrations', 'knex_migrations_lock']);
+  });
+
+  it('go up again after coming down (down is a true inverse)', async () => {
+    await knex.migrate.latest();
+    expect((await tablesInSchema()).filter((t) => TABLES.includes(t)).sort()).toEqual([...TABLES].sort());
+  });
+
+  it('step down one at a time', async () => {
+    const [done] = await knex.migrate.list();
+    for (let i = done.length; i > 0; i--) {
+      await knex.migrate.down();
+      const [applied] = await knex.migrate.list();
+      expect(applied).toHaveLength(i - 1);
+    }
+  });
+});
