@@ -15,7 +15,7 @@ test('a point-map edit stays staged until the controller restarts', async ({ pag
     await page.getByRole('button', { name: 'Run ×1', exact: true }).click();
     await openArea(page, 'Controller');
 
-    const state = page.getByTestId('controller-state');
+    const state = page.getByTestId('controller-status').getByTestId('controller-state');
     // The demo controller boots in 1.5 s of cell time and then reports ready.
     await expect(state).toHaveAttribute('data-state', 'ready', { timeout: 20_000 });
     const ch0 = page.getByTestId('channel-0-2-0');

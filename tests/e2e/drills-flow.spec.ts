@@ -58,6 +58,8 @@ test('a trainer assigns a drill; the student runs it, finds the fault and submit
 
   await student.getByRole('group', { name: 'Run controls' }).getByRole('button', { name: 'Run' }).click();
   await expect(student.getByTestId('cell-time')).not.toHaveText('0:00.000');
+  // Let at least one second of cell time pass, so the replay below has room to scrub to 0.5 s.
+  await expect(student.getByTestId('cell-time')).toHaveText(/^\d+:(0[1-9]|[1-5]\d)\./, { timeout: 15_000 });
   // The symptom: the NC stop circuit reads OFF although nobody presses stop (common practice: a broken NC wire reads as "stop").
   await student.getByRole('tab', { name: /Field/ }).click();
   await expect(student.getByTestId('wire-w-stop')).toHaveAttribute('data-reading', 'off');
