@@ -127,20 +127,18 @@ export async function measureCanvasFps500Blocks(base: string): Promise<number> {
     await page.getByTestId('logic-area').waitFor({ timeout: 120_000 });
     await page.getByRole('button', { name: 'Run ×1', exact: true }).click({ timeout: 60_000 });
     await page.waitForTimeout(1000);
-    const frames = await page.evaluate(
-      (ms) =>
-        new Promise<number>((resolve) => {
-          let n = 0;
-          const t0 = performance.now();
-          const tick = (t: number) => {
-            n++;
-            if (t - t0 < ms) requestAnimationFrame(tick);
-            else resolve((n * 1000) / (t - t0));
-          };
-          requestAnimationFrame(tick);
-        }),
-      FPS_WINDOW_MS,
-    );
+    // The page script is a string: tsx would otherwise wrap named arrow functions in an
+    // `__name(...)` helper that does not exist inside the browser.
+    const frames = (await page.evaluate(`new Promise((resolve) => {
+      let n = 0;
+      const t0 = performance.now();
+      const tick = (t) => {
+        n++;
+        if (t - t0 < ${FPS_WINDOW_MS}) requestAnimationFrame(tick);
+        else resolve((n * 1000) / (t - t0));
+      };
+      requestAnimationFrame(tick);
+    })`)) as number;
     return Math.round(frames * 10) / 10;
   } finally {
     if (scratch) await page.request.delete(`${base}/api/cells/${scratch}`).catch(() => undefined);
