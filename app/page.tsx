@@ -22,8 +22,8 @@ const FEATURES = [
   },
   {
     icon: GitCompare,
-    title: 'Prove a changeover',
-    text: 'Maintenance leads diff two versions of a real cell, prove the interlock rules still hold and sign the change off.',
+    title: 'Model a real cell',
+    text: 'Maintenance leads import a real cell’s point map and I/O list as CSV, model its interlocks, keep every change as a version and run regression checks headless.',
   },
 ];
 
@@ -49,7 +49,7 @@ export default async function LandingPage() {
         <p className="mt-4 max-w-3xl text-lg text-slate-600">
           Cellwright simulates one robot cell end to end — operator panel, sensors and actuators, a PLC running interlock logic,
           and a robot controller with its own I/O points — so instructors, students and maintenance leads can wire it, run it,
-          break it on purpose, find the fault, and prove the result without a physical trainer or a production line.
+          break it on purpose, find the fault, and record and replay the result without a physical trainer or a production line.
         </p>
         <ul className="mt-10 grid gap-4 sm:grid-cols-2">
           {FEATURES.map(({ icon: Icon, title, text }) => (
