@@ -1,37 +1,9 @@
 import 'server-only';
 import { db } from './knex';
+import type { CohortDetail, CohortMember, CohortSummary, PendingInvitation } from '@/lib/cohorts/types';
 import { isUuid } from './users';
 
-export interface CohortSummary {
-  id: string;
-  name: string;
-  description: string;
-  trainerId: string;
-  trainerName: string;
-  memberCount: number;
-  pendingCount: number;
-  createdAt: string;
-}
-
-export interface CohortMember {
-  userId: string;
-  name: string;
-  email: string;
-  joinedAt: string;
-}
-
-export interface PendingInvitation {
-  id: string;
-  email: string;
-  invitedByName: string;
-  createdAt: string;
-  expiresAt: string;
-}
-
-export interface CohortDetail extends CohortSummary {
-  members: CohortMember[];
-  invitations: PendingInvitation[];
-}
+export type { CohortDetail, CohortMember, CohortSummary, PendingInvitation };
 
 function summaryQuery() {
   const k = db();

@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import type { FaultCard } from '@/simulator';
 import type { DrillInput, DrillPermissions, WeightedRule } from '@/lib/schemas/drills';
+import { drillColumns } from './drill-columns';
 import { db } from './knex';
 import { isUuid } from './users';
 
@@ -67,23 +68,6 @@ function drillQuery(k: Knex = db()) {
   return k('drills as d').join('users as t', 't.id', 'd.trainer_id').whereNull('d.deleted_at').select('d.*', 't.name as trainer_name');
 }
 
-function drillRow(input: DrillInput) {
-  return {
-    title: input.title,
-    cell_id: input.cellId,
-    cell_version: input.cellVersion,
-    brief: input.brief,
-    faults: JSON.stringify(input.faults),
-    objectives: JSON.stringify(input.objectives),
-    rules: JSON.stringify(input.rules),
-    answer_kind: input.answer.kind,
-    answer_location: input.answer.location,
-    diagnosis_weight: input.diagnosisWeight,
-    time_limit_ms: input.timeLimitMs,
-    permissions: JSON.stringify(input.permissions),
-  };
-}
-
 /** Drills a trainer owns, or every drill when trainerId is null (admins). Newest first. */
 export async function listDrills(trainerId: string | null): Promise<Drill[]> {
   const q = drillQuery().orderBy('d.created_at', 'desc');
@@ -102,7 +86,7 @@ export async function findDrill(id: string, opts: { includeDeleted?: boolean } =
 
 export async function createDrill(trainerId: string, input: DrillInput, libraryKey: string | null = null, k: Knex = db()): Promise<Drill> {
   const [row] = await k('drills')
-    .insert({ ...drillRow(input), trainer_id: trainerId, library_key: libraryKey })
+    .insert({ ...drillColumns(input), trainer_id: trainerId, library_key: libraryKey })
     .returning('id');
   return (await findDrillWith(k, row.id))!;
 }
@@ -113,7 +97,7 @@ async function findDrillWith(k: Knex, id: string): Promise<Drill | null> {
 }
 
 export async function updateDrill(id: string, input: DrillInput): Promise<Drill | null> {
-  await db()('drills').where({ id }).whereNull('deleted_at').update({ ...drillRow(input), updated_at: db().fn.now() });
+  await db()('drills').where({ id }).whereNull('deleted_at').update({ ...drillColumns(input), updated_at: db().fn.now() });
   return findDrill(id);
 }
 

@@ -2,6 +2,7 @@ import 'server-only';
 import { hashToken, newToken } from '@/lib/tokens';
 import { db } from './knex';
 import { writeAudit } from './audit';
+import { findTokenRow, tokenRefusal } from './tokens';
 import { createUser, isUuid, normalizeEmail } from './users';
 
 export const INVITATION_TTL_DAYS = 7;
@@ -75,10 +76,8 @@ export async function lookupInvitation(token: string): Promise<TokenState<Invita
     .where('i.token_hash', hashToken(token))
     .select('i.*', 'c.name as cohort_name', 't.name as trainer_name', db().raw('i.expires_at <= now() as is_expired'))
     .first();
-  if (!row) return { state: 'invalid' };
-  if (row.accepted_at) return { state: 'used' };
-  if (row.revoked_at) return { state: 'revoked' };
-  if (row.is_expired) return { state: 'expired' };
+  const refusal = tokenRefusal(row, 'accepted_at');
+  if (refusal) return { state: refusal };
   const existing = await db()('users').where({ email: row.email }).first();
   return {
     state: 'valid',
@@ -97,15 +96,9 @@ export type AcceptResult =
  */
 export async function acceptInvitation(token: string, input: { name: string; passwordHash: string }): Promise<AcceptResult> {
   return db().transaction(async (trx) => {
-    const row = await trx('invitations')
-      .where('token_hash', hashToken(token))
-      .select('*', trx.raw('expires_at <= now() as is_expired'))
-      .forUpdate()
-      .first();
-    if (!row) return { ok: false, reason: 'invalid' };
-    if (row.accepted_at) return { ok: false, reason: 'used' };
-    if (row.revoked_at) return { ok: false, reason: 'revoked' };
-    if (row.is_expired) return { ok: false, reason: 'expired' };
+    const row = await findTokenRow(trx, 'invitations', token, { forUpdate: true });
+    const refusal = tokenRefusal(row, 'accepted_at');
+    if (refusal) return { ok: false, reason: refusal };
     const existing = await trx('users').where({ email: row.email }).first();
     if (existing) return { ok: false, reason: 'account-exists' };
     const user = await createUser({ email: row.email, name: input.name, passwordHash: input.passwordHash, role: 'student' }, trx);
@@ -119,15 +112,9 @@ export async function acceptInvitation(token: string, input: { name: string; pas
 /** An existing (signed-in) student joins with the link; the caller checks the session e-mail matches. */
 export async function joinWithInvitation(token: string, userId: string): Promise<AcceptResult> {
   return db().transaction(async (trx) => {
-    const row = await trx('invitations')
-      .where('token_hash', hashToken(token))
-      .select('*', trx.raw('expires_at <= now() as is_expired'))
-      .forUpdate()
-      .first();
-    if (!row) return { ok: false, reason: 'invalid' };
-    if (row.accepted_at) return { ok: false, reason: 'used' };
-    if (row.revoked_at) return { ok: false, reason: 'revoked' };
-    if (row.is_expired) return { ok: false, reason: 'expired' };
+    const row = await findTokenRow(trx, 'invitations', token, { forUpdate: true });
+    const refusal = tokenRefusal(row, 'accepted_at');
+    if (refusal) return { ok: false, reason: refusal };
     const user = await trx('users').where({ id: userId }).first();
     if (!user || user.email !== row.email) return { ok: false, reason: 'invalid' };
     await trx('memberships').insert({ cohort_id: row.cohort_id, user_id: userId }).onConflict(['cohort_id', 'user_id']).ignore();

@@ -1,6 +1,7 @@
 import 'server-only';
-import { hashToken, newToken } from '@/lib/tokens';
+import { newToken } from '@/lib/tokens';
 import { db } from './knex';
+import { findTokenRow, tokenRefusal } from './tokens';
 import { writeAudit } from './audit';
 
 export const RESET_TTL_MINUTES = 60;
@@ -21,14 +22,7 @@ export async function createPasswordReset(email: string): Promise<{ token: strin
 export type ResetState = 'valid' | 'invalid' | 'used' | 'expired';
 
 export async function lookupPasswordReset(token: string): Promise<ResetState> {
-  const row = await db()('password_resets')
-    .where('token_hash', hashToken(token))
-    .select('*', db().raw('expires_at <= now() as is_expired'))
-    .first();
-  if (!row) return 'invalid';
-  if (row.used_at) return 'used';
-  if (row.is_expired) return 'expired';
-  return 'valid';
+  return tokenRefusal(await findTokenRow(db(), 'password_resets', token), 'used_at') ?? 'valid';
 }
 
 /** Use a reset token once; also retires the account's other open reset tokens. */
@@ -37,14 +31,9 @@ export async function completePasswordReset(
   passwordHash: string,
 ): Promise<{ ok: true; userId: string } | { ok: false; reason: Exclude<ResetState, 'valid'> }> {
   return db().transaction(async (trx) => {
-    const row = await trx('password_resets')
-      .where('token_hash', hashToken(token))
-      .select('*', trx.raw('expires_at <= now() as is_expired'))
-      .forUpdate()
-      .first();
-    if (!row) return { ok: false, reason: 'invalid' };
-    if (row.used_at) return { ok: false, reason: 'used' };
-    if (row.is_expired) return { ok: false, reason: 'expired' };
+    const row = await findTokenRow(trx, 'password_resets', token, { forUpdate: true });
+    const refusal = tokenRefusal(row, 'used_at');
+    if (refusal) return { ok: false, reason: refusal };
     await trx('users').where({ id: row.user_id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
     await trx('password_resets').where({ user_id: row.user_id }).whereNull('used_at').update({ used_at: trx.fn.now() });
     await trx('sign_in_failures').where({ email: trx('users').select('email').where({ id: row.user_id }) }).delete();

@@ -1,19 +1,11 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { Role } from '@/lib/roles';
+import type { User } from '@/lib/users/types';
 import { db } from './knex';
 import { writeAudit } from './audit';
 
-export interface User {
-  id: string;
-  email: string;
-  name: string;
-  role: Role;
-  organization: string | null;
-  disabled: boolean;
-  lastSignInAt: string | null;
-  createdAt: string;
-}
+export type { User };
 
 interface UserRow {
   id: string;

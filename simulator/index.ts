@@ -146,7 +146,7 @@ export { controllerMachine } from './controller/controller.machine';
 // ---- cell
 export type { Cell, CellOptions } from './cell/cell';
 export { createCell } from './cell/cell';
-export type { CellEvent, LoggedEvent } from './cell/events';
+export type { CellEvent, DownloadEvent, LoggedEvent } from './cell/events';
 export { cellEventSchema, eventLogSchema } from './cell/events';
 export type { CellSnapshot, DeviceSnapshot, WireSnapshot, PointValue, ControllerPointSnapshot } from './cell/snapshot';
 
@@ -168,3 +168,5 @@ export { replay } from './trace/replay';
 // ---- demo cells
 export type { CellDocumentInput } from './demo';
 export { pickAndPlaceCell, starterCell, demoCells } from './demo';
+/** The model debounce fix of the pick-and-place part input (a logic sheet to download) and its presets. */
+export { pickAndPlaceDebouncedSheet, PART_DEBOUNCE_MS } from './demo';

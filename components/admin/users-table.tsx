@@ -9,20 +9,10 @@ import { fetchJson } from '@/lib/api/client';
 import { ROLES, ROLE_LABELS } from '@/lib/roles';
 import type { Role } from '@/lib/roles';
 import type { USER_SORTS } from '@/lib/schemas/admin';
+import type { User as UserRow } from '@/lib/users/types';
 import { Button } from '@/components/ui/button';
 import { formatDateTime } from '@/components/ui/format';
 import { Notice } from '@/components/ui/notice';
-
-interface UserRow {
-  id: string;
-  email: string;
-  name: string;
-  role: Role;
-  organization: string | null;
-  disabled: boolean;
-  lastSignInAt: string | null;
-  createdAt: string;
-}
 
 interface UsersPage {
   users: UserRow[];

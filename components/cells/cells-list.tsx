@@ -4,7 +4,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Copy, Download, FileSpreadsheet, FolderOpen, Pencil, Plus, Share2, Trash2 } from 'lucide-react';
+import { Copy, Download, FileSpreadsheet, FolderOpen, Pencil, Play, Plus, Share2, Trash2 } from 'lucide-react';
 import { fetchJson } from '@/lib/api/client';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
@@ -14,6 +14,7 @@ import { CreateCellDialog, DeleteCellDialog, RenameCellDialog } from './cell-dia
 import { CsvImportDialog } from './csv-import-dialog';
 import { JsonImport } from './json-import';
 import { ShareDialog } from './share-dialog';
+import { practiceHref, sharedPracticeTarget } from './practice';
 import type { CellSummaryDto, SharedCellDto } from './types';
 
 type Dialogs = { kind: 'rename' | 'delete' | 'share' | 'csv'; cell: CellSummaryDto } | null;
@@ -48,7 +49,8 @@ function ExportMenu({ cell }: { cell: CellSummaryDto }) {
   );
 }
 
-function MyCells({ cells, canShare, open }: { cells: CellSummaryDto[]; canShare: boolean; open: (d: Dialogs) => void }) {
+/** The user's own cells (shared copies included) with their actions. */
+export function MyCells({ cells, canShare, open }: { cells: CellSummaryDto[]; canShare: boolean; open: (d: Dialogs) => void }) {
   const queryClient = useQueryClient();
   const duplicate = useMutation({
     mutationFn: (id: string) => fetchJson(`/api/cells/${id}/duplicate`, { method: 'POST', body: {} }),
@@ -99,6 +101,9 @@ function MyCells({ cells, canShare, open }: { cells: CellSummaryDto[]; canShare:
               <td className="px-3 py-2 text-slate-700">{c.sharedWith.length ? c.sharedWith.map((s) => s.cohortName).join(', ') : <span className="text-slate-400">—</span>}</td>
               <td className="py-2 pl-3">
                 <div className="flex items-center justify-end gap-0.5">
+                  <Link href={practiceHref(c.id)} className={iconButton} aria-label={`Practice ${c.name}`} title="Practice (recorded run)">
+                    <Play aria-hidden className="h-4 w-4" />
+                  </Link>
                   <button type="button" className={iconButton} aria-label={`Rename ${c.name}`} title="Rename" onClick={() => open({ kind: 'rename', cell: c })}>
                     <Pencil aria-hidden className="h-4 w-4" />
                   </button>
@@ -127,14 +132,16 @@ function MyCells({ cells, canShare, open }: { cells: CellSummaryDto[]; canShare:
   );
 }
 
-function SharedWithMe({ shared }: { shared: SharedCellDto[] }) {
+/** Cells shared with the student's cohorts: open or practise on the student's own copy. */
+export function SharedWithMe({ shared }: { shared: SharedCellDto[] }) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const copy = useMutation({
-    mutationFn: (id: string) => fetchJson<{ cell: { id: string } }>(`/api/cells/${id}/copy`, { method: 'POST' }),
-    onSuccess: (data) => {
+    // A student works on a copy of a shared cell; `then` says where to go once it exists.
+    mutationFn: ({ id }: { id: string; then: 'open' | 'practice' }) => fetchJson<{ cell: { id: string } }>(`/api/cells/${id}/copy`, { method: 'POST' }),
+    onSuccess: (data, { then }) => {
       void queryClient.invalidateQueries({ queryKey: ['cells'] });
-      router.push(`/cells/${data.cell.id}`);
+      router.push(then === 'practice' ? practiceHref(data.cell.id) : `/cells/${data.cell.id}`);
     },
   });
   return (
@@ -142,27 +149,54 @@ function SharedWithMe({ shared }: { shared: SharedCellDto[] }) {
       {copy.error ? <Notice tone="error">{copy.error.message}</Notice> : null}
       {shared.length === 0 ? <p className="text-sm text-slate-500">Nothing shared with your cohorts yet.</p> : null}
       <ul className="divide-y divide-slate-100" data-testid="shared-cells">
-        {shared.map((s) => (
-          <li key={s.id} className="flex flex-wrap items-center justify-between gap-3 py-3">
-            <div>
-              <p className="font-medium text-slate-900">{s.name}</p>
-              <p className="text-xs text-slate-600">
-                from {s.ownerName} · {s.cohorts.map((c) => c.cohortName).join(', ')} · version <span className="font-mono">{s.latestVersion}</span>
-              </p>
-            </div>
-            {s.myCopyId ? (
-              <Link href={`/cells/${s.myCopyId}`} className="inline-flex items-center gap-2 rounded-md border border-slate-300 px-3 py-2 text-sm font-medium text-slate-800 hover:bg-slate-100">
-                <FolderOpen aria-hidden className="h-4 w-4" />
-                Go to my copy
-              </Link>
-            ) : (
-              <Button onClick={() => copy.mutate(s.id)} disabled={copy.isPending} aria-label={`Open my copy of ${s.name}`}>
-                <FolderOpen aria-hidden className="h-4 w-4" />
-                Open my copy
-              </Button>
-            )}
-          </li>
-        ))}
+        {shared.map((s) => {
+          const practice = sharedPracticeTarget(s);
+          return (
+            <li key={s.id} className="flex flex-wrap items-center justify-between gap-3 py-3">
+              <div>
+                <p className="font-medium text-slate-900">{s.name}</p>
+                <p className="text-xs text-slate-600">
+                  from {s.ownerName} · {s.cohorts.map((c) => c.cohortName).join(', ')} · version <span className="font-mono">{s.latestVersion}</span>
+                </p>
+              </div>
+              <div className="flex flex-wrap items-center gap-2">
+                {practice.kind === 'link' ? (
+                  <Link
+                    href={practice.href}
+                    aria-label={`Practice ${s.name}`}
+                    className="inline-flex items-center gap-2 rounded-md border border-slate-300 px-3 py-2 text-sm font-medium text-slate-800 hover:bg-slate-100"
+                  >
+                    <Play aria-hidden className="h-4 w-4" />
+                    Practice
+                  </Link>
+                ) : (
+                  <button
+                    type="button"
+                    onClick={() => copy.mutate({ id: s.id, then: 'practice' })}
+                    disabled={copy.isPending}
+                    aria-label={`Practice ${s.name}`}
+                    title="Makes your copy, then opens a recorded practice run on it"
+                    className="inline-flex items-center gap-2 rounded-md border border-slate-300 px-3 py-2 text-sm font-medium text-slate-800 hover:bg-slate-100 disabled:opacity-40"
+                  >
+                    <Play aria-hidden className="h-4 w-4" />
+                    Practice
+                  </button>
+                )}
+                {s.myCopyId ? (
+                  <Link href={`/cells/${s.myCopyId}`} className="inline-flex items-center gap-2 rounded-md border border-slate-300 px-3 py-2 text-sm font-medium text-slate-800 hover:bg-slate-100">
+                    <FolderOpen aria-hidden className="h-4 w-4" />
+                    Go to my copy
+                  </Link>
+                ) : (
+                  <Button onClick={() => copy.mutate({ id: s.id, then: 'open' })} disabled={copy.isPending} aria-label={`Open my copy of ${s.name}`}>
+                    <FolderOpen aria-hidden className="h-4 w-4" />
+                    Open my copy
+                  </Button>
+                )}
+              </div>
+            </li>
+          );
+        })}
       </ul>
     </Card>
   );

@@ -14,7 +14,8 @@ import { Card, PageHeader } from '@/components/ui/card';
 import { TextAreaField } from '@/components/ui/field';
 import { formatDateTime } from '@/components/ui/format';
 import { Notice } from '@/components/ui/notice';
-import type { CohortDetailDto } from './types';
+import type { CohortDetail as CohortDetailDto } from '@/lib/cohorts/types';
+import { ListTable } from '@/components/ui/list-table';
 
 const inviteFormSchema = z.object({
   addresses: z
@@ -117,37 +118,34 @@ export function CohortDetail({ cohortId }: { cohortId: string }) {
         </Card>
         <InviteForm cohortId={cohortId} />
         <Card title={`Open invitations (${cohort.invitations.length})`} className="lg:col-span-2">
-          {cohort.invitations.length === 0 ? (
-            <p className="text-sm text-slate-500">No open invitations.</p>
-          ) : (
-            <table className="w-full text-left text-sm" aria-label="Open invitations">
-              <thead className="text-xs uppercase tracking-wide text-slate-500">
-                <tr>
-                  <th className="py-2">Address</th>
-                  <th>Invited by</th>
-                  <th>Sent</th>
-                  <th>Expires</th>
-                  <th />
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-slate-100">
-                {cohort.invitations.map((inv) => (
-                  <tr key={inv.id}>
-                    <td className="py-2 font-mono">{inv.email}</td>
-                    <td>{inv.invitedByName}</td>
-                    <td className="font-mono text-xs">{formatDateTime(inv.createdAt)}</td>
-                    <td className="font-mono text-xs">{formatDateTime(inv.expiresAt)}</td>
-                    <td className="text-right">
-                      <Button variant="danger" onClick={() => revoke.mutate(inv.id)} aria-label={`Revoke invitation for ${inv.email}`}>
-                        <X aria-hidden className="h-4 w-4" />
-                        Revoke
-                      </Button>
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
+          <ListTable
+            aria-label="Open invitations"
+            empty={cohort.invitations.length === 0 && 'No open invitations.'}
+            head={
+              <>
+                <th className="py-2">Address</th>
+                <th>Invited by</th>
+                <th>Sent</th>
+                <th>Expires</th>
+                <th />
+              </>
+            }
+          >
+            {cohort.invitations.map((inv) => (
+              <tr key={inv.id}>
+                <td className="py-2 font-mono">{inv.email}</td>
+                <td>{inv.invitedByName}</td>
+                <td className="font-mono text-xs">{formatDateTime(inv.createdAt)}</td>
+                <td className="font-mono text-xs">{formatDateTime(inv.expiresAt)}</td>
+                <td className="text-right">
+                  <Button variant="danger" onClick={() => revoke.mutate(inv.id)} aria-label={`Revoke invitation for ${inv.email}`}>
+                    <X aria-hidden className="h-4 w-4" />
+                    Revoke
+                  </Button>
+                </td>
+              </tr>
+            ))}
+          </ListTable>
         </Card>
       </div>
     </>

@@ -14,7 +14,7 @@ import { Card } from '@/components/ui/card';
 import { TextAreaField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { applyServerErrors } from '@/components/ui/use-server-field-errors';
-import type { CohortSummaryDto } from './types';
+import type { CohortSummary } from '@/lib/cohorts/types';
 
 type FormValues = z.input<typeof createCohortSchema>;
 
@@ -24,7 +24,7 @@ function CreateCohortForm() {
   const [created, setCreated] = useState<string | null>(null);
   const form = useForm<FormValues>({ resolver: zodResolver(createCohortSchema), defaultValues: { name: '', description: '' } });
   const mutation = useMutation({
-    mutationFn: (body: FormValues) => fetchJson<{ cohort: CohortSummaryDto }>('/api/cohorts', { method: 'POST', body }),
+    mutationFn: (body: FormValues) => fetchJson<{ cohort: CohortSummary }>('/api/cohorts', { method: 'POST', body }),
     onSuccess: (data) => {
       setCreated(data.cohort.name);
       form.reset();
@@ -59,7 +59,7 @@ function CreateCohortForm() {
 }
 
 export function CohortList({ showTrainer }: { showTrainer: boolean }) {
-  const query = useQuery({ queryKey: ['cohorts'], queryFn: () => fetchJson<{ cohorts: CohortSummaryDto[] }>('/api/cohorts') });
+  const query = useQuery({ queryKey: ['cohorts'], queryFn: () => fetchJson<{ cohorts: CohortSummary[] }>('/api/cohorts') });
   return (
     <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
       <Card title="Cohorts">

@@ -11,7 +11,7 @@ import type { ControllerModule, PointFamily, PointMapRow } from '@/simulator';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/components/ui/cn';
 import { canApplyStaged, pointMapView, rowChannels, channelRange, type RowState } from './point-map-state';
-import { useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
 
 const FAMILIES: PointFamily[] = ['DI', 'DO', 'AI', 'AO', 'WI', 'WO', 'TI', 'TO'];
 
@@ -48,9 +48,7 @@ function IntCell({ label, value, min, max, disabled, onCommit }: { label: string
       disabled={disabled}
       onChange={(e) => setText(e.target.value)}
       onBlur={commit}
-      onKeyDown={(e) => {
-        if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-      }}
+      onKeyDown={blurOnEnter}
     />
   );
 }

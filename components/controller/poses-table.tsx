@@ -2,7 +2,7 @@
 /** The taught poses: coordinates per axis, speed and acceleration limits; add and remove. */
 import { Plus, Trash2 } from 'lucide-react';
 import type { Pose } from '@/simulator';
-import { useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
 
 function Cell({ label, value, min, max, disabled, onCommit, exclusiveMin }: { label: string; value: number; min: number; max: number; disabled: boolean; exclusiveMin?: boolean; onCommit(v: number): void }) {
   const [text, setText] = useDraft(String(value));
@@ -21,9 +21,7 @@ function Cell({ label, value, min, max, disabled, onCommit, exclusiveMin }: { la
       disabled={disabled}
       onChange={(e) => setText(e.target.value)}
       onBlur={commit}
-      onKeyDown={(e) => {
-        if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-      }}
+      onKeyDown={blurOnEnter}
     />
   );
 }

@@ -9,7 +9,7 @@ import type { Condition, RoutineStep } from '@/simulator';
 import { useSnapshot } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { defaultStep, moveStep, STEP_KINDS, STEP_KIND_WORDS, type StepKind } from './routine-steps';
-import { useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
 
 type Props = {
   steps: readonly RoutineStep[];
@@ -45,9 +45,7 @@ function Num({ label, value, onCommit, disabled, integer, min, max, optional }: 
         disabled={disabled}
         onChange={(e) => setText(e.target.value)}
         onBlur={commit}
-        onKeyDown={(e) => {
-          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-        }}
+        onKeyDown={blurOnEnter}
       />
     </label>
   );
@@ -65,9 +63,7 @@ function Text({ label, value, onCommit, disabled, placeholder }: { label: string
         disabled={disabled}
         onChange={(e) => setText(e.target.value)}
         onBlur={() => text !== value && onCommit(text)}
-        onKeyDown={(e) => {
-          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-        }}
+        onKeyDown={blurOnEnter}
       />
     </label>
   );

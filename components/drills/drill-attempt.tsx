@@ -16,6 +16,7 @@ import { useWorkspace } from '@/components/workspace/contract';
 import type { CellDocument } from '@/simulator';
 import { createRemoteRun, type RemoteRun } from '@/components/runs/remote-engine';
 import { RunWorkspace, type AreaEditing } from '@/components/runs/run-workspace';
+import { DOWNLOAD_AREAS, type DownloadArea } from '@/components/workspace/download';
 import { Markdown } from './markdown';
 import { locationOptions, type LocationOption } from './locations';
 
@@ -39,9 +40,17 @@ export type StudentDrill = {
 
 type RunAnswer = { run: { id: string; status: string; lastSeq: number; untilMs: number } };
 
-/** Which workspace areas a drill's permissions open (only point-map edits reach the server's cell, as events). */
+/**
+ * Which workspace areas a drill's permissions open. Edits reach the server's cell as events:
+ * point-map edits as staged rows, logic/wiring/routine edits as a `download` ("Download to PLC").
+ */
 export function areaEditing(editable: readonly string[]): AreaEditing {
-  return { controller: editable.includes('point-map') };
+  return { controller: editable.includes('point-map') || editable.includes('routine'), logic: editable.includes('logic'), field: editable.includes('wiring') };
+}
+
+/** The parts a drill lets the student download into the running cell. */
+export function downloadableAreas(editable: readonly string[]): DownloadArea[] {
+  return DOWNLOAD_AREAS.filter((a) => editable.includes(a));
 }
 
 /** Starts (or resumes) the attempt, then shows it. */
@@ -80,6 +89,7 @@ function AttemptWorkspace({ payload, document, runId }: { payload: StudentDrill;
       init={init}
       engineFactory={remote.factory}
       editing={areaEditing(drill.permissions.editable)}
+      downloadable={downloadableAreas(drill.permissions.editable)}
       forceAllowed={drill.permissions.forceAllowed}
       header={<AttemptHeader payload={payload} remote={remote} runId={runId} options={options} />}
       strip={<RemoteStrip remote={remote} timeLimitMs={drill.timeLimitMs} />}
@@ -134,6 +144,9 @@ function AttemptHeader({ payload, remote, runId, options }: { payload: StudentDr
               <ul className="mt-1 space-y-0.5 text-sm">
                 <li>{drill.permissions.forceAllowed ? 'Force points from the monitor' : 'Not force points (this drill does not allow it)'}</li>
                 <li>{drill.permissions.editable.includes('point-map') ? 'Stage point-map changes and restart the controller' : 'Not change the point map'}</li>
+                {downloadableAreas(drill.permissions.editable).length > 0 ? (
+                  <li>Edit the {downloadableAreas(drill.permissions.editable).join(', ')} and send it to the running cell with “Download to PLC”</li>
+                ) : null}
               </ul>
             </div>
           </div>

@@ -34,6 +34,19 @@ function FieldError({ message }: { message?: string }) {
   ) : null;
 }
 
+/** One labelled control of the editor, with the control's error under it when it reports one. */
+function Labelled({ id, label, error, className, children }: { id: string; label: React.ReactNode; error?: string; className?: string; children: React.ReactNode }) {
+  return (
+    <div className={cn('space-y-1', className)}>
+      <label htmlFor={id} className={labelCls}>
+        {label}
+      </label>
+      {children}
+      <FieldError message={error} />
+    </div>
+  );
+}
+
 type Props = {
   drillId: string | null;
   initial: (DrillInput & { id?: string }) | null;
@@ -112,17 +125,10 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
 
       <Section title="Drill">
         <div className="grid gap-3 md:grid-cols-[2fr_1fr_1fr]">
-          <div className="space-y-1">
-            <label htmlFor="title" className={labelCls}>
-              Title
-            </label>
+          <Labelled id="title" label="Title" error={err('title')}>
             <input id="title" className={input} aria-invalid={Boolean(err('title'))} {...register('title')} />
-            <FieldError message={err('title')} />
-          </div>
-          <div className="space-y-1">
-            <label htmlFor="cellId" className={labelCls}>
-              Base cell
-            </label>
+          </Labelled>
+          <Labelled id="cellId" label="Base cell" error={err('cellId')}>
             <select
               id="cellId"
               className={input}
@@ -139,12 +145,8 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
                 </option>
               ))}
             </select>
-            <FieldError message={err('cellId')} />
-          </div>
-          <div className="space-y-1">
-            <label htmlFor="cellVersion" className={labelCls}>
-              Version
-            </label>
+          </Labelled>
+          <Labelled id="cellVersion" label="Version" error={err('cellVersion')}>
             <select id="cellVersion" className={input} {...register('cellVersion', { valueAsNumber: true })}>
               {(versions.data?.versions ?? [{ version: cellVersion, message: '', createdAt: '' }]).map((v) => (
                 <option key={v.version} value={v.version}>
@@ -152,8 +154,7 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
                 </option>
               ))}
             </select>
-            <FieldError message={err('cellVersion')} />
-          </div>
+          </Labelled>
         </div>
       </Section>
 
@@ -206,10 +207,7 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
 
       <Section title="Answer, time and permissions">
         <div className="grid gap-3 md:grid-cols-4">
-          <div className="space-y-1">
-            <label htmlFor="answerKind" className={labelCls}>
-              Fault kind (the answer)
-            </label>
+          <Labelled id="answerKind" label="Fault kind (the answer)" error={err('answerKind')}>
             <select id="answerKind" className={input} {...register('answerKind')}>
               {DIAGNOSIS_KINDS.map((k) => (
                 <option key={k} value={k}>
@@ -217,29 +215,16 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
                 </option>
               ))}
             </select>
-            <FieldError message={err('answerKind')} />
-          </div>
-          <div className="space-y-1">
-            <label htmlFor="answerLocation" className={labelCls}>
-              Where (id; alternatives with |)
-            </label>
+          </Labelled>
+          <Labelled id="answerLocation" label="Where (id; alternatives with |)" error={err('answerLocation')}>
             <input id="answerLocation" list="dl-places" className={cn(input, 'font-mono')} aria-invalid={Boolean(err('answerLocation'))} {...register('answerLocation')} />
-            <FieldError message={err('answerLocation')} />
-          </div>
-          <div className="space-y-1">
-            <label htmlFor="diagnosisWeight" className={labelCls}>
-              Diagnosis weight
-            </label>
+          </Labelled>
+          <Labelled id="diagnosisWeight" label="Diagnosis weight" error={err('diagnosisWeight')}>
             <input id="diagnosisWeight" type="number" min={0} max={1000} className={input} {...register('diagnosisWeight', { valueAsNumber: true })} />
-            <FieldError message={err('diagnosisWeight')} />
-          </div>
-          <div className="space-y-1">
-            <label htmlFor="timeLimitMin" className={labelCls}>
-              Time limit (minutes of cell time)
-            </label>
+          </Labelled>
+          <Labelled id="timeLimitMin" label="Time limit (minutes of cell time)" error={err('timeLimitMin')}>
             <input id="timeLimitMin" type="number" step="0.5" min={0.1} max={240} className={input} {...register('timeLimitMin', { valueAsNumber: true })} />
-            <FieldError message={err('timeLimitMin')} />
-          </div>
+          </Labelled>
         </div>
         <fieldset className="mt-4 flex flex-wrap gap-x-6 gap-y-2 text-sm">
           <legend className="sr-only">Permissions</legend>
@@ -374,29 +359,18 @@ function FaultCardEditor({ index, control, register, err, onRemove }: { index: n
   const need = FAULT_FIELDS[kind] ?? [];
   const p = `faults.${index}` as const;
   const small = (name: 'periodMs' | 'probability' | 'factor' | 'ratePerS', label: string, step: string) => (
-    <div className="space-y-1">
-      <label htmlFor={`${p}.${name}`} className={labelCls}>
-        {label}
-      </label>
+    <Labelled id={`${p}.${name}`} label={label} error={err(`${p}.${name}`)}>
       <input id={`${p}.${name}`} type="number" step={step} className={input} {...register(`${p}.${name}`, { valueAsNumber: true })} />
-      <FieldError message={err(`${p}.${name}`)} />
-    </div>
+    </Labelled>
   );
   return (
     <fieldset className="rounded-md border border-amber-200 bg-amber-50/40 p-3" data-testid={`fault-${index}`}>
       <legend className="px-1 text-xs font-semibold text-amber-900">Fault card {index + 1}</legend>
       <div className="grid gap-3 md:grid-cols-4">
-        <div className="space-y-1">
-          <label htmlFor={`${p}.id`} className={labelCls}>
-            Card id
-          </label>
+        <Labelled id={`${p}.id`} label="Card id" error={err(`${p}.id`)}>
           <input id={`${p}.id`} className={cn(input, 'font-mono')} {...register(`${p}.id`)} />
-          <FieldError message={err(`${p}.id`)} />
-        </div>
-        <div className="space-y-1">
-          <label htmlFor={`${p}.kind`} className={labelCls}>
-            Kind
-          </label>
+        </Labelled>
+        <Labelled id={`${p}.kind`} label="Kind">
           <select id={`${p}.kind`} className={input} {...register(`${p}.kind`)}>
             {FAULT_KINDS.map((k) => (
               <option key={k} value={k}>
@@ -404,71 +378,45 @@ function FaultCardEditor({ index, control, register, err, onRemove }: { index: n
               </option>
             ))}
           </select>
-        </div>
-        <div className="space-y-1 md:col-span-2">
-          <label htmlFor={`${p}.label`} className={labelCls}>
-            Note for trainers
-          </label>
+        </Labelled>
+        <Labelled id={`${p}.label`} label="Note for trainers" className="md:col-span-2">
           <input id={`${p}.label`} className={input} {...register(`${p}.label`)} />
-        </div>
+        </Labelled>
         {need.includes('device') ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.device`} className={labelCls}>
-              Device
-            </label>
+          <Labelled id={`${p}.device`} label="Device" error={err(`${p}.device`)}>
             <input id={`${p}.device`} list="dl-devices" className={cn(input, 'font-mono')} {...register(`${p}.device`)} />
-            <FieldError message={err(`${p}.device`)} />
-          </div>
+          </Labelled>
         ) : null}
         {need.includes('row') || need.includes('rows') ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.row`} className={labelCls}>
-              {need.includes('rows') ? 'First wire (row)' : 'Wire (row)'}
-            </label>
+          <Labelled id={`${p}.row`} label={need.includes('rows') ? 'First wire (row)' : 'Wire (row)'} error={err(`${p}.row`)}>
             <input id={`${p}.row`} list="dl-rows" className={cn(input, 'font-mono')} {...register(`${p}.row`)} />
-            <FieldError message={err(`${p}.row`)} />
-          </div>
+          </Labelled>
         ) : null}
         {need.includes('rows') ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.row2`} className={labelCls}>
-              Second wire (row)
-            </label>
+          <Labelled id={`${p}.row2`} label="Second wire (row)" error={err(`${p}.row2`)}>
             <input id={`${p}.row2`} list="dl-rows" className={cn(input, 'font-mono')} {...register(`${p}.row2`)} />
-            <FieldError message={err(`${p}.row2`)} />
-          </div>
+          </Labelled>
         ) : null}
         {need.includes('module') ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.module`} className={labelCls}>
-              Module
-            </label>
+          <Labelled id={`${p}.module`} label="Module" error={err(`${p}.module`)}>
             <input id={`${p}.module`} list="dl-modules" className={cn(input, 'font-mono')} {...register(`${p}.module`)} />
-            <FieldError message={err(`${p}.module`)} />
-          </div>
+          </Labelled>
         ) : null}
         {need.includes('periodMs') ? small('periodMs', 'Window (ms)', '1') : null}
         {need.includes('probability') ? small('probability', 'Open probability (0–1)', '0.05') : null}
         {need.includes('factor') ? small('factor', 'Slower by factor', '0.5') : null}
         {need.includes('ratePerS') ? small('ratePerS', 'Drift (V or mA per s)', '0.1') : null}
-        <div className="space-y-1">
-          <label htmlFor={`${p}.trigger`} className={labelCls}>
-            Appears
-          </label>
+        <Labelled id={`${p}.trigger`} label="Appears">
           <select id={`${p}.trigger`} className={input} {...register(`${p}.trigger`)}>
             <option value="now">from the start</option>
             <option value="at">at a cell time</option>
             <option value="when">when a condition holds</option>
           </select>
-        </div>
+        </Labelled>
         {trigger === 'at' ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.atMs`} className={labelCls}>
-              At (ms of cell time)
-            </label>
+          <Labelled id={`${p}.atMs`} label="At (ms of cell time)" error={err(`${p}.atMs`)}>
             <input id={`${p}.atMs`} type="number" min={0} className={input} {...register(`${p}.atMs`, { valueAsNumber: true })} />
-            <FieldError message={err(`${p}.atMs`)} />
-          </div>
+          </Labelled>
         ) : null}
       </div>
       {trigger === 'when' ? <ConditionEditor prefix={`${p}.when`} label="Trigger condition" control={control} register={register} err={err} /> : null}
@@ -522,17 +470,10 @@ function RuleEditor({ index, control, register, err, onRemove }: { index: number
     <fieldset className="rounded-md border border-slate-200 p-3" data-testid={`rule-${index}`}>
       <legend className="px-1 text-xs font-semibold text-slate-700">Rule {index + 1}</legend>
       <div className="grid gap-3 md:grid-cols-5">
-        <div className="space-y-1">
-          <label htmlFor={`${p}.id`} className={labelCls}>
-            Rule id
-          </label>
+        <Labelled id={`${p}.id`} label="Rule id" error={err(`${p}.id`)}>
           <input id={`${p}.id`} className={cn(input, 'font-mono')} {...register(`${p}.id`)} />
-          <FieldError message={err(`${p}.id`)} />
-        </div>
-        <div className="space-y-1">
-          <label htmlFor={`${p}.kind`} className={labelCls}>
-            Kind
-          </label>
+        </Labelled>
+        <Labelled id={`${p}.kind`} label="Kind">
           <select id={`${p}.kind`} className={input} {...register(`${p}.kind`)}>
             {RULE_KINDS.map((k) => (
               <option key={k} value={k}>
@@ -540,28 +481,17 @@ function RuleEditor({ index, control, register, err, onRemove }: { index: number
               </option>
             ))}
           </select>
-        </div>
-        <div className="space-y-1 md:col-span-2">
-          <label htmlFor={`${p}.label`} className={labelCls}>
-            Shown as
-          </label>
+        </Labelled>
+        <Labelled id={`${p}.label`} label="Shown as" className="md:col-span-2">
           <input id={`${p}.label`} className={input} {...register(`${p}.label`)} />
-        </div>
-        <div className="space-y-1">
-          <label htmlFor={`${p}.weight`} className={labelCls}>
-            Weight
-          </label>
+        </Labelled>
+        <Labelled id={`${p}.weight`} label="Weight" error={err(`${p}.weight`)}>
           <input id={`${p}.weight`} type="number" min={0} max={1000} className={input} {...register(`${p}.weight`, { valueAsNumber: true })} />
-          <FieldError message={err(`${p}.weight`)} />
-        </div>
+        </Labelled>
         {kind === 'after' || kind === 'eventually' ? (
-          <div className="space-y-1">
-            <label htmlFor={`${p}.withinMs`} className={labelCls}>
-              Within T (ms)
-            </label>
+          <Labelled id={`${p}.withinMs`} label="Within T (ms)" error={err(`${p}.withinMs`)}>
             <input id={`${p}.withinMs`} type="number" min={0} className={input} {...register(`${p}.withinMs`, { valueAsNumber: true })} />
-            <FieldError message={err(`${p}.withinMs`)} />
-          </div>
+          </Labelled>
         ) : null}
       </div>
       {kind === 'after' ? <ConditionEditor prefix={`${p}.event`} label="Event E" control={control} register={register} err={err} /> : null}

@@ -16,6 +16,7 @@ import { cn } from '@/components/ui/cn';
 import { Dialog } from '@/components/cells/dialog';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import { humanise } from '@/components/workspace/format';
+import { ListTable } from '@/components/ui/list-table';
 
 type GbCell = { runId: string; status: 'active' | 'submitted'; grade: number | null; computedGrade: number | null; overridden: boolean; overrideReason: string | null; submittedAt: string | null; diagnosis: { kind: string; location: string } | null } | null;
 type GbRow = { studentId: string; name: string; email: string; cells: Record<string, GbCell> };
@@ -141,48 +142,48 @@ export function GradebookView({ cohorts, cohortId }: { cohorts: { id: string; na
 
       <Dialog title={student ? `${student.name} — runs` : 'Student'} open={student !== null} onClose={() => setDetail(null)} wide>
         {student && book ? (
-          <table className="w-full text-left text-sm" data-testid="student-detail">
-            <thead className="text-xs uppercase tracking-wide text-slate-500">
-              <tr>
+          <ListTable
+            data-testid="student-detail"
+            head={
+              <>
                 <th className="py-1.5">Drill</th>
                 <th>Grade</th>
                 <th>Diagnosis</th>
                 <th />
-              </tr>
-            </thead>
-            <tbody className="divide-y divide-slate-100">
-              {book.columns.map((col) => {
-                const c = student.cells[col.assignmentId];
-                return (
-                  <tr key={col.assignmentId}>
-                    <td className="py-1.5">{col.drillTitle}</td>
-                    <td className="font-mono">
-                      {cellText(c)}
-                      {c?.overridden ? <span className="block text-xs font-sans text-amber-800">computed {c.computedGrade ?? '—'}% · {c.overrideReason}</span> : null}
-                    </td>
-                    <td className="text-xs">{c?.diagnosis ? `${humanise(c.diagnosis.kind)} at ${c.diagnosis.location}` : '—'}</td>
-                    <td className="space-x-2 whitespace-nowrap text-right">
-                      {c ? (
-                        <>
-                          <Link href={`/runs/${c.runId}`} className="text-xs text-accent-700 hover:underline">
-                            Result
-                          </Link>
-                          <Link href={`/runs/${c.runId}/replay`} className="inline-flex items-center gap-1 text-xs text-accent-700 hover:underline" data-testid="replay-link">
-                            <PlayCircle aria-hidden className="h-3.5 w-3.5" /> Replay
-                          </Link>
-                          {c.status === 'submitted' ? (
-                            <button type="button" onClick={() => setOverride({ runId: c.runId, student: student.name, drill: col.drillTitle, current: c.grade })} className="inline-flex items-center gap-1 text-xs text-slate-700 hover:underline">
-                              <PenLine aria-hidden className="h-3.5 w-3.5" /> Override
-                            </button>
-                          ) : null}
-                        </>
-                      ) : null}
-                    </td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
+              </>
+            }
+          >
+            {book.columns.map((col) => {
+              const c = student.cells[col.assignmentId];
+              return (
+                <tr key={col.assignmentId}>
+                  <td className="py-1.5">{col.drillTitle}</td>
+                  <td className="font-mono">
+                    {cellText(c)}
+                    {c?.overridden ? <span className="block text-xs font-sans text-amber-800">computed {c.computedGrade ?? '—'}% · {c.overrideReason}</span> : null}
+                  </td>
+                  <td className="text-xs">{c?.diagnosis ? `${humanise(c.diagnosis.kind)} at ${c.diagnosis.location}` : '—'}</td>
+                  <td className="space-x-2 whitespace-nowrap text-right">
+                    {c ? (
+                      <>
+                        <Link href={`/runs/${c.runId}`} className="text-xs text-accent-700 hover:underline">
+                          Result
+                        </Link>
+                        <Link href={`/runs/${c.runId}/replay`} className="inline-flex items-center gap-1 text-xs text-accent-700 hover:underline" data-testid="replay-link">
+                          <PlayCircle aria-hidden className="h-3.5 w-3.5" /> Replay
+                        </Link>
+                        {c.status === 'submitted' ? (
+                          <button type="button" onClick={() => setOverride({ runId: c.runId, student: student.name, drill: col.drillTitle, current: c.grade })} className="inline-flex items-center gap-1 text-xs text-slate-700 hover:underline">
+                            <PenLine aria-hidden className="h-3.5 w-3.5" /> Override
+                          </button>
+                        ) : null}
+                      </>
+                    ) : null}
+                  </td>
+                </tr>
+              );
+            })}
+          </ListTable>
         ) : null}
       </Dialog>
       <OverrideDialog

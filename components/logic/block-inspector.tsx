@@ -5,7 +5,7 @@ import { Trash2 } from 'lucide-react';
 import { blockCatalogue, isBlockType, type BlockType, type Problem } from '@/simulator';
 import { Button } from '@/components/ui/button';
 import { paramFields, swappableTypes, type Block, type ParamField } from './sheet-graph';
-import { useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
 
 type Props = {
   block: Block;
@@ -29,9 +29,7 @@ function TextCommit({ label, value, onCommit, disabled, mono }: { label: string;
         spellCheck={false}
         onChange={(e) => setText(e.target.value)}
         onBlur={() => text !== value && onCommit(text)}
-        onKeyDown={(e) => {
-          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-        }}
+        onKeyDown={blurOnEnter}
       />
     </label>
   );
@@ -63,9 +61,7 @@ function NumberCommit({ field, value, onCommit, disabled }: { field: Extract<Par
         disabled={disabled}
         onChange={(e) => setText(e.target.value)}
         onBlur={commit}
-        onKeyDown={(e) => {
-          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-        }}
+        onKeyDown={blurOnEnter}
       />
       {error ? <span className="text-red-700">{error}</span> : null}
     </label>

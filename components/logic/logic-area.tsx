@@ -33,7 +33,7 @@ import { BlockNode, inHandle, outHandle, portOfHandle, type BlockFlowNode, type 
 import { WireEdge, type WireFlowEdge } from './wire-edge';
 import { BlockInspector } from './block-inspector';
 import { LogicActionsContext, type LogicActions } from './logic-context';
-import { useDraft } from './use-draft';
+import { blurOnEnter, useDraft } from './use-draft';
 import {
   addBlock,
   checkConnection,
@@ -424,9 +424,7 @@ function ScanPeriod({ value, disabled, onCommit }: { value: number; disabled: bo
         inputMode="numeric"
         onChange={(e) => setText(e.target.value)}
         onBlur={commit}
-        onKeyDown={(e) => {
-          if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
-        }}
+        onKeyDown={blurOnEnter}
       />
       ms
     </label>

@@ -4,7 +4,7 @@
  * changes from outside (undo, another area), otherwise keeps what the user is typing.
  * Adjusts during render, as React recommends for state derived from a prop.
  */
-import { useState } from 'react';
+import { useState, type KeyboardEvent } from 'react';
 
 export function useDraft(value: string): [string, (text: string) => void] {
   const [text, setText] = useState(value);
@@ -14,4 +14,9 @@ export function useDraft(value: string): [string, (text: string) => void] {
     setText(value);
   }
   return [text, setText];
+}
+
+/** `onKeyDown` for a draft field: Enter commits it the same way leaving it does (its blur). */
+export function blurOnEnter(e: KeyboardEvent<HTMLInputElement>): void {
+  if (e.key === 'Enter') (e.target as HTMLInputElement).blur();
 }

@@ -1,7 +1,7 @@
 'use client';
 import { useState } from 'react';
 import { cn } from '@/components/ui/cn';
-import { shallowEqual, useSelection, useSendEvent, useSnapshot, useWorkspace } from '@/components/workspace/contract';
+import { shallowEqual, useForceAllowed, useSelection, useSendEvent, useSnapshot, useWorkspace } from '@/components/workspace/contract';
 import { endpointText } from '@/components/field/endpoint-text';
 import type { WiringRow } from '@/simulator';
 import { useRelated } from '@/components/workspace/use-related';
@@ -23,8 +23,9 @@ function isBit(target: string): boolean {
   return /^%[IQM]X/i.test(target) || /^(DI|DO|TI|TO)\d/.test(target);
 }
 
-/** Every PLC address and controller point with its live value; force and unforce. */
+/** Every PLC address and controller point with its live value; force and unforce where the workspace allows forcing. */
 export function MonitorArea() {
+  const forceAllowed = useForceAllowed();
   const addresses = useSnapshot((s) => s.plc.addresses, shallowEqual) ?? {};
   const points = useSnapshot((s) => s.controller.points, shallowEqual) ?? [];
   const [filter, setFilter] = useState('');
@@ -48,6 +49,11 @@ export function MonitorArea() {
 
   return (
     <div className="space-y-3">
+      {forceAllowed ? null : (
+        <p role="note" data-testid="force-not-allowed" className="rounded-md border border-slate-300 bg-slate-50 px-3 py-1.5 text-xs text-slate-700">
+          Forcing is not allowed in this drill: values can be watched here but not forced.
+        </p>
+      )}
       <label className="flex max-w-sm items-center gap-2 text-sm">
         <span className="text-slate-700">Filter</span>
         <input value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="%IX0 or DI" className="flex-1 rounded border border-slate-300 px-2 py-1 font-mono text-sm" />
@@ -59,12 +65,12 @@ export function MonitorArea() {
               <th className="px-2 py-1.5">Point</th>
               <th className="px-2 py-1.5">Label / where</th>
               <th className="px-2 py-1.5">Value</th>
-              <th className="px-2 py-1.5">Force</th>
+              {forceAllowed ? <th className="px-2 py-1.5">Force</th> : null}
             </tr>
           </thead>
           <tbody>
             {shown.map((r) => (
-              <MonitorRow key={`${r.kind}:${r.target}`} row={r} />
+              <MonitorRow key={`${r.kind}:${r.target}`} row={r} forceAllowed={forceAllowed} />
             ))}
           </tbody>
         </table>
@@ -73,10 +79,8 @@ export function MonitorArea() {
   );
 }
 
-function MonitorRow({ row }: { row: Row }) {
-  const send = useSendEvent();
+function MonitorRow({ row, forceAllowed }: { row: Row; forceAllowed: boolean }) {
   const [selection, select] = useSelection();
-  const [word, setWord] = useState('0');
   const related = useRelated();
   const selected = (selection?.kind === row.kind && selection.id === row.target) || (row.kind === 'address' && related.addresses.has(row.target));
   const on = row.bit && row.value !== 0;
@@ -101,33 +105,42 @@ function MonitorRow({ row }: { row: Row }) {
           {row.forced ? <span className="rounded bg-amber-500 px-1 text-[10px] font-bold text-white">FORCED</span> : null}
         </span>
       </td>
-      <td className="px-2 py-1.5" onClick={(e) => e.stopPropagation()}>
-        <div className="flex items-center gap-1">
-          {row.bit ? (
-            <>
-              <ForceButton label={`Force ${row.target} to 1`} onClick={() => send({ type: 'force', target: row.target, value: 1 })}>
-                1
-              </ForceButton>
-              <ForceButton label={`Force ${row.target} to 0`} onClick={() => send({ type: 'force', target: row.target, value: 0 })}>
-                0
-              </ForceButton>
-            </>
-          ) : (
-            <>
-              <input aria-label={`Force value for ${row.target}`} value={word} onChange={(e) => setWord(e.target.value)} inputMode="numeric" className="w-16 rounded border border-slate-300 px-1 py-0.5 font-mono text-xs" />
-              <ForceButton label={`Force ${row.target}`} onClick={() => Number.isFinite(Number(word)) && send({ type: 'force', target: row.target, value: Number(word) })}>
-                Force
-              </ForceButton>
-            </>
-          )}
-          {row.forced ? (
-            <button type="button" onClick={() => send({ type: 'unforce', target: row.target })} className="rounded border border-amber-600 bg-white px-2 py-0.5 text-xs font-medium text-amber-900 hover:bg-amber-50" aria-label={`Unforce ${row.target}`}>
-              Unforce
-            </button>
-          ) : null}
-        </div>
-      </td>
+      {forceAllowed ? <ForceCell row={row} /> : null}
     </tr>
+  );
+}
+
+/** The force controls of one row (only rendered where forcing is allowed). */
+function ForceCell({ row }: { row: Row }) {
+  const send = useSendEvent();
+  const [word, setWord] = useState('0');
+  return (
+    <td className="px-2 py-1.5" onClick={(e) => e.stopPropagation()}>
+      <div className="flex items-center gap-1">
+        {row.bit ? (
+          <>
+            <ForceButton label={`Force ${row.target} to 1`} onClick={() => send({ type: 'force', target: row.target, value: 1 })}>
+              1
+            </ForceButton>
+            <ForceButton label={`Force ${row.target} to 0`} onClick={() => send({ type: 'force', target: row.target, value: 0 })}>
+              0
+            </ForceButton>
+          </>
+        ) : (
+          <>
+            <input aria-label={`Force value for ${row.target}`} value={word} onChange={(e) => setWord(e.target.value)} inputMode="numeric" className="w-16 rounded border border-slate-300 px-1 py-0.5 font-mono text-xs" />
+            <ForceButton label={`Force ${row.target}`} onClick={() => Number.isFinite(Number(word)) && send({ type: 'force', target: row.target, value: Number(word) })}>
+              Force
+            </ForceButton>
+          </>
+        )}
+        {row.forced ? (
+          <button type="button" onClick={() => send({ type: 'unforce', target: row.target })} className="rounded border border-amber-600 bg-white px-2 py-0.5 text-xs font-medium text-amber-900 hover:bg-amber-50" aria-label={`Unforce ${row.target}`}>
+            Unforce
+          </button>
+        ) : null}
+      </div>
+    </td>
   );
 }
 

@@ -12,7 +12,8 @@
  *
  * Same `EngineConnection` shape as the worker (components/workspace/store.ts), so the areas
  * work unchanged. Document edits cannot reach the server's cell (only events can), so a
- * reload of the document is acknowledged and otherwise ignored.
+ * reload of the document is acknowledged and otherwise ignored (`keepsRunOnEdit`); an edit of
+ * an editable area reaches the server as a `download` event ("Download to PLC").
  */
 import type { CellEvent, CellSnapshot, LoggedEvent } from '@/simulator';
 import type { EngineConnection, EngineFactory, EngineSink } from '@/components/workspace/store';
@@ -89,6 +90,10 @@ export function refusal(event: CellEvent, permissions: RemotePermissions): strin
   if (event.type === 'inject-fault' || event.type === 'clear-fault') return 'Fault cards cannot be changed during a drill.';
   if ((event.type === 'force' || event.type === 'unforce') && !permissions.forceAllowed) return 'This drill does not allow forcing.';
   if ((event.type === 'stage-point-map' || event.type === 'discard-staged') && !permissions.editable.includes('point-map')) return 'This drill does not allow point-map edits.';
+  if (event.type === 'download') {
+    const barred = (['logic', 'wiring', 'routine'] as const).filter((a) => event[a] !== undefined && !permissions.editable.includes(a));
+    if (barred.length > 0) return `This drill does not allow downloading: ${barred.join(', ')}.`;
+  }
   return null;
 }
 
@@ -235,6 +240,7 @@ export function createRemoteRun(opts: RemoteRunOptions): RemoteRun {
     };
 
     const conn: Conn = {
+      keepsRunOnEdit: true,
       load() {
         if (!loadedOnce) {
           loadedOnce = true;

@@ -20,6 +20,8 @@ import { StatusStrip } from '@/components/workspace/status-strip';
 import { WorkspaceStoreContext, useWorkspace, useWorkspaceApi, type WorkspaceInit, type WorkspaceStore, type WorkspaceStoreApi } from '@/components/workspace/contract';
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
 import type { EngineFactory } from '@/components/workspace/store';
+import { DownloadButton } from '@/components/workspace/download-button';
+import type { DownloadArea } from '@/components/workspace/download';
 
 export const RUN_AREAS = [
   { id: 'panel', label: 'Panel', icon: LayoutPanelTop },
@@ -76,23 +78,33 @@ export type RunWorkspaceProps = {
   header?: ReactNode;
   /** Rendered inside the provider (recorders, fault injection). */
   children?: ReactNode;
+  /**
+   * Parts the run may download into its running cell ("Download to PLC" in the Logic, Field
+   * and Controller areas while they are editable); none by default.
+   */
+  downloadable?: readonly DownloadArea[];
 };
 
+/** Which downloadable part each area edits. */
+const AREA_DOWNLOADS: Partial<Record<RunAreaId, DownloadArea>> = { logic: 'logic', field: 'wiring', controller: 'routine' };
+
 /** A run's workspace: provider, areas with per-area editing, force shown only when allowed. */
-export function RunWorkspace({ init, engineFactory, editing, forceAllowed, strip, header, children }: RunWorkspaceProps) {
+export function RunWorkspace({ init, engineFactory, editing, forceAllowed, strip, header, children, downloadable = [] }: RunWorkspaceProps) {
   return (
-    <WorkspaceProvider init={init} engineFactory={engineFactory}>
+    <WorkspaceProvider init={{ ...init, forceAllowed }} engineFactory={engineFactory}>
       <ScopeRecorderProvider>
         {children}
         {header}
-        <RunAreas editing={editing} forceAllowed={forceAllowed} strip={strip} />
+        <RunAreas editing={editing} forceAllowed={forceAllowed} strip={strip} downloadable={downloadable} />
       </ScopeRecorderProvider>
     </WorkspaceProvider>
   );
 }
 
-function RunAreas({ editing, forceAllowed, strip }: { editing: AreaEditing; forceAllowed: boolean; strip?: ReactNode }) {
+function RunAreas({ editing, forceAllowed, strip, downloadable }: { editing: AreaEditing; forceAllowed: boolean; strip?: ReactNode; downloadable: readonly DownloadArea[] }) {
   const [area, setArea] = useState<RunAreaId>('panel');
+  const part = AREA_DOWNLOADS[area];
+  const areaDownloads = useMemo(() => (part && editing[area] && downloadable.includes(part) ? [part] : []), [part, area, editing, downloadable]);
   const rejection = useWorkspace((s) => s.engine.lastRejection);
   const status = useWorkspace((s) => s.engine.status);
   const problems = useWorkspace((s) => s.engine.problems);
@@ -150,10 +162,11 @@ function RunAreas({ editing, forceAllowed, strip }: { editing: AreaEditing; forc
         role="tabpanel"
         id={`area-${area}`}
         aria-labelledby={`tab-${area}`}
-        className={cn('min-h-[420px]', !forceAllowed && "[&_button[aria-label^='Force']]:hidden [&_button[aria-label^='Unforce']]:hidden")}
+        className="min-h-[420px]"
         data-testid={`area-${area}`}
         data-force-allowed={forceAllowed}
       >
+        {areaDownloads.length > 0 ? <DownloadButton areas={areaDownloads} /> : null}
         <AreaScope canEdit={Boolean(editing[area])}>
           {area === 'panel' ? <PanelArea /> : null}
           {area === 'field' ? <FieldArea /> : null}

@@ -1,5 +1,5 @@
 import { forwardRef } from 'react';
-import type { InputHTMLAttributes, TextareaHTMLAttributes } from 'react';
+import type { InputHTMLAttributes, ReactNode, TextareaHTMLAttributes } from 'react';
 import { cn } from './cn';
 
 const inputClass =
@@ -12,18 +12,20 @@ interface FieldProps {
   hint?: string;
 }
 
-/** A labelled input; the error is announced and tied to the input with aria-describedby. */
-export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttributes<HTMLInputElement>>(function TextField(
-  { id, label, error, hint, className, ...props },
-  ref,
-) {
+/** The aria attributes that tie a control to its error and hint paragraphs. */
+function controlAria(id: string, error?: string, hint?: string) {
   const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(' ') || undefined;
+  return { 'aria-invalid': error ? true : undefined, 'aria-describedby': describedBy };
+}
+
+/** Label above, control, then the hint, replaced by the error (announced) when there is one. */
+function FieldFrame({ id, label, error, hint, className, children }: FieldProps & { className?: string; children: ReactNode }) {
   return (
     <div className={cn('space-y-1', className)}>
       <label htmlFor={id} className="block text-sm font-medium text-slate-700">
         {label}
       </label>
-      <input ref={ref} id={id} aria-invalid={error ? true : undefined} aria-describedby={describedBy} className={inputClass} {...props} />
+      {children}
       {hint && !error ? (
         <p id={`${id}-hint`} className="text-xs text-slate-500">
           {hint}
@@ -36,28 +38,27 @@ export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttr
       ) : null}
     </div>
   );
+}
+
+/** A labelled input; the error is announced and tied to the input with aria-describedby. */
+export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttributes<HTMLInputElement>>(function TextField(
+  { id, label, error, hint, className, ...props },
+  ref,
+) {
+  return (
+    <FieldFrame id={id} label={label} error={error} hint={hint} className={className}>
+      <input ref={ref} id={id} {...controlAria(id, error, hint)} className={inputClass} {...props} />
+    </FieldFrame>
+  );
 });
 
+/** A labelled textarea, tied to its error and hint like TextField. */
 export const TextAreaField = forwardRef<HTMLTextAreaElement, FieldProps & TextareaHTMLAttributes<HTMLTextAreaElement>>(
   function TextAreaField({ id, label, error, hint, className, ...props }, ref) {
-    const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(' ') || undefined;
     return (
-      <div className={cn('space-y-1', className)}>
-        <label htmlFor={id} className="block text-sm font-medium text-slate-700">
-          {label}
-        </label>
-        <textarea ref={ref} id={id} aria-invalid={error ? true : undefined} aria-describedby={describedBy} className={inputClass} {...props} />
-        {hint && !error ? (
-          <p id={`${id}-hint`} className="text-xs text-slate-500">
-            {hint}
-          </p>
-        ) : null}
-        {error ? (
-          <p id={`${id}-error`} role="alert" className="text-xs text-red-700">
-            {error}
-          </p>
-        ) : null}
-      </div>
+      <FieldFrame id={id} label={label} error={error} hint={hint} className={className}>
+        <textarea ref={ref} id={id} {...controlAria(id, error, hint)} className={inputClass} {...props} />
+      </FieldFrame>
     );
   },
 );

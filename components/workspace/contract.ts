@@ -19,7 +19,11 @@
  *   animation frame,
  * - `engine`: run state (running/paused, speed, problems of an invalid document),
  * - `selection`: one selected device / block / point / address / wire id, shared by every
- *   area so they all highlight the same signal.
+ *   area so they all highlight the same signal,
+ * - `forceAllowed`: whether force/unforce may be sent (default true; a drill can forbid it).
+ *   The monitor and the force banner hide their force controls when it is false, and
+ *   `sendEvent` refuses force/unforce itself (reported in `engine.lastRejection`), so no area
+ *   can slip one through.
  *
  * Reading
  * -------
@@ -60,7 +64,8 @@ import { createContext, useContext } from 'react';
 import { useStoreWithEqualityFn } from 'zustand/traditional';
 import { shallow } from 'zustand/shallow';
 import type { StoreApi } from 'zustand/vanilla';
-import type { CellDocument, CellSnapshot, CellEvent, LoggedEvent, Problem } from '@/simulator';
+import type { CellDocument, CellSnapshot, CellEvent, DownloadEvent, LoggedEvent, Problem } from '@/simulator';
+import type { DownloadArea } from './download';
 import type { EngineFactory } from './store';
 import type { TraceChunk } from './engine-protocol';
 
@@ -109,6 +114,8 @@ export type WorkspaceInit = {
   document: CellDocument;
   /** False for a viewer who may run the cell but not save it. */
   canEdit: boolean;
+  /** False when force/unforce is forbidden (a drill's permission); default true. */
+  forceAllowed?: boolean;
 };
 
 /** Store state. */
@@ -116,9 +123,16 @@ export type WorkspaceState = {
   cellId: string;
   version: number;
   canEdit: boolean;
+  /** Whether force/unforce events may be sent; `sendEvent` refuses them when false. */
+  forceAllowed: boolean;
   document: CellDocument;
   /** The document as last saved (or loaded); `dirty` compares against it. */
   savedDocument: CellDocument;
+  /**
+   * What the engine runs: the document of the last (re)load, with downloaded parts swapped in.
+   * `downloadEdits` sends the logic/wiring/routine parts where `document` differs from it.
+   */
+  engineDocument: CellDocument;
   past: HistoryEntry[];
   future: HistoryEntry[];
   dirty: boolean;
@@ -138,8 +152,14 @@ export type WorkspaceActions = {
   /** Replaces document and base version after a save or a reload; clears history when `resetHistory`. */
   markSaved(version: number, document?: CellDocument, resetHistory?: boolean): void;
   setEditMode(on: boolean): void;
-  /** Sends an event to the engine worker (logged in the run's event log). */
+  /** Sends an event to the engine worker (logged in the run's event log); force/unforce are refused when not allowed. */
   sendEvent(event: CellEvent): void;
+  /**
+   * "Download to PLC": sends the edited parts among `areas` (logic sheet, wiring, routine) that
+   * differ from `engineDocument` as one `download` event — the run goes on, nothing restarts
+   * at time 0. Returns the event sent, or null when nothing among `areas` changed.
+   */
+  downloadEdits(areas: readonly DownloadArea[]): DownloadEvent | null;
   run(speed: RunSpeed): void;
   pause(): void;
   /** Advances the cell to the end of the next PLC scan (paused). */
@@ -217,4 +237,9 @@ export function useIsSelected(kind: SelectionKind, id: string): boolean {
 /** Whether the document may be edited here (role and edit mode aside). */
 export function useCanEdit(): boolean {
   return useWorkspace((s) => s.canEdit);
+}
+
+/** Whether force/unforce may be used in this workspace (false in a drill that forbids forcing). */
+export function useForceAllowed(): boolean {
+  return useWorkspace((s) => s.forceAllowed);
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import { createWorkspaceStore, HISTORY_LIMIT, type EngineConnection } from './store';
+import { createWorkspaceStore, FORCE_NOT_ALLOWED, HISTORY_LIMIT, type EngineConnection } from './store';
 import { clearDraft, draftKey, findOlderDraft, readDraft, writeDraft } from './draft';
 import { demoDocument, MemoryStorage } from './test-helpers';
 
@@ -112,6 +112,28 @@ describe('workspace store: editing, undo and redo', () => {
     expect(store.getState().engine.running).toBe(false);
     store.getState().pause();
     expect(calls).toEqual(['load', 'run:10', 'send:press', 'step', 'pause']);
+  });
+
+  it('allows forcing by default and passes force/unforce to the engine', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    expect(store.getState().forceAllowed).toBe(true);
+    store.getState().sendEvent({ type: 'force', target: '%IX0.5', value: 0 });
+    store.getState().sendEvent({ type: 'unforce', target: '%IX0.5' });
+    expect(calls).toEqual(['load', 'send:force', 'send:unforce']);
+    expect(store.getState().engine.lastRejection).toBeNull();
+  });
+
+  it('with forceAllowed false refuses force and unforce before the engine, other events still pass', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore({ ...init(), forceAllowed: false }, () => conn);
+    expect(store.getState().forceAllowed).toBe(false);
+    store.getState().sendEvent({ type: 'force', target: '%IX0.5', value: 1 });
+    expect(store.getState().engine.lastRejection).toMatchObject({ event: { type: 'force', target: '%IX0.5' }, problems: [{ code: 'force_not_allowed', message: FORCE_NOT_ALLOWED }] });
+    store.getState().sendEvent({ type: 'unforce', target: '%IX0.5' });
+    expect(store.getState().engine.lastRejection?.event.type).toBe('unforce');
+    store.getState().sendEvent({ type: 'press', device: 'start' });
+    expect(calls).toEqual(['load', 'send:press']);
   });
 
   it('drops the live snapshot when the engine reports the document invalid', () => {

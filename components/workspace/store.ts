@@ -6,6 +6,7 @@
 import { createStore } from 'zustand/vanilla';
 import type { CellDocument, CellEvent, LoggedEvent, CellSnapshot } from '@/simulator';
 import type { TraceChunk } from './engine-protocol';
+import { afterDownload, downloadEvent } from './download';
 import type { EngineState, HistoryEntry, RunSpeed, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
 
 /** Undo depth; older steps fall off (a document is small, but hours of editing add up). */
@@ -20,6 +21,11 @@ export type EngineConnection = {
   stepScan(): void;
   getEventLog(): Promise<LoggedEvent[]>;
   dispose(): void;
+  /**
+   * True when a reload cannot reach the running cell (a drill's cell runs on the server and
+   * hears events only): edits then stay in the document until `downloadEdits` sends them.
+   */
+  keepsRunOnEdit?: boolean;
 };
 
 /** Where the engine pushes its results. */
@@ -32,6 +38,9 @@ export type EngineSink = {
 
 /** Builds an engine connection for a store; receives the sink it reports into. */
 export type EngineFactory = (sink: EngineSink) => EngineConnection;
+
+/** Why a force/unforce was refused in a workspace that does not allow forcing. */
+export const FORCE_NOT_ALLOWED = 'Forcing is not allowed in this drill.';
 
 const INITIAL_ENGINE: EngineState = {
   status: 'loading',
@@ -59,6 +68,7 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
 
   const store = createStore<WorkspaceStore>()((set, get) => {
     const applyDocument = (document: CellDocument, reload: boolean) => {
+      if (reload && !engine?.keepsRunOnEdit) set({ engineDocument: document });
       if (reload) {
         set({ engine: { ...get().engine, status: 'loading', problems: [], lastRejection: null } });
         engine?.load(document);
@@ -73,8 +83,10 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
       cellId: init.cellId,
       version: init.version,
       canEdit: init.canEdit,
+      forceAllowed: init.forceAllowed ?? true,
       document: init.document,
       savedDocument: init.document,
+      engineDocument: init.document,
       past: [],
       future: [],
       dirty: false,
@@ -147,7 +159,23 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
       },
 
       sendEvent(event) {
+        // The UI hides force controls when forcing is forbidden; refusing here too keeps any other
+        // sender (a keyboard shortcut, a future area) from recording an event the run's policy rejects.
+        if ((event.type === 'force' || event.type === 'unforce') && !get().forceAllowed) {
+          set((s) => ({ engine: { ...s.engine, lastRejection: { event, problems: [{ path: [], code: 'force_not_allowed', message: FORCE_NOT_ALLOWED }] } } }));
+          return;
+        }
         engine?.send(event);
+      },
+      downloadEdits(areas) {
+        const { engineDocument, document } = get();
+        const event = downloadEvent(engineDocument, document, areas);
+        if (!event) return null;
+        // Optimistic: a refused download shows in engine.lastRejection; the edits stay in the
+        // document, so correcting them and downloading again sends the parts that still differ.
+        set({ engineDocument: afterDownload(engineDocument, event) });
+        get().sendEvent(event);
+        return event;
       },
       run(speed) {
         set((s) => ({ engine: { ...s.engine, running: true, speed } }));
@@ -190,7 +218,7 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
         });
         engine = conn;
         const { running, speed } = get().engine;
-        set({ snapshot: null, engine: { ...INITIAL_ENGINE, running, speed } });
+        set({ snapshot: null, engine: { ...INITIAL_ENGINE, running, speed }, engineDocument: get().document });
         conn.load(get().document);
         if (running) conn.run(speed);
         return () => {

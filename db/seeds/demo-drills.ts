@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import { cellDocumentSchema } from '@/simulator/schema/cell-document';
 import { DEMO_ASSIGNED_DRILL, DRILL_LIBRARY, LIBRARY_BASE_NAMES, libraryBaseDocument, type LibraryBase } from '@/lib/drills/library';
 import { drillInputSchema } from '@/lib/schemas/drills';
+import { drillColumns } from '../drill-columns';
 import { DEMO_CELL_NAMES } from './demo-cells';
 
 const MARKER = 'demo-drills-v1';
@@ -38,18 +39,7 @@ export async function seedDemoDrills(knex: Knex, demoCohortName: string): Promis
         .insert({
           trainer_id: trainer.id,
           library_key: d.key,
-          title: input.title,
-          cell_id: input.cellId,
-          cell_version: input.cellVersion,
-          brief: input.brief,
-          faults: JSON.stringify(input.faults),
-          objectives: JSON.stringify(input.objectives),
-          rules: JSON.stringify(input.rules),
-          answer_kind: input.answer.kind,
-          answer_location: input.answer.location,
-          diagnosis_weight: input.diagnosisWeight,
-          time_limit_ms: input.timeLimitMs,
-          permissions: JSON.stringify(input.permissions),
+          ...drillColumns(input),
         })
         .returning('id');
       if (d.key === DEMO_ASSIGNED_DRILL) assignedDrill = row.id;

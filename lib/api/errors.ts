@@ -1,6 +1,6 @@
 import { z } from 'zod';
 
-export type ApiStatus = 400 | 401 | 403 | 404 | 409 | 422 | 429 | 500;
+export type ApiStatus = 400 | 401 | 403 | 404 | 409 | 413 | 422 | 429 | 500;
 
 /** The one error body every route handler returns: `{ error, fields? }`. */
 export interface ApiErrorBody {

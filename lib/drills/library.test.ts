@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { createCell, type LoggedEvent } from '@/simulator';
+import { createCell, pickAndPlaceDebouncedSheet, type LoggedEvent } from '@/simulator';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { gradeRun } from '@/lib/runs/grade';
 import { DRILL_LIBRARY, libraryBaseDocument } from './library';
@@ -91,6 +91,44 @@ describe('built-in drill library', () => {
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
     expect(r.value.breakdown.rules.map((x) => x.status)).toEqual(['pass', 'pass']);
     expect(r.value.grade).toBe(100);
+  });
+
+  it('chattering sensor: a downloaded debounce passes every rule; the same run without it fails the steady-signal rule', () => {
+    const d = input('chattering-part-sensor');
+    const cycle: LoggedEvent[] = [
+      { t: 3000, event: { type: 'set-field', device: 'part', active: true } },
+      { t: 3500, event: { type: 'press', device: 'start' } },
+      { t: 3600, event: { type: 'release', device: 'start' } },
+      { t: 20_000, event: { type: 'set-field', device: 'part', active: false } },
+    ];
+    const grade = (events: LoggedEvent[], seed: number) => {
+      const r = gradeRun({
+        context: { document: libraryBaseDocument('pick-and-place'), seed, faults: d.faults },
+        events,
+        endedMs: 25_000,
+        rules: d.rules,
+        answer: d.answer,
+        diagnosisWeight: d.diagnosisWeight,
+        diagnosis: { kind: 'chatter', location: 'w-part', note: 'TOF 500 ms then TON 100 ms on the part input' },
+      });
+      if (!r.ok) throw new Error(JSON.stringify(r.errors));
+      return r.value;
+    };
+    for (const seed of [1, 7, 123456]) {
+      const fixed = grade([{ t: 2000, event: { type: 'download', logic: pickAndPlaceDebouncedSheet() } as LoggedEvent['event'] }, ...cycle], seed);
+      expect(fixed.breakdown.rules.map((x) => [x.id, x.status])).toEqual([
+        ['no-motion-guard-open', 'pass'],
+        ['part-signal-steady', 'pass'],
+        ['part-signal-on', 'pass'],
+        ['part-signal-off', 'pass'],
+        ['cycle-with-part', 'pass'],
+      ]);
+      expect(fixed.grade).toBe(100);
+      const unfixed = grade(cycle, seed);
+      expect(unfixed.breakdown.rules.find((x) => x.id === 'part-signal-steady')!.status).toBe('fail');
+      // Guard 3 + on 2 + off 2 + cycle 3 + diagnosis 10 of 25 points = 80 %.
+      expect(unfixed.grade).toBe(80);
+    }
   });
 
   it('staged restart: without the restart no cycle completes, so the cycle rule fails', () => {

@@ -6,7 +6,9 @@
  *
  * Scenarios are invented; the behaviour they rely on is the engine's (docs/engine.md) and
  * common practice: NC stop circuits read "stop" on a broken wire; a sinking input needs a
- * sourcing (PNP) sensor; NE 43 treats a 4–20 mA loop below 3.6 mA as failed.
+ * sourcing (PNP) sensor; NE 43 treats a 4–20 mA loop below 3.6 mA as failed; a chattering
+ * input is debounced with timers (the chattering-sensor drill grades the fix through the
+ * student's `download` of the logic sheet — simulator/demo/part-debounce.ts is a model fix).
  */
 import { pickAndPlaceCell, type CellDocumentInput, type FaultCard } from '@/simulator';
 import type { DrillInput, WeightedRule } from '@/lib/schemas/drills';
@@ -200,14 +202,61 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Ghost parts at the pick station',
-      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope, name the fault and where it is, and propose the logic change (a debounce timer) you would make in your notes.\n\n${CAUTION}`,
+      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope and name the fault and where it is. Until maintenance can re-terminate the wire, debounce the part signal in the logic sheet (the robot's part-present output %QX0.5 and the start permission should only see a steady part) and download the sheet to the PLC. Take the part off the sensor before you download: a download restarts the PLC logic, and its outputs drop for a moment.\n\n${CAUTION}`,
       faults: [card({ id: 'f1', kind: 'chatter', row: 'w-part', periodMs: 30, probability: 0.35, label: 'Loose terminal on the part-sensor input' })],
-      objectives: ['Put the part sensor on the scope and compare it with the device.', 'Name the fault and the row.', 'In your diagnosis note, describe the debounce you would add (block and preset).'],
-      rules: [GUARD_RULE],
+      objectives: [
+        'Put the part sensor on the scope and compare it with the device.',
+        'Name the fault and the row.',
+        'Debounce the part signal in the logic sheet (timer blocks and presets of your choice) and download it.',
+        'Show the fix: put a part on the sensor, run one full cycle, then take the part off.',
+      ],
+      rules: [
+        GUARD_RULE,
+        {
+          weight: 5,
+          rule: {
+            id: 'part-signal-steady',
+            kind: 'never',
+            // The robot reads %QX0.5 as DI6 one I/O refresh later; so "DI6 still on, %QX0.5 off, part still there" is the
+            // moment the PLC withdraws the part from the robot while the part has not moved: a dropout of the signal.
+            label: 'The robot never sees the part signal drop while the part is still there',
+            p: {
+              all: [
+                { signal: 'dev.part.active', op: '==', value: 1 },
+                { signal: 'ctl.DI6', op: '==', value: 1 },
+                { signal: 'plc.%QX0.5', op: '==', value: 0 },
+              ],
+            },
+          },
+        },
+        {
+          weight: 2,
+          rule: {
+            id: 'part-signal-on',
+            kind: 'after',
+            label: 'Within 1 s of a part arriving, the robot gets the part signal',
+            event: { signal: 'dev.part.active', op: '==', value: 1 },
+            withinMs: 1000,
+            p: { signal: 'plc.%QX0.5', op: '==', value: 1 },
+          },
+        },
+        {
+          weight: 2,
+          rule: {
+            id: 'part-signal-off',
+            kind: 'after',
+            label: 'Within 1 s of the part leaving, the robot loses the part signal',
+            event: { signal: 'dev.part.active', op: '==', value: 0 },
+            withinMs: 1000,
+            p: { signal: 'plc.%QX0.5', op: '==', value: 0 },
+          },
+        },
+        { weight: 3, rule: { id: 'cycle-with-part', kind: 'eventually', withinMs: TEN_MIN, label: 'The cell completes a cycle (with a part on the sensor)', p: { signal: 'ctl.cycles', op: '>=', value: 1 } } },
+      ],
       answer: { kind: 'chatter', location: 'w-part|part' },
       diagnosisWeight: 10,
       timeLimitMs: TEN_MIN,
-      permissions: { forceAllowed: true, editable: [] },
+      permissions: { forceAllowed: true, editable: ['logic'] },
     },
   },
   {

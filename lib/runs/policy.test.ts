@@ -16,6 +16,21 @@ describe('eventProblems', () => {
     expect(Object.keys(eventProblems('drill', { forceAllowed: false, editable: [] }, log))).toEqual(['events.1.event.type', 'events.2.event.type', 'events.3.event.type']);
     expect(Object.keys(eventProblems('drill', { forceAllowed: true, editable: ['point-map'] }, log))).toEqual(['events.1.event.type']);
   });
+  it('lets a drill download only the areas it lists as editable, naming the event index', () => {
+    const sheet = { scanPeriodMs: 10, blocks: [], connections: [] };
+    const downloads = [
+      ev(1, { type: 'download', logic: sheet } as LoggedEvent['event']),
+      ev(2, { type: 'download', wiring: [] } as LoggedEvent['event']),
+      ev(3, { type: 'download', routine: { steps: [], poses: [] } } as LoggedEvent['event']),
+      ev(4, { type: 'download', logic: sheet, wiring: [] } as LoggedEvent['event']),
+    ];
+    expect(Object.keys(eventProblems('drill', { forceAllowed: true, editable: [] }, downloads))).toEqual(['events.0.event.type', 'events.1.event.type', 'events.2.event.type', 'events.3.event.type']);
+    const logicOnly = eventProblems('drill', { forceAllowed: true, editable: ['logic'] }, downloads);
+    expect(Object.keys(logicOnly)).toEqual(['events.1.event.type', 'events.2.event.type', 'events.3.event.type']);
+    expect(logicOnly['events.3.event.type'][0]).toContain('wiring');
+    expect(eventProblems('drill', { forceAllowed: false, editable: ['logic', 'wiring', 'routine'] }, downloads)).toEqual({});
+    expect(eventProblems('practice', null, downloads)).toEqual({});
+  });
   it('lets practice use every event', () => {
     expect(eventProblems('practice', null, log)).toEqual({});
   });

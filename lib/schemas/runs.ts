@@ -3,7 +3,12 @@ import { cellEventSchema } from '@/simulator';
 import { diagnosisKindSchema, locationSchema } from './drills';
 
 /** Limits of one batch: a client sends a batch every second or two, so these are generous. */
-export const BATCH_LIMITS = { events: 2000, keyChars: 100, maxMs: 30 * 86_400_000 } as const;
+/**
+ * `bodyBytes` bounds one request body: a batch may carry `download` events (a whole logic
+ * sheet, wiring or routine), so it is sized for a few full-size edits, not for the largest
+ * possible cell document; a larger body is refused with 413 before it is parsed.
+ */
+export const BATCH_LIMITS = { events: 2000, keyChars: 100, maxMs: 30 * 86_400_000, bodyBytes: 4 * 1024 * 1024 } as const;
 
 const ms = z.number().int().min(0).max(BATCH_LIMITS.maxMs);
 

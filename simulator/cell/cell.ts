@@ -40,7 +40,7 @@ import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/
 import { validateCellDocument, validateStagedRows, zodProblems } from '@/simulator/schema/validate';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
 import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
-import { evaluateCondition, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
+import { evaluateCondition, initialControllerContext, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
 import { moveTime } from '@/simulator/controller/motion';
 import {
   INPUT_FAMILIES,
@@ -55,7 +55,7 @@ import {
 import { chatterOpen, faultCardSchema, type FaultCard } from '@/simulator/faults/fault-card';
 import { compilePredicate, type SignalValue } from '@/simulator/trace/predicate';
 import { createTraceRecorder, type TraceRecorder, type Trace } from '@/simulator/trace/trace';
-import { cellEventSchema, type CellEvent, type LoggedEvent } from './events';
+import { cellEventSchema, type CellEvent, type DownloadEvent, type LoggedEvent } from './events';
 import type { CellSnapshot, DeviceSnapshot, WireSnapshot } from './snapshot';
 
 /** Options of {@link createCell}. */
@@ -166,6 +166,10 @@ function stuckWith(f: DevFaults): (closed: boolean) => boolean {
   return f.stuckOn ? alwaysClosed : f.stuckOff ? alwaysOpen : same;
 }
 
+function zero(): SignalValue {
+  return 0;
+}
+
 function nextMultiple(now: number, period: number): number {
   return (Math.floor(now / period) + 1) * period;
 }
@@ -208,19 +212,19 @@ export function createCell(document: unknown, options: CellOptions = {}): Result
 class CellRuntime {
   now = 0;
   disposed = false;
-  readonly doc: CellDocument;
-  readonly sheet: CompiledSheet;
-  readonly plans: RowPlan[];
+  doc: CellDocument;
+  sheet: CompiledSheet;
+  plans: RowPlan[];
   readonly seed: number;
   readonly devs = new Map<string, DevState>();
   /** Device state by device object (identity lookups on the hot path). */
   readonly devOf = new Map<object, DevState>();
   readonly image: ProcessImage = createProcessImage();
-  readonly plcState: PlcState;
-  readonly scanMs: number;
+  plcState: PlcState;
+  scanMs: number;
   readonly refreshMs: number;
   readonly busMs: number | null;
-  readonly actor: Actor<typeof controllerMachine>;
+  actor: Actor<typeof controllerMachine>;
   pointMap: PointMapState;
   resolved!: ResolvedPointMap;
   inPoints: ResolvedPoint[] = [];
@@ -242,18 +246,18 @@ class CellRuntime {
   pendingDt = 0;
   readonly ctlIn = new Map<string, Float64Array>();
   readonly ctlOut = new Map<string, Float64Array>();
-  readonly plcInRows: number[] = [];
-  readonly ctlInRows: number[] = [];
-  readonly loadRows: number[] = [];
+  plcInRows: number[] = [];
+  ctlInRows: number[] = [];
+  loadRows: number[] = [];
   /** Per row: a reader specialised to the objects it reads while the row is fault-free, else null. */
   fastRows: (RowReader | null)[] = [];
   /** Byte and bit mask in the I area of each PLC input row (`plcInRows` order; unused for word and analog rows). */
-  readonly plcInByte: number[] = [];
-  readonly plcInMask: number[] = [];
+  plcInByte: number[] = [];
+  plcInMask: number[] = [];
   /** Driven device of each load row (`loadRows` order). */
-  readonly loadDevs: DevState[] = [];
+  loadDevs: DevState[] = [];
   /** Devices an output can command: the only ones that can be travelling. */
-  readonly actuators: DevState[] = [];
+  actuators: DevState[] = [];
   /**
    * Whether what the wiring last delivered still holds, per consumer: the PLC's input bytes
    * (kept in `plcInCache`), the controller's input values (`lastInputs`) and the loads. Set
@@ -274,9 +278,9 @@ class CellRuntime {
   qFed: Uint8Array = new Uint8Array(0);
   /** Every controller input module's channel array, and the one each controller input row feeds. */
   readonly ctlInArrs: Float64Array[] = [];
-  readonly ctlRowArrs: Float64Array[] = [];
-  readonly rowIndex = new Map<string, number>();
-  readonly prevReading: InputReading[];
+  ctlRowArrs: Float64Array[] = [];
+  rowIndex = new Map<string, number>();
+  prevReading: InputReading[];
   /** Bytes of the I area that wiring or forces can set (cleared before each scan). */
   inputBytes = 0;
   rowFaults: (RowFaults | null)[] = [];
@@ -293,6 +297,8 @@ class CellRuntime {
   listeners = new Set<(s: CellSnapshot) => void>();
   recorder: TraceRecorder | null = null;
   readers = new Map<string, () => SignalValue>();
+  /** Counts downloads; readers re-resolve their signal when it changes (see {@link reader}). */
+  generation = 0;
 
   constructor(doc: CellDocument, sheet: CompiledSheet, plans: RowPlan[], seed: number) {
     this.doc = doc;
@@ -321,21 +327,56 @@ class CellRuntime {
       this.devs.set(d.id, st);
       this.devOf.set(d, st);
     }
+    for (const m of doc.plc.modules) {
+      if (m.kind === 'digital-out') continue;
+      const last = m.kind === 'analog-in' ? m.address + m.channels * 2 : m.address + Math.ceil(m.channels / 8);
+      this.inputBytes = Math.max(this.inputBytes, last);
+    }
+    this.ctlInArrs.push(...this.ctlIn.values());
+    this.prevReading = [];
+    this.busSrc = [];
+    this.planWiring(plans);
+    this.buildFastRows();
+    this.actor = createActor(controllerMachine, { input: { config: doc.controller } });
+  }
+
+  /**
+   * Resolves the wiring plan into the hot-path tables (row kinds, input bytes, loads, the Q
+   * bytes rows read). Called once at creation and again when a download replaces the wiring;
+   * an input keeps its last reading (transition band) when its row id survives.
+   */
+  planWiring(plans: RowPlan[]): void {
+    const prev = new Map<string, InputReading>();
+    const held = new Map<string, Src[]>();
+    this.plans.forEach((p, i) => {
+      prev.set(p.row.id, this.prevReading[i] ?? 'off');
+      if (this.busSrc[i]) held.set(p.row.id, this.busSrc[i]);
+    });
+    this.plans = plans;
+    this.rowIndex = new Map();
+    this.plcInRows = [];
+    this.ctlInRows = [];
+    this.loadRows = [];
+    this.plcInByte = [];
+    this.plcInMask = [];
+    this.loadDevs = [];
+    this.actuators = [];
+    this.ctlRowArrs = [];
+    this.qFedEnd = 0;
+    this.rowFaults = plans.map(() => null);
     plans.forEach((p, i) => {
       this.rowIndex.set(p.row.id, i);
       if (p.sink.kind === 'device') this.loadRows.push(i);
       else if (p.sink.kind === 'controller') this.ctlInRows.push(i);
       else this.plcInRows.push(i);
     });
-    this.prevReading = plans.map(() => 'off' as InputReading);
-    for (const m of doc.plc.modules) {
-      if (m.kind === 'digital-out') continue;
-      const last = m.kind === 'analog-in' ? m.address + m.channels * 2 : m.address + Math.ceil(m.channels / 8);
-      this.inputBytes = Math.max(this.inputBytes, last);
-    }
-    this.rowFaults = plans.map(() => null);
-    this.busSrc = plans.map((p) => Array.from({ length: p.bits }, () => OFF));
-    // Hot-path tables, resolved once: the wiring plan never changes during a run.
+    this.prevReading = plans.map((p) => prev.get(p.row.id) ?? 'off');
+    // A link row that survives a download keeps what the fieldbus last exchanged on it.
+    this.busSrc = plans.map((p) => {
+      const h = held.get(p.row.id);
+      return h && h.length === p.bits ? h : Array.from({ length: p.bits }, () => OFF);
+    });
+    // Hot-path tables, resolved once per wiring plan (at creation and on a download).
     for (const i of this.plcInRows) {
       const sink = plans[i].sink;
       const bit = sink.kind === 'plc-bit' ? (sink.address.bit ?? 0) : 0;
@@ -350,7 +391,6 @@ class CellRuntime {
       this.loadDevs.push(d);
       if (!LIGHTS.includes(d.dev.type) && !this.actuators.includes(d)) this.actuators.push(d);
     }
-    this.ctlInArrs.push(...this.ctlIn.values());
     for (const i of this.ctlInRows) {
       const sink = plans[i].sink;
       this.ctlRowArrs.push(sink.kind === 'controller' ? this.arrOf.get(sink.module)! : new Float64Array(0));
@@ -364,8 +404,6 @@ class CellRuntime {
     }
     this.qFedEnd = Math.min(this.qFedEnd, this.image.Q.length);
     this.qFed = new Uint8Array(this.qFedEnd);
-    this.buildFastRows();
-    this.actor = createActor(controllerMachine, { input: { config: doc.controller } });
   }
 
   /** Records the Q bytes a reading is being taken from (see `qFed`). */
@@ -1195,7 +1233,26 @@ class CellRuntime {
     return { ok: true, value: { timeMs: this.now } };
   }
 
+  /**
+   * Whether a card's rows exist in the current wiring (and a swap's rows are still alike). A
+   * download can remove a row; its card then stays armed and inactive until a later download
+   * brings the row back (see docs/engine.md).
+   */
+  attached(card: FaultCard): boolean {
+    if (card.kind === 'open-wire' || card.kind === 'short-24v' || card.kind === 'short-0v' || card.kind === 'chatter') return this.rowIndex.has(card.row);
+    if (card.kind === 'swapped-wires') {
+      const i = this.rowIndex.get(card.rows[0]);
+      const j = this.rowIndex.get(card.rows[1]);
+      if (i === undefined || j === undefined) return false;
+      const a = this.plans[i];
+      const b = this.plans[j];
+      return a.bits === b.bits && a.sink.kind === b.sink.kind && a.isLink === b.isLink;
+    }
+    return true;
+  }
+
   activate(c: CardState): void {
+    if (!this.attached(c.card)) return;
     for (const d of this.devs.values()) this.rebase(d);
     c.status = 'active';
     c.since = this.now;
@@ -1455,7 +1512,122 @@ class CellRuntime {
         return this.addFault(e.fault);
       case 'clear-fault':
         return this.clearFault(e.id);
+      case 'download':
+        return this.download(e);
     }
+  }
+
+  /**
+   * Swaps downloaded parts of the document into the running cell at the current time. The
+   * merged document is validated first; a rejected download changes nothing. The clock, the
+   * devices, forces, the live/staged point map and the fault cards carry on. See
+   * docs/engine.md ("Downloading edits") for the full semantics.
+   */
+  download(e: DownloadEvent): Result<{ timeMs: number }> {
+    if (e.logic === undefined && e.wiring === undefined && e.routine === undefined) {
+      return err('empty_download', 'a download carries a logic sheet, wiring rows or a routine', []);
+    }
+    const merged: CellDocument = {
+      ...this.doc,
+      plc: { ...this.doc.plc, sheet: e.logic ?? this.doc.plc.sheet },
+      wiring: e.wiring ?? this.doc.wiring,
+      controller: { ...this.doc.controller, routine: e.routine?.steps ?? this.doc.controller.routine, poses: e.routine?.poses ?? this.doc.controller.poses },
+    };
+    const v = validateCellDocument(merged);
+    if (!v.ok) return v;
+    const next = v.value;
+    const routineChanged =
+      e.routine !== undefined &&
+      JSON.stringify([next.document.controller.routine, next.document.controller.poses]) !== JSON.stringify([this.doc.controller.routine, this.doc.controller.poses]);
+    // Devices and modules are not downloadable: keep the running objects (the hot path finds
+    // device state and controller channels by object identity) and take only the new parts.
+    this.doc = {
+      ...this.doc,
+      plc: { ...this.doc.plc, sheet: next.document.plc.sheet },
+      wiring: next.document.wiring,
+      controller: { ...this.doc.controller, routine: next.document.controller.routine, poses: next.document.controller.poses },
+    };
+    this.syncController();
+    for (const d of this.devs.values()) this.rebase(d);
+    if (e.wiring !== undefined) {
+      this.planWiring(next.plans.map((p) => this.adoptPlan(p)));
+      for (const c of this.cards) {
+        if (c.status === 'active' && !this.attached(c.card)) {
+          c.status = 'armed';
+          c.since = null;
+        }
+      }
+    }
+    if (e.logic !== undefined) {
+      // Stop → run: the new sheet starts from a fresh state (first scan, timers and counters
+      // at zero). Outputs and memory are cleared at once, as a PLC in stop drives its outputs
+      // off; the new sheet's first scan, at the next multiple of its scan period, writes them.
+      this.sheet = next.sheet;
+      this.plcState = next.sheet.createState();
+      this.scanMs = next.sheet.scanPeriodMs;
+      this.image.Q.fill(0);
+      this.image.M.fill(0);
+      this.applyPlcForces('Q');
+      this.applyPlcForces('M');
+    }
+    if (routineChanged) this.reloadRoutine();
+    this.generation++;
+    this.readers.clear();
+    // Cards whose rows came back with the new wiring fire again by their own rules.
+    for (const c of this.cards) {
+      if (c.status === 'armed' && !c.when && (c.card.at === undefined || c.card.at <= this.now)) this.activate(c);
+    }
+    this.rebuildFaults();
+    this.lastInputs = [];
+    this.writeControllerOutputs();
+    this.updateLoads();
+    return { ok: true, value: { timeMs: this.now } };
+  }
+
+  /** A row plan from a validated download, pointing at the running devices and modules. */
+  adoptPlan(p: RowPlan): RowPlan {
+    const end = <T extends RowSource | RowSink>(x: T): T => {
+      if (x.kind === 'device') return { ...x, device: this.devs.get(x.device.id)!.dev };
+      if (x.kind === 'controller') return { ...x, module: this.doc.controller.modules.find((m) => m.rack === x.rack && m.slot === x.slot)! };
+      return { ...x, module: this.doc.plc.modules.find((m) => m.id === x.module.id)! };
+    };
+    return { ...p, source: end(p.source), sink: end(p.sink) };
+  }
+
+  /**
+   * A changed routine restarts: the controller keeps its power, clock, pose, alarms and cycle
+   * count, drops what the old routine drove (outputs, pulses, word encodings), halts any move
+   * where the arm is, and goes to `stopped` with the routine at step 0 (off, booting, faulted
+   * and e-stopped stay where they are). From `stopped` the usual rules apply; a new start edge
+   * is needed to cycle.
+   */
+  reloadRoutine(): void {
+    const config = this.doc.controller;
+    const persisted = this.actor.getPersistedSnapshot() as unknown as { value: unknown; context: ControllerContext } & Record<string, unknown>;
+    const old = persisted.context;
+    const fresh = initialControllerContext(config);
+    const context: ControllerContext = {
+      ...old,
+      config,
+      poses: fresh.poses,
+      labels: fresh.labels,
+      outputs: {},
+      wordEncodings: {},
+      pulses: [],
+      pc: 0,
+      stepElapsedMs: 0,
+      motion: null,
+      speed: 0,
+      cycleComplete: false,
+      holdReason: null,
+    };
+    const v = persisted.value;
+    const keep = v === 'off' || v === 'booting' || v === 'faulted';
+    const value = keep ? v : typeof v === 'object' && v !== null && 'eStopped' in v ? { eStopped: 'halted' } : 'stopped';
+    if (!keep && value !== 'stopped') context.servoOn = false;
+    this.actor.stop();
+    this.actor = createActor(controllerMachine, { snapshot: { ...persisted, value, context } as never, input: { config } });
+    this.actor.start();
   }
 
   forceTarget(target: string): Result<string> {
@@ -1481,8 +1653,21 @@ class CellRuntime {
   reader(name: string): (() => SignalValue) | null {
     const hit = this.readers.get(name);
     if (hit) return hit;
-    const r = this.makeReader(name);
-    if (r) this.readers.set(name, r);
+    const first = this.makeReader(name);
+    if (!first) return null;
+    let inner: () => SignalValue = first;
+    // A download can replace the sheet, the wiring or the routine, so a reader re-resolves its
+    // name once per download: the trace recorder and fault triggers hold readers for the whole
+    // run. A name the new parts no longer have reads 0 (a trace's signal list never changes).
+    let gen = this.generation;
+    const r = () => {
+      if (gen !== this.generation) {
+        gen = this.generation;
+        inner = this.makeReader(name) ?? zero;
+      }
+      return inner();
+    };
+    this.readers.set(name, r);
     return r;
   }
 

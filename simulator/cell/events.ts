@@ -5,8 +5,9 @@
  */
 import { z } from 'zod';
 import { faultCardSchema } from '@/simulator/faults/fault-card';
-import { pointMapRowSchema } from '@/simulator/schema/cell-document';
+import { pointMapRowSchema, poseSchema, routineStepSchema, wiringRowSchema } from '@/simulator/schema/cell-document';
 import { CELL_LIMITS } from '@/simulator/schema/limits';
+import { logicSheetSchema } from '@/simulator/plc/sheet-schema';
 
 const id = z.string().min(1).max(CELL_LIMITS.idLength);
 
@@ -46,7 +47,24 @@ export const cellEventSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('inject-fault'), fault: faultCardSchema }),
   /** Remove a fault card, active or armed. */
   z.object({ type: z.literal('clear-fault'), id }),
+  /**
+   * Download edited parts of the document into the running cell (like downloading a program
+   * to a PLC): a new logic sheet (the PLC goes through stop → run), new terminal-strip rows,
+   * and/or a new routine with its poses (the controller stops with the routine at step 0 when
+   * it differs). At least one part; the merged document must validate. See docs/engine.md.
+   */
+  z.object({
+    type: z.literal('download'),
+    logic: logicSheetSchema.optional(),
+    wiring: z.array(wiringRowSchema).max(CELL_LIMITS.wiringRows).optional(),
+    routine: z
+      .object({ steps: z.array(routineStepSchema).max(CELL_LIMITS.routineSteps), poses: z.array(poseSchema).max(CELL_LIMITS.poses) })
+      .optional(),
+  }),
 ]);
+
+/** The `download` event: the parts of a cell document a student may change during a run. */
+export type DownloadEvent = Extract<z.infer<typeof cellEventSchema>, { type: 'download' }>;
 
 /** An event a cell accepts. */
 export type CellEvent = z.infer<typeof cellEventSchema>;

@@ -142,3 +142,74 @@ describe('controller machine', () => {
     expect(r.state()).toBe('off');
   });
 });
+
+describe('controller machine: servo power on entering a stopping state', () => {
+  // The cell sends no TICK while an idle controller's inputs stay the same (it holds the
+  // refresh back), so whatever a state does about servo power at rest must happen on entry.
+  // Servo power off once at rest in stopped/faulted/e-stopped: IEC 60204-1 §9.2.2 (stop
+  // categories 0 and 1 end with power removed once the machine has stopped).
+  const withStop: ControllerConfig = { ...config, handshake: { ...config.handshake, inputs: { ...config.handshake.inputs, stop: 'DI6' } } };
+
+  function readyRig(cfg: ControllerConfig) {
+    const actor = createActor(controllerMachine, { input: { config: cfg } }).start();
+    const inputs: Record<string, number> = { DI1: 0, DI2: 0, DI3: 1, DI4: 1, DI5: 0, DI6: 0 };
+    const refresh = (hardware: string[] = []) => actor.send({ type: 'TICK', dt: 10, inputs: { ...inputs }, hardware });
+    const state = () => {
+      const v = actor.getSnapshot().value;
+      return typeof v === 'string' ? v : Object.keys(v)[0];
+    };
+    actor.send({ type: 'POWER_ON' });
+    for (let t = 0; t < 100; t += 10) refresh();
+    return { actor, inputs, refresh, state, ctx: () => actor.getSnapshot().context };
+  }
+
+  it('a stop request at rest drops servo power in the refresh that enters stopped', () => {
+    const r = readyRig(withStop);
+    expect(r.state()).toBe('ready');
+    expect(r.ctx().servoOn).toBe(true);
+    r.inputs.DI6 = 1;
+    r.refresh();
+    expect(r.state()).toBe('stopped');
+    // No further TICK: only time passes (what the cell sends for a held-back idle refresh).
+    r.actor.send({ type: 'SYNC', dt: 500 });
+    expect(r.ctx().servoOn).toBe(false);
+    // Releasing the stop makes the controller ready again, with servo power back on.
+    r.inputs.DI6 = 0;
+    r.refresh();
+    expect(r.state()).toBe('ready');
+    expect(r.ctx().servoOn).toBe(true);
+  });
+
+  it('a fault at rest drops servo power in the refresh that enters faulted', () => {
+    const r = readyRig(withStop);
+    r.refresh(['module R0.S1 lost']);
+    expect(r.state()).toBe('faulted');
+    expect(r.ctx().servoOn).toBe(false);
+  });
+
+  it('a fault mid-move keeps servo power while braking and drops it once at rest', () => {
+    const r = readyRig(withStop);
+    r.inputs.DI1 = 1;
+    r.refresh(); // start edge → cycling
+    for (let t = 0; t < 1000; t += 10) r.refresh();
+    expect(r.ctx().speed).toBeCloseTo(0.5, 9); // pose 'far': cruising at 0.5 m/s after 0.5 s at 1 m/s²
+    r.refresh(['module R0.S1 lost']);
+    expect(r.state()).toBe('faulted');
+    expect(r.ctx().motion).not.toBeNull();
+    expect(r.ctx().servoOn).toBe(true);
+    // Braking from 0.5 m/s at 1 m/s² takes v/a = 0.5 s (constant deceleration, common practice).
+    for (let t = 0; t < 600; t += 10) r.refresh(['module R0.S1 lost']);
+    expect(r.ctx().motion).toBeNull();
+    expect(r.ctx().servoOn).toBe(false);
+  });
+
+  it('an e-stop at rest drops servo power at once, whatever the stop category', () => {
+    for (const stopCategory of [0, 1] as const) {
+      const r = readyRig({ ...withStop, stopCategory });
+      r.inputs.DI3 = 0;
+      r.refresh();
+      expect(r.state()).toBe('eStopped');
+      expect(r.ctx().servoOn).toBe(false);
+    }
+  });
+});

@@ -11,6 +11,8 @@
  *   and leads to stopped, never to motion (ISO 13850 §4.1.3: reset must not restart).
  * - Guard opened or stop requested while cycling → holding: the arm brakes to rest and the
  *   routine's clocks freeze; a start edge with the guard closed resumes.
+ * - Servo power is off in stopped, faulted and eStopped once the arm is at rest: on entry when
+ *   it already is, else in the refresh where the brake runs out. Ready and cycling turn it on.
  */
 import { assign, setup } from 'xstate';
 import type { ControllerConfig } from '@/simulator/schema/cell-document';
@@ -155,7 +157,10 @@ export const controllerMachine = setup({
       always: [{ guard: 'bootDone', target: 'stopped' }],
     },
     stopped: {
-      entry: ['consumeEdges', 'clearHold'],
+      // At rest, power goes on entry: an idle controller whose inputs do not change gets no
+      // further TICK (the cell holds such refreshes back), so tickStill alone could leave the
+      // servo on indefinitely. Still moving (a brake under way), tickStill removes it at rest.
+      entry: ['consumeEdges', 'clearHold', 'servoOffWhenStill'],
       on: { TICK: { actions: 'tickStill' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
@@ -194,7 +199,8 @@ export const controllerMachine = setup({
       ],
     },
     faulted: {
-      entry: ['consumeEdges', 'brake', 'clearHold'],
+      // As in stopped: power off at once when already at rest, otherwise once the brake runs out.
+      entry: ['consumeEdges', 'brake', 'clearHold', 'servoOffWhenStill'],
       on: { TICK: { actions: 'tickStill' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },

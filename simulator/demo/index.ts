@@ -6,6 +6,7 @@ import { pickAndPlaceCell, type CellDocumentInput } from './pick-and-place';
 import { starterCell } from './starter';
 
 export { pickAndPlaceCell, starterCell };
+export { pickAndPlaceDebouncedSheet, PART_DEBOUNCE_MS } from './part-debounce';
 /** A cell document as written (before defaults are applied). */
 export type { CellDocumentInput };
 

@@ -9,6 +9,7 @@
  */
 import type { z } from 'zod';
 import type { Problem, Result } from '@/simulator/shared/result';
+import { issuesToProblems } from '@/simulator/shared/zod-problems';
 import { blockCatalogue, blockPorts, portTypesCompatible, type PortSpec } from './catalogue';
 import { logicSheetSchema, type LogicSheet } from './sheet-schema';
 
@@ -25,20 +26,12 @@ export type AnalysedSheet = {
   order: number[];
 };
 
-/** Turns zod issues into Problems with stable codes. */
+/** Turns zod issues into Problems with stable codes (the sheet's names for unions and sizes). */
 export function zodIssuesToProblems(issues: readonly z.core.$ZodIssue[], prefix: (string | number)[] = []): Problem[] {
-  return issues.map((issue) => {
-    const path = [...prefix, ...issue.path.map((p) => (typeof p === 'number' ? p : String(p)))];
-    let code: string = issue.code;
-    if (issue.code === 'custom') {
-      const c = (issue.params as { code?: unknown } | undefined)?.code;
-      code = typeof c === 'string' ? c : 'invalid_value';
-    } else if (issue.code === 'invalid_union' && 'discriminator' in issue) {
-      code = 'unknown_block_type';
-    } else if (issue.code === 'too_big' && issue.path.length === 1 && (issue.path[0] === 'blocks' || issue.path[0] === 'connections')) {
-      code = 'too_large';
-    }
-    return { path, code, message: issue.message };
+  return issuesToProblems(issues, prefix, (issue) => {
+    if (issue.code === 'invalid_union' && 'discriminator' in issue) return 'unknown_block_type';
+    if (issue.code === 'too_big' && issue.path.length === 1 && (issue.path[0] === 'blocks' || issue.path[0] === 'connections')) return 'too_large';
+    return undefined;
   });
 }
 

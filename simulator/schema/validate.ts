@@ -5,6 +5,7 @@
  */
 import type { z } from 'zod';
 import type { Problem, Result } from '@/simulator/shared/result';
+import { issuesToProblems } from '@/simulator/shared/zod-problems';
 import { compileSheet, type CompiledSheet } from '@/simulator/plc';
 import { cellDocumentSchema, type CellDocument, type ControllerConfig, type PointMapRow } from './cell-document';
 import { CELL_LIMITS } from './limits';
@@ -15,22 +16,13 @@ import { INPUT_FAMILIES, parsePointRef, validatePointMap, type PointUse } from '
 /** A document that passed validation, with its compiled sheet and wiring plans. */
 export type ValidatedCell = { document: CellDocument; sheet: CompiledSheet; plans: RowPlan[] };
 
-/** Maps zod issues to problems with stable codes. */
+/** Maps zod issues to problems with stable codes (the document's names for unions, sizes, negatives). */
 export function zodProblems(issues: readonly z.core.$ZodIssue[], prefix: (string | number)[] = []): Problem[] {
-  return issues.map((issue) => {
-    const path = [...prefix, ...issue.path.map((p) => (typeof p === 'number' ? p : String(p)))];
-    let code: string = issue.code;
-    if (issue.code === 'custom') {
-      const c = (issue.params as { code?: unknown } | undefined)?.code;
-      code = typeof c === 'string' ? c : 'invalid_value';
-    } else if (issue.code === 'invalid_union' && 'discriminator' in issue) {
-      code = path.includes('blocks') ? 'unknown_block_type' : 'unknown_type';
-    } else if (issue.code === 'too_big' && (issue.origin === 'array' || issue.origin === 'string')) {
-      code = 'too_large';
-    } else if (issue.code === 'too_small' && issue.origin === 'number' && Number(issue.minimum) === 0) {
-      code = 'negative_value';
-    }
-    return { path, code, message: issue.message };
+  return issuesToProblems(issues, prefix, (issue, path) => {
+    if (issue.code === 'invalid_union' && 'discriminator' in issue) return path.includes('blocks') ? 'unknown_block_type' : 'unknown_type';
+    if (issue.code === 'too_big' && (issue.origin === 'array' || issue.origin === 'string')) return 'too_large';
+    if (issue.code === 'too_small' && issue.origin === 'number' && Number(issue.minimum) === 0) return 'negative_value';
+    return undefined;
   });
 }
 

@@ -5,6 +5,7 @@ import { hashTrace, type Trace } from './trace';
 import { checkRules, type Rule } from './rules';
 import { replay } from './replay';
 import { pickAndPlaceCell } from '@/simulator/demo/pick-and-place';
+import { pickAndPlaceDebouncedSheet } from '@/simulator/demo/part-debounce';
 import type { LoggedEvent } from '@/simulator/cell/events';
 import { createCell } from '@/simulator/cell/cell';
 
@@ -94,6 +95,12 @@ describe('replay', () => {
       fc.boolean().map((active) => ({ type: 'set-field', device: 'guard', active })),
       fc.boolean().map((active) => ({ type: 'set-field', device: 'part', active })),
       fc.constant({ type: 'inject-fault', fault: { id: 'ch', kind: 'chatter', row: 'w-part', periodMs: 15, probability: 0.3 } }),
+      // Downloads: the debounced sheet, the original sheet back, wiring without and with the part row, a changed routine.
+      fc.constant({ type: 'download', logic: pickAndPlaceDebouncedSheet() }),
+      fc.constant({ type: 'download', logic: pickAndPlaceCell.plc.sheet }),
+      fc.constant({ type: 'download', wiring: pickAndPlaceCell.wiring.filter((w) => w.id !== 'w-part') }),
+      fc.constant({ type: 'download', wiring: pickAndPlaceCell.wiring }),
+      fc.constant({ type: 'download', routine: { steps: [...pickAndPlaceCell.controller.routine, { kind: 'pause', ms: 20 }], poses: pickAndPlaceCell.controller.poses } }),
     );
     fc.assert(
       fc.property(
@@ -105,7 +112,14 @@ describe('replay', () => {
           const events: LoggedEvent[] = steps
             .map(([dt, e]) => ({ t: (time += dt), event: e as LoggedEvent['event'] }))
             // A second card with the same id would be rejected; keep only the first.
-            .filter((e, i, all) => e.event.type !== 'inject-fault' || all.findIndex((x) => x.event.type === 'inject-fault') === i);
+            .filter((e, i, all) => e.event.type !== 'inject-fault' || all.findIndex((x) => x.event.type === 'inject-fault') === i)
+            // A card needs its row: drop an inject-fault while a download has the part row removed.
+            .filter((e, i, all) => {
+              if (e.event.type !== 'inject-fault') return true;
+              const wiring = all.slice(0, i).filter((x) => x.event.type === 'download' && x.event.wiring);
+              const last = wiring[wiring.length - 1]?.event;
+              return !last || (last.type === 'download' && (last.wiring ?? []).some((w) => w.id === 'w-part'));
+            });
           const until = time + 3000;
           const a = replay(pickAndPlaceCell, events, { trace: SIGNALS, seed, untilMs: until });
           if (!a.ok) throw new Error(JSON.stringify(a.errors));

@@ -29,6 +29,7 @@ import { pickAndPlaceCell } from '@/simulator';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { gradeRun } from '@/lib/runs/grade';
 import { DRILL_LIBRARY } from '@/lib/drills/library';
+import { median, reachableBase } from './bench-support';
 
 type Figures = Record<string, number>;
 
@@ -60,11 +61,6 @@ export function operatorLog(durationMs = TEN_MIN): LoggedEvent[] {
   return log;
 }
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
 /** regrade_10min_ms (see the file comment). */
 export function regradeBench(): Figures {
   const lib = DRILL_LIBRARY.find((d) => d.key === 'chattering-part-sensor')!;
@@ -87,18 +83,6 @@ export function regradeBench(): Figures {
   once();
   const times = [0, 1, 2, 3, 4].map(once);
   return { regrade_10min_ms: Math.round(median(times) * 10) / 10, regrade_10min_events: events.length };
-}
-
-async function reachableBase(): Promise<{ ok: true; base: string } | { ok: false; reason: string }> {
-  const base = process.env.BENCH_BASE_URL?.replace(/\/$/, '');
-  if (!base) return { ok: false, reason: 'BENCH_BASE_URL is not set (e.g. http://127.0.0.1:3000 after `bash scripts/start.sh`)' };
-  try {
-    const r = await fetch(`${base}/api/health`, { signal: AbortSignal.timeout(5000) });
-    if (!r.ok) return { ok: false, reason: `${base}/api/health answered ${r.status}` };
-  } catch (e) {
-    return { ok: false, reason: `${base} is not reachable (${(e as Error).message})` };
-  }
-  return { ok: true, base };
 }
 
 function cookiesOf(res: Response): string[] {

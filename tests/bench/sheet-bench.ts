@@ -15,6 +15,7 @@
  */
 import { createProcessImage, type ProcessImage } from '@/simulator/address/process-image';
 import { compileSheet, type LogicSheetInput } from '@/simulator/plc';
+import { median } from './bench-support';
 
 const RUNG_BLOCKS = 10;
 const SCAN_MS = 10;
@@ -143,11 +144,6 @@ function frames(rungs: number): Uint8Array[] {
     out.push(fr);
   }
   return out;
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[s.length >> 1];
 }
 
 function timeScans(scan: () => void, count: number): number {

@@ -18,41 +18,19 @@
  */
 import { gzipSync } from 'node:zlib';
 import { chromium, type Browser, type BrowserContext, type Page } from '@playwright/test';
+import { CHROMIUM_LAUNCH_OPTIONS } from '../chromium';
+import { reachableBase } from './bench-support';
 import { generateSheet } from './sheet-bench';
 
 type Figures = Record<string, number>;
-
-const CHROMIUM_ARGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 const DEMO_EMAIL = process.env.BENCH_EMAIL ?? 'trainer@kestrelvale.test';
 const DEMO_PASSWORD = process.env.BENCH_PASSWORD ?? 'trainer-demo-2026';
 const DEMO_CELL = /pick and place/i;
 const FPS_WINDOW_MS = 4000;
 
-/** The app to measure, or a reason to skip. */
-async function reachableBase(): Promise<{ ok: true; base: string } | { ok: false; reason: string }> {
-  const base = process.env.BENCH_BASE_URL?.replace(/\/$/, '');
-  if (!base) return { ok: false, reason: 'BENCH_BASE_URL is not set (e.g. http://127.0.0.1:3000 after `bash scripts/start.sh`)' };
-  try {
-    const r = await fetch(`${base}/api/health`, { signal: AbortSignal.timeout(5000) });
-    if (!r.ok) return { ok: false, reason: `${base}/api/health answered ${r.status}` };
-  } catch (e) {
-    return { ok: false, reason: `${base} is not reachable (${(e as Error).message})` };
-  }
-  return { ok: true, base };
-}
-
 async function signedIn(base: string): Promise<{ browser: Browser; context: BrowserContext; page: Page }> {
-  const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
+  const browser = await chromium.launch(CHROMIUM_LAUNCH_OPTIONS);
   const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
   const page = await context.newPage();
   await page.goto(`${base}/sign-in`);

@@ -18,29 +18,10 @@ import * as copy from '@/app/api/cells/[id]/copy/route';
 import * as exportJson from '@/app/api/cells/[id]/export/route';
 import * as csv from '@/app/api/cells/[id]/csv/[kind]/route';
 import { createCell, shareCell } from '@/db/cells';
-import type { User } from '@/db/users';
 import { cellDocumentSchema } from '@/simulator';
 import { csvTemplate } from '@/lib/cells/csv';
 import { templateDocument } from '@/lib/cells/templates';
-
-type Actor = 'anonymous' | 'student' | 'trainer' | 'lead' | 'admin' | 'otherTrainer';
-interface World {
-  users: Record<Exclude<Actor, 'anonymous'>, User>;
-  cohortId: string;
-  otherCohortId: string;
-}
-interface Prepared {
-  path: string;
-  params?: Record<string, string>;
-  body?: unknown;
-}
-interface RouteCase {
-  name: string;
-  handler: unknown;
-  method: string;
-  prepare: (w: World, actor: Actor) => Promise<Prepared>;
-  expect: Record<Actor, number>;
-}
+import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const ANY_CELL_ROLE = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: ok, lead: ok, admin: 403, otherTrainer: ok });
 const OWNER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 404, trainer: ok, lead: 404, admin: 403, otherTrainer: 404 });
@@ -52,8 +33,6 @@ async function trainerCell(w: World): Promise<string> {
   const made = await createCell({ ownerId: w.users.trainer.id, name: 'Matrix cell', origin: 'template', document, message: 'matrix' });
   return made.id;
 }
-
-const at = (id: string, extra: Record<string, string> = {}) => ({ id, ...extra });
 
 export const CELL_ROUTES: RouteCase[] = [
   { name: 'GET /api/cells', handler: cells.GET, method: 'GET', prepare: async () => ({ path: '/api/cells' }), expect: ANY_CELL_ROLE(200) },

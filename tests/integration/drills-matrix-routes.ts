@@ -28,30 +28,11 @@ import { createCell } from '@/db/cells';
 import { createAssignment, createDrill } from '@/db/drills';
 import { insertAsset } from '@/db/drill-assets';
 import { startAssignmentRun } from '@/db/runs';
-import type { User } from '@/db/users';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { submit } from '@/lib/runs/service';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { drillBody } from './drills-fixtures';
-
-type Actor = 'anonymous' | 'student' | 'trainer' | 'lead' | 'admin' | 'otherTrainer';
-interface World {
-  users: Record<Exclude<Actor, 'anonymous'>, User>;
-  cohortId: string;
-  otherCohortId: string;
-}
-interface Prepared {
-  path: string;
-  params?: Record<string, string>;
-  body?: unknown;
-}
-interface RouteCase {
-  name: string;
-  handler: unknown;
-  method: string;
-  prepare: (w: World, actor: Actor) => Promise<Prepared>;
-  expect: Record<Actor, number>;
-}
+import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 /** Trainer-only routes on a drill of the demo trainer: other trainers 404, other roles 403. */
 const AUTHOR = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 403, admin: ok, otherTrainer: 404 });
@@ -99,7 +80,6 @@ async function uploadHandler(req: Request, ctx: { params: Promise<{ id: string }
   return assets.POST(new Request(req.url, { method: 'POST', headers, body: form }), ctx);
 }
 
-const at = (id: string, extra: Record<string, string> = {}) => ({ id, ...extra });
 const window = () => ({ opensAt: new Date(Date.now() - 60_000).toISOString(), closesAt: new Date(Date.now() + 86_400_000).toISOString() });
 
 export const DRILL_ROUTES: RouteCase[] = [

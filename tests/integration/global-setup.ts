@@ -1,9 +1,7 @@
 import { execFileSync, spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
 import { connect } from 'node:net';
-import knexFactory from 'knex';
-import { knexConfig } from '../../db/config';
-import { seedDemo } from '../../db/seeds/demo';
+import { resetTestDatabase } from '../../db/reset-test-database';
 import { TEST_ENV, applyTestEnv } from './test-env';
 
 function portOpen(port: number): Promise<boolean> {
@@ -27,17 +25,7 @@ let catcher: ChildProcess | undefined;
 export async function setup(): Promise<void> {
   applyTestEnv();
   execFileSync('bash', ['db/cluster.sh', 'start'], { stdio: 'ignore' });
-  const url = TEST_ENV.DATABASE_URL;
-  if (!new URL(url).pathname.endsWith('_test')) throw new Error('integration tests only run against a *_test database');
-  const knex = knexFactory(knexConfig(url));
-  try {
-    await knex.raw('drop schema public cascade');
-    await knex.raw('create schema public');
-    await knex.migrate.latest();
-    await seedDemo(knex);
-  } finally {
-    await knex.destroy();
-  }
+  await resetTestDatabase(TEST_ENV.DATABASE_URL);
 
   const port = Number(TEST_ENV.SMTP_PORT);
   if (await portOpen(port)) throw new Error(`port ${port} is taken; the integration catcher needs it`);

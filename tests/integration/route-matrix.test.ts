@@ -25,7 +25,6 @@ import * as adminUser from '@/app/api/admin/users/[id]/route';
 import * as adminMail from '@/app/api/admin/mail/route';
 import * as adminMailOne from '@/app/api/admin/mail/[id]/route';
 import { closeDb, db } from '@/db/knex';
-import type { User } from '@/db/users';
 import { findCohort } from '@/db/cohorts';
 import { createInvitation } from '@/db/invitations';
 import { createPasswordReset } from '@/db/password-resets';
@@ -33,29 +32,7 @@ import { insertMail } from '@/db/mail';
 import { call, demoCohortId, demoUser, makeUser, otherTrainerWithCohort, sessionCookie, uniqueEmail } from './helpers';
 import { CELL_ROUTES } from './cells-matrix-routes';
 import { DRILL_ROUTES } from './drills-matrix-routes';
-
-const ACTORS = ['anonymous', 'student', 'trainer', 'lead', 'admin', 'otherTrainer'] as const;
-type Actor = (typeof ACTORS)[number];
-
-interface World {
-  users: Record<Exclude<Actor, 'anonymous'>, User>;
-  cohortId: string; // owned by the demo trainer
-  otherCohortId: string; // owned by otherTrainer
-}
-
-interface Prepared {
-  path: string;
-  params?: Record<string, string>;
-  body?: unknown;
-}
-
-interface RouteCase {
-  name: string;
-  handler: unknown;
-  method: string;
-  prepare: (w: World, actor: Actor) => Promise<Prepared>;
-  expect: Record<Actor, number>;
-}
+import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const PUBLIC = (status: number): Record<Actor, number> => ({
   anonymous: status,

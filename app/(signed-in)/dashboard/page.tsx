@@ -13,6 +13,7 @@ import { recentAudit } from '@/db/audit';
 import type { AuditEntry } from '@/db/audit';
 import { countMail } from '@/db/mail';
 import { MyDrillsTable } from '@/components/drills/my-drills';
+import { ListTable } from '@/components/ui/list-table';
 
 export const metadata: Metadata = { title: 'Dashboard · Cellwright' };
 
@@ -72,34 +73,33 @@ function AccountCard({ user }: { user: User }) {
 
 function CohortTable({ cohorts, showTrainer, linkTo }: { cohorts: CohortSummary[]; showTrainer: boolean; linkTo: boolean }) {
   return (
-    <table className="w-full text-left text-sm">
-      <thead className="text-xs uppercase tracking-wide text-slate-500">
-        <tr>
+    <ListTable
+      head={
+        <>
           <th className="py-2">Cohort</th>
           {showTrainer ? <th>Trainer</th> : null}
           <th className="text-right">Members</th>
           <th className="text-right">Open invitations</th>
+        </>
+      }
+    >
+      {cohorts.map((c) => (
+        <tr key={c.id}>
+          <td className="py-2">
+            {linkTo ? (
+              <Link href={`/cohorts/${c.id}`} className="font-medium text-accent-700 hover:underline">
+                {c.name}
+              </Link>
+            ) : (
+              <span className="font-medium">{c.name}</span>
+            )}
+          </td>
+          {showTrainer ? <td>{c.trainerName}</td> : null}
+          <td className="text-right font-mono">{c.memberCount}</td>
+          <td className="text-right font-mono">{c.pendingCount}</td>
         </tr>
-      </thead>
-      <tbody className="divide-y divide-slate-100">
-        {cohorts.map((c) => (
-          <tr key={c.id}>
-            <td className="py-2">
-              {linkTo ? (
-                <Link href={`/cohorts/${c.id}`} className="font-medium text-accent-700 hover:underline">
-                  {c.name}
-                </Link>
-              ) : (
-                <span className="font-medium">{c.name}</span>
-              )}
-            </td>
-            {showTrainer ? <td>{c.trainerName}</td> : null}
-            <td className="text-right font-mono">{c.memberCount}</td>
-            <td className="text-right font-mono">{c.pendingCount}</td>
-          </tr>
-        ))}
-      </tbody>
-    </table>
+      ))}
+    </ListTable>
   );
 }
 

@@ -8,6 +8,7 @@ import { MyDrillsTable } from '@/components/drills/my-drills';
 import { requirePageUser } from '@/lib/auth/session';
 import { assignmentState } from '@/lib/drills/access';
 import { listAssignmentsOfTrainer, listDrills } from '@/db/drills';
+import { ListTable } from '@/components/ui/list-table';
 
 export const metadata: Metadata = { title: 'Drills · Cellwright' };
 
@@ -39,73 +40,67 @@ export default async function DrillsPage() {
       />
       <div className="space-y-6">
         <Card title="Your drills">
-          {drills.length === 0 ? (
-            <p className="text-sm text-slate-500">No drills yet.</p>
-          ) : (
-            <table className="w-full text-left text-sm" data-testid="drills-table">
-              <thead className="text-xs uppercase tracking-wide text-slate-500">
-                <tr>
-                  <th className="py-2">Drill</th>
-                  <th>Faults</th>
-                  <th>Rules</th>
-                  <th>Time limit</th>
-                  <th>Updated</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-slate-100">
-                {drills.map((d) => (
-                  <tr key={d.id}>
-                    <td className="py-2">
-                      <Link href={`/drills/${d.id}`} className="font-medium text-accent-700 hover:underline">
-                        {d.title}
-                      </Link>
-                      {d.libraryKey ? <span className="ml-2 rounded bg-slate-100 px-1.5 text-xs text-slate-600">library</span> : null}
-                    </td>
-                    <td className="font-mono">{d.faults.length}</td>
-                    <td className="font-mono">{d.rules.length}</td>
-                    <td className="font-mono">{Math.round(d.timeLimitMs / 60_000)} min</td>
-                    <td className="font-mono text-xs text-slate-500">{formatDateTime(d.updatedAt)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
+          <ListTable
+            data-testid="drills-table"
+            empty={drills.length === 0 && 'No drills yet.'}
+            head={
+              <>
+                <th className="py-2">Drill</th>
+                <th>Faults</th>
+                <th>Rules</th>
+                <th>Time limit</th>
+                <th>Updated</th>
+              </>
+            }
+          >
+            {drills.map((d) => (
+              <tr key={d.id}>
+                <td className="py-2">
+                  <Link href={`/drills/${d.id}`} className="font-medium text-accent-700 hover:underline">
+                    {d.title}
+                  </Link>
+                  {d.libraryKey ? <span className="ml-2 rounded bg-slate-100 px-1.5 text-xs text-slate-600">library</span> : null}
+                </td>
+                <td className="font-mono">{d.faults.length}</td>
+                <td className="font-mono">{d.rules.length}</td>
+                <td className="font-mono">{Math.round(d.timeLimitMs / 60_000)} min</td>
+                <td className="font-mono text-xs text-slate-500">{formatDateTime(d.updatedAt)}</td>
+              </tr>
+            ))}
+          </ListTable>
         </Card>
         <Card title="Assignments">
-          {assignments.length === 0 ? (
-            <p className="text-sm text-slate-500">Nothing assigned yet.</p>
-          ) : (
-            <table className="w-full text-left text-sm" data-testid="assignments-table">
-              <thead className="text-xs uppercase tracking-wide text-slate-500">
-                <tr>
-                  <th className="py-2">Drill</th>
-                  <th>Cohort</th>
-                  <th>Opens</th>
-                  <th>Closes</th>
-                  <th>State</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-slate-100">
-                {assignments.map((a) => (
-                  <tr key={a.id}>
-                    <td className="py-2">
-                      <Link href={`/drills/${a.drillId}`} className="text-accent-700 hover:underline">
-                        {a.drillTitle}
-                      </Link>
-                    </td>
-                    <td>
-                      <Link href={`/gradebook?cohort=${a.cohortId}`} className="hover:underline">
-                        {a.cohortName}
-                      </Link>
-                    </td>
-                    <td className="font-mono text-xs">{formatDateTime(a.opensAt)}</td>
-                    <td className="font-mono text-xs">{formatDateTime(a.closesAt)}</td>
-                    <td>{assignmentState(a)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
+          <ListTable
+            data-testid="assignments-table"
+            empty={assignments.length === 0 && 'Nothing assigned yet.'}
+            head={
+              <>
+                <th className="py-2">Drill</th>
+                <th>Cohort</th>
+                <th>Opens</th>
+                <th>Closes</th>
+                <th>State</th>
+              </>
+            }
+          >
+            {assignments.map((a) => (
+              <tr key={a.id}>
+                <td className="py-2">
+                  <Link href={`/drills/${a.drillId}`} className="text-accent-700 hover:underline">
+                    {a.drillTitle}
+                  </Link>
+                </td>
+                <td>
+                  <Link href={`/gradebook?cohort=${a.cohortId}`} className="hover:underline">
+                    {a.cohortName}
+                  </Link>
+                </td>
+                <td className="font-mono text-xs">{formatDateTime(a.opensAt)}</td>
+                <td className="font-mono text-xs">{formatDateTime(a.closesAt)}</td>
+                <td>{assignmentState(a)}</td>
+              </tr>
+            ))}
+          </ListTable>
         </Card>
       </div>
     </>

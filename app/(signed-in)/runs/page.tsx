@@ -9,6 +9,7 @@ import { CELL_ROLES } from '@/lib/cells/roles';
 import { listRunsOfUser } from '@/db/runs';
 import { findDrill } from '@/db/drills';
 import { listCellsSharedWithMember } from '@/db/cells';
+import { ListTable } from '@/components/ui/list-table';
 
 export const metadata: Metadata = { title: 'Runs · Cellwright' };
 
@@ -37,43 +38,40 @@ export default async function RunsPage() {
           </Card>
         ) : null}
         <Card title="My runs">
-          {runs.length === 0 ? (
-            <p className="text-sm text-slate-500">No runs yet.</p>
-          ) : (
-            <table className="w-full text-left text-sm" data-testid="runs-table">
-              <thead className="text-xs uppercase tracking-wide text-slate-500">
-                <tr>
-                  <th className="py-2">Run</th>
-                  <th>Started</th>
-                  <th>Cell time</th>
-                  <th>Status</th>
-                  <th className="text-right">Grade</th>
-                  <th />
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-slate-100">
-                {runs.map((r) => (
-                  <tr key={r.id}>
-                    <td className="py-2">
-                      <Link href={`/runs/${r.id}`} className="font-medium text-accent-700 hover:underline">
-                        {r.drillId ? (drills.get(r.drillId) ?? 'Drill') : 'Free practice'}
-                      </Link>
-                      <span className="block text-xs text-slate-500">{r.mode === 'drill' ? 'drill attempt' : 'practice'}</span>
-                    </td>
-                    <td className="font-mono text-xs">{formatDateTime(r.startedAt)}</td>
-                    <td className="font-mono text-xs">{formatCellTime(r.endedMs ?? r.untilMs)}</td>
-                    <td>{r.status}</td>
-                    <td className="text-right font-mono">{r.mode === 'drill' && r.status === 'submitted' ? `${r.overrideGrade ?? r.grade ?? '—'}%` : '—'}</td>
-                    <td className="text-right">
-                      <Link href={`/runs/${r.id}/replay`} className="text-xs text-accent-700 hover:underline">
-                        Replay
-                      </Link>
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
+          <ListTable
+            data-testid="runs-table"
+            empty={runs.length === 0 && 'No runs yet.'}
+            head={
+              <>
+                <th className="py-2">Run</th>
+                <th>Started</th>
+                <th>Cell time</th>
+                <th>Status</th>
+                <th className="text-right">Grade</th>
+                <th />
+              </>
+            }
+          >
+            {runs.map((r) => (
+              <tr key={r.id}>
+                <td className="py-2">
+                  <Link href={`/runs/${r.id}`} className="font-medium text-accent-700 hover:underline">
+                    {r.drillId ? (drills.get(r.drillId) ?? 'Drill') : 'Free practice'}
+                  </Link>
+                  <span className="block text-xs text-slate-500">{r.mode === 'drill' ? 'drill attempt' : 'practice'}</span>
+                </td>
+                <td className="font-mono text-xs">{formatDateTime(r.startedAt)}</td>
+                <td className="font-mono text-xs">{formatCellTime(r.endedMs ?? r.untilMs)}</td>
+                <td>{r.status}</td>
+                <td className="text-right font-mono">{r.mode === 'drill' && r.status === 'submitted' ? `${r.overrideGrade ?? r.grade ?? '—'}%` : '—'}</td>
+                <td className="text-right">
+                  <Link href={`/runs/${r.id}/replay`} className="text-xs text-accent-700 hover:underline">
+                    Replay
+                  </Link>
+                </td>
+              </tr>
+            ))}
+          </ListTable>
         </Card>
       </div>
     </>

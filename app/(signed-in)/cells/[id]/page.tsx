@@ -3,7 +3,7 @@ import { notFound } from 'next/navigation';
 import { Refused } from '@/components/ui/refused';
 import { Workspace } from '@/components/workspace/workspace-shell';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
@@ -20,22 +20,11 @@ export default async function CellWorkspacePage({ params }: { params: Promise<{ 
   const raw = await params;
   const { user, allowed } = await requirePageUser(`/cells/${raw.id}`, CELL_ROLES);
   if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
-  const parsed = cellIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  const id = parsed.data.id;
-
-  let access: 'owner' | 'shared';
-  let name: string;
-  try {
-    const found = await cellForReader(user, id);
-    access = found.access;
-    name = found.cell.name;
-  } catch (e) {
-    if (e instanceof ApiError && (e.status === 404 || e.status === 403)) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(cellIdParamSchema, raw);
+  // A cell the reader may not open is not-found either way (403 or 404): its id reveals nothing.
+  const { access, cell } = await loadOrNotFound(cellForReader(user, id), [404, 403]);
   const latest = await getVersion(id);
   if (!latest) notFound();
 
-  return <Workspace cellName={name} init={{ cellId: id, version: latest.version, document: latest.document, canEdit: access === 'owner' }} />;
+  return <Workspace cellName={cell.name} init={{ cellId: id, version: latest.version, document: latest.document, canEdit: access === 'owner' }} />;
 }

@@ -1,6 +1,5 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
-import { notFound } from 'next/navigation';
 import { Eye } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
@@ -8,7 +7,7 @@ import { formatDateTime } from '@/components/ui/format';
 import { DrillEditor } from '@/components/drills/drill-editor';
 import { AssignForm } from '@/components/drills/assign-form';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { DRILL_ROLES, assignmentState, drillForAuthor } from '@/lib/drills/access';
 import { drillAsInput } from '@/lib/drills/author';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
@@ -23,15 +22,8 @@ export default async function DrillPage({ params }: { params: Promise<{ id: stri
   const raw = await params;
   const { user, allowed } = await requirePageUser(`/drills/${raw.id}`, DRILL_ROLES);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
-  const parsed = drillIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  let drill;
-  try {
-    drill = await drillForAuthor(user, parsed.data.id);
-  } catch (e) {
-    if (e instanceof ApiError && e.status === 404) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(drillIdParamSchema, raw);
+  const drill = await loadOrNotFound(drillForAuthor(user, id));
   const [owned, assignments, cohorts, locked, base] = await Promise.all([
     listOwnedCells(drill.trainerId),
     listAssignmentsOfDrill(drill.id),

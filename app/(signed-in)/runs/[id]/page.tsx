@@ -1,6 +1,5 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
-import { notFound } from 'next/navigation';
 import { PlayCircle } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
@@ -9,7 +8,7 @@ import { GradeBreakdown } from '@/components/runs/grade-breakdown';
 import { formatCellTime, humanise } from '@/components/workspace/format';
 import type { RunInfo } from '@/components/runs/types';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { runForReader, runView } from '@/lib/runs/access';
 import { runIdParamSchema } from '@/lib/schemas/runs';
 import { findDrill } from '@/db/drills';
@@ -20,15 +19,8 @@ export const metadata: Metadata = { title: 'Run · Cellwright' };
 export default async function RunPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
   const { user } = await requirePageUser(`/runs/${raw.id}`);
-  const parsed = runIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  let found;
-  try {
-    found = await runForReader(user, parsed.data.id);
-  } catch (e) {
-    if (e instanceof ApiError && e.status === 404) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(runIdParamSchema, raw);
+  const found = await loadOrNotFound(runForReader(user, id));
   const run = runView(found.run, found.hiddenVisible) as RunInfo;
   const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
   const title = drill ? drill.title : 'Free practice';

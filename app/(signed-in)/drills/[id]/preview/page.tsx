@@ -3,7 +3,7 @@ import { notFound } from 'next/navigation';
 import { Refused } from '@/components/ui/refused';
 import { DrillPreview } from '@/components/drills/drill-preview';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
@@ -15,15 +15,8 @@ export default async function DrillPreviewPage({ params }: { params: Promise<{ i
   const raw = await params;
   const { user, allowed } = await requirePageUser(`/drills/${raw.id}/preview`, DRILL_ROLES);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
-  const parsed = drillIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  let drill;
-  try {
-    drill = await drillForAuthor(user, parsed.data.id);
-  } catch (e) {
-    if (e instanceof ApiError && e.status === 404) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(drillIdParamSchema, raw);
+  const drill = await loadOrNotFound(drillForAuthor(user, id));
   const version = await getVersion(drill.cellId, drill.cellVersion);
   if (!version) notFound();
   return (

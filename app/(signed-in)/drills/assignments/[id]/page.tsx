@@ -5,7 +5,7 @@ import { Notice } from '@/components/ui/notice';
 import { PageHeader } from '@/components/ui/card';
 import { DrillAttempt } from '@/components/drills/drill-attempt';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { assignmentForStudent, STUDENT_ROLES, studentDrillPayload } from '@/lib/drills/access';
 import { assignmentIdParamSchema, DIAGNOSIS_KINDS } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
@@ -21,15 +21,8 @@ export default async function DrillAttemptPage({ params }: { params: Promise<{ i
   const raw = await params;
   const { user, allowed } = await requirePageUser(`/drills/assignments/${raw.id}`, STUDENT_ROLES);
   if (!allowed) return <Refused role={user.role} needs="students (trainers preview drills from the drill editor)" />;
-  const parsed = assignmentIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  let found;
-  try {
-    found = await assignmentForStudent(user, parsed.data.id);
-  } catch (e) {
-    if (e instanceof ApiError && e.status === 404) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(assignmentIdParamSchema, raw);
+  const found = await loadOrNotFound(assignmentForStudent(user, id));
   const payload = await studentDrillPayload(found.assignment, found.drill);
   const version = await getVersion(found.drill.cellId, found.drill.cellVersion);
   if (!version) notFound();

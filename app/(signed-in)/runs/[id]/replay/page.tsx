@@ -4,7 +4,7 @@ import { notFound } from 'next/navigation';
 import { PageHeader } from '@/components/ui/card';
 import { RunReplay } from '@/components/replay/run-replay';
 import { requirePageUser } from '@/lib/auth/session';
-import { ApiError } from '@/lib/api/errors';
+import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { runForReader } from '@/lib/runs/access';
 import { runIdParamSchema } from '@/lib/schemas/runs';
 import { findDrill } from '@/db/drills';
@@ -20,15 +20,8 @@ export const metadata: Metadata = { title: 'Replay · Cellwright' };
 export default async function ReplayPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
   const { user } = await requirePageUser(`/runs/${raw.id}/replay`);
-  const parsed = runIdParamSchema.safeParse(raw);
-  if (!parsed.success) notFound();
-  let found;
-  try {
-    found = await runForReader(user, parsed.data.id);
-  } catch (e) {
-    if (e instanceof ApiError && e.status === 404) notFound();
-    throw e;
-  }
+  const { id } = paramsOrNotFound(runIdParamSchema, raw);
+  const found = await loadOrNotFound(runForReader(user, id));
   const { run, hiddenVisible } = found;
   const version = await getVersion(run.cellId, run.cellVersion);
   if (!version) notFound();

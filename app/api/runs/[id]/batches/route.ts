@@ -1,21 +1,31 @@
-import { apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { runForOwner } from '@/lib/runs/access';
 import { appendBatch } from '@/lib/runs/service';
-import { batchSchema, runIdParamSchema } from '@/lib/schemas/runs';
+import { BATCH_LIMITS, batchSchema, runIdParamSchema } from '@/lib/schemas/runs';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /**
  * One batch of the run's event log (owner only; anyone else's run is 404). Stored once per
  * idempotency key: a retry gets 200 with `duplicate: true` and the first answer; a new batch
- * gets 201. seq gap → 409 naming the expected seq; a submitted run → 409; a bad event → 422.
+ * gets 201. seq gap → 409 naming the expected seq; a submitted run → 409; a bad event → 422;
+ * a body over BATCH_LIMITS.bodyBytes → 413.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req);
   const { id } = await parseParams(ctx.params, runIdParamSchema);
   const run = await runForOwner(user, id);
-  const body = await parseJsonBody(req, batchSchema);
+  const body = await parseJsonBody(await limitedBody(req), batchSchema);
   const answer = await appendBatch(run, body);
   return Response.json(answer, { status: answer.duplicate ? 200 : 201 });
 });
+
+/** The request with its body read once and bounded (downloads make batches larger than plain events). */
+async function limitedBody(req: Request): Promise<Request> {
+  const declared = Number(req.headers.get('content-length') ?? '0');
+  if (declared > BATCH_LIMITS.bodyBytes) throw new ApiError(413, `A batch may be at most ${BATCH_LIMITS.bodyBytes} bytes.`);
+  const text = await req.text();
+  if (Buffer.byteLength(text, 'utf8') > BATCH_LIMITS.bodyBytes) throw new ApiError(413, `A batch may be at most ${BATCH_LIMITS.bodyBytes} bytes.`);
+  return new Request(req.url, { method: 'POST', headers: { 'content-type': 'application/json' }, body: text });
+}

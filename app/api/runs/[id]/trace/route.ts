@@ -1,8 +1,7 @@
-import { apiRoute, parseParams, parseQuery } from '@/lib/api/errors';
-import { requireApiUser } from '@/lib/auth/session';
-import { runForReader } from '@/lib/runs/access';
+import { apiRoute } from '@/lib/api/errors';
+import { pageOf } from '@/lib/api/paging';
 import { replayTrace } from '@/lib/runs/service';
-import { pageQuerySchema, runIdParamSchema } from '@/lib/schemas/runs';
+import { readRunPage } from '../run-reader';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -12,20 +11,8 @@ type Ctx = { params: Promise<{ id: string }> };
  * its trainer and admins, or for the student once the drill has closed.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req);
-  const { id } = await parseParams(ctx.params, runIdParamSchema);
-  const { run, hiddenVisible } = await runForReader(user, id);
-  const { page, pageSize } = parseQuery(req, pageQuerySchema);
+  const { run, hiddenVisible, page, pageSize } = await readRunPage(req, ctx.params);
   const trace = await replayTrace(run, hiddenVisible);
-  const start = (page - 1) * pageSize;
-  return Response.json({
-    signals: trace.signals,
-    samples: trace.samples.slice(start, start + pageSize),
-    endMs: trace.endMs,
-    page,
-    pageSize,
-    total: trace.samples.length,
-    pages: Math.max(1, Math.ceil(trace.samples.length / pageSize)),
-    hiddenVisible,
-  });
+  const { items, ...paging } = pageOf(trace.samples, page, pageSize);
+  return Response.json({ signals: trace.signals, samples: items, endMs: trace.endMs, ...paging, hiddenVisible });
 });
