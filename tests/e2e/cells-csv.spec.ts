@@ -22,7 +22,7 @@ test('a point-map CSV with one bad row shows that row’s error and saves nothin
   await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Cells', exact: true }).click();
   await page.waitForURL('**/cells');
   const row = page.locator(`[data-testid="cell-row"][data-cell-id="${id}"]`);
-  await expect(row.getByRole('link', { name })).toBeVisible();
+  await expect(row.getByRole('link', { name, exact: true })).toBeVisible();
   await expect(row.getByTestId('cell-version-count')).toHaveText('1');
   await page.screenshot({ path: testInfo.outputPath('cells-list.png'), fullPage: true });
 
