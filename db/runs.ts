@@ -74,15 +74,14 @@ function toRun(r: any): Run {
   };
 }
 
+// The last batch by seq carries the run's end: untilMs never goes back (lib/runs/policy.ts
+// refuses that), so one backward step on the (run_id, seq) index gives both figures instead of
+// aggregating every batch of a long run.
 function runQuery(k: Knex = db()) {
   return k('runs as r')
     .join('users as u', 'u.id', 'r.user_id')
-    .select(
-      'r.*',
-      'u.name as user_name',
-      k.raw('(select coalesce(max(b.seq), 0) from run_batches b where b.run_id = r.id)::int as last_seq'),
-      k.raw('(select coalesce(max(b.until_ms), 0) from run_batches b where b.run_id = r.id)::int as until_ms'),
-    );
+    .joinRaw('left join lateral (select b.seq, b.until_ms from run_batches b where b.run_id = r.id order by b.seq desc limit 1) lb on true')
+    .select('r.*', 'u.name as user_name', k.raw('coalesce(lb.seq, 0)::int as last_seq'), k.raw('coalesce(lb.until_ms, 0)::int as until_ms'));
 }
 
 export async function findRun(id: string): Promise<Run | null> {
@@ -165,25 +164,38 @@ export async function lastBatch(runId: string): Promise<StoredBatch | null> {
   return row ? toBatch(row) : null;
 }
 
-export type InsertBatchResult = { ok: true } | { ok: false; reason: 'conflict' | 'submitted' };
+export type InsertBatchResult = { ok: true } | { ok: false; reason: 'conflict' | 'submitted' | 'missing' } | { ok: false; reason: 'gap'; expectedSeq: number };
 
 /**
- * Stores a batch while the run is still active, in one statement: the insert selects from the
- * run row with FOR SHARE, so it waits for (and then sees) a concurrent submit's update, and
- * stores nothing once the run is submitted. A duplicate key or seq (a racing request) is a conflict.
+ * Stores a batch in one statement when the run is still active and `seq` follows its last
+ * stored batch: the insert selects from the run row with FOR SHARE, so it waits for (and then
+ * sees) a concurrent submit's update; a duplicate key or seq (a retry, a racing request) does
+ * nothing rather than raising. Only when nothing was stored does a second read say why, so the
+ * usual batch costs one round trip.
  */
 export async function insertBatch(runId: string, batch: { seq: number; key: string; untilMs: number; events: LoggedEvent[] }): Promise<InsertBatchResult> {
-  try {
-    const res = await db().raw(
-      `insert into run_batches (run_id, seq, idempotency_key, until_ms, events, event_count)
-       select r.id, ?, ?, ?, ?::jsonb, ? from runs r where r.id = ? and r.status = 'active' for share`,
-      [batch.seq, batch.key, batch.untilMs, JSON.stringify(batch.events), batch.events.length, runId],
-    );
-    return res.rowCount === 1 ? { ok: true } : { ok: false, reason: 'submitted' };
-  } catch (err) {
-    if ((err as { code?: string }).code === '23505') return { ok: false, reason: 'conflict' };
-    throw err;
-  }
+  const res = await db().raw(
+    `insert into run_batches (run_id, seq, idempotency_key, until_ms, events, event_count)
+     select r.id, ?, ?, ?, ?::jsonb, ? from runs r
+      where r.id = ? and r.status = 'active'
+        and coalesce((select max(b.seq) from run_batches b where b.run_id = r.id), 0) = ?
+      for share of r
+     on conflict do nothing`,
+    [batch.seq, batch.key, batch.untilMs, JSON.stringify(batch.events), batch.events.length, runId, batch.seq - 1],
+  );
+  if (res.rowCount === 1) return { ok: true };
+  const why = await db().raw(
+    `select r.status, coalesce((select max(b.seq) from run_batches b where b.run_id = r.id), 0)::int as last_seq,
+            exists (select 1 from run_batches b where b.run_id = r.id and b.idempotency_key = ?) as key_taken
+       from runs r where r.id = ?`,
+    [batch.key, runId],
+  );
+  const row = why.rows[0] as { status: RunStatus; last_seq: number; key_taken: boolean } | undefined;
+  if (!row) return { ok: false, reason: 'missing' };
+  if (row.key_taken) return { ok: false, reason: 'conflict' };
+  if (row.status !== 'active') return { ok: false, reason: 'submitted' };
+  if (row.last_seq >= batch.seq) return { ok: false, reason: 'conflict' };
+  return { ok: false, reason: 'gap', expectedSeq: row.last_seq + 1 };
 }
 
 export interface Submission {

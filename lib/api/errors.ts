@@ -42,6 +42,21 @@ export async function parseJsonBody<S extends z.ZodType>(req: Request, schema: S
   } catch {
     throw new ApiError(400, 'The request body must be valid JSON.');
   }
+  return parseJsonValue(raw, schema);
+}
+
+/** parseJsonBody for a body already read as text (a handler that had to bound its size first). */
+export function parseJsonText<S extends z.ZodType>(text: string, schema: S): z.output<S> {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch {
+    throw new ApiError(400, 'The request body must be valid JSON.');
+  }
+  return parseJsonValue(raw, schema);
+}
+
+function parseJsonValue<S extends z.ZodType>(raw: unknown, schema: S): z.output<S> {
   const parsed = schema.safeParse(raw);
   if (!parsed.success) throw new ApiError(422, 'Some fields are not valid.', fieldErrors(parsed.error));
   return parsed.data;

@@ -19,15 +19,42 @@ function readCookie(cookieHeader: string | null, name: string): string | null {
 }
 
 /**
+ * User ids of session tokens already decoded, by token. Decoding derives the key (HKDF) and
+ * decrypts the token on every call, a large share of a small API request's CPU time (a run
+ * streams a batch every second); a token's content never changes, so it is decoded once and
+ * remembered until it expires. Only the decoding is remembered: the user is still read from
+ * the database on every request. Bounded; the oldest entries go first.
+ */
+const TOKEN_CACHE_MAX = 2000;
+const tokenCache = globalThis as unknown as { cellwrightSessionTokens?: Map<string, { userId: string; secret: string; expiresAtMs: number }> };
+
+async function userIdOfToken(token: string): Promise<string | null> {
+  const secret = env().NEXTAUTH_SECRET;
+  const cache = (tokenCache.cellwrightSessionTokens ??= new Map());
+  const hit = cache.get(token);
+  if (hit && hit.secret === secret && hit.expiresAtMs > Date.now()) return hit.userId;
+  if (hit) cache.delete(token);
+  const payload = await decode({ token, secret });
+  if (!payload?.id) return null;
+  const userId = String(payload.id);
+  // Remembered up to the token's own expiry; decode itself allows a little clock skew past it.
+  if (typeof payload.exp === 'number') {
+    if (cache.size >= TOKEN_CACHE_MAX) cache.delete(cache.keys().next().value as string);
+    cache.set(token, { userId, secret, expiresAtMs: payload.exp * 1000 });
+  }
+  return userId;
+}
+
+/**
  * The signed-in user behind a session token, re-read from the database on
  * every call so a disabled account or a changed role takes effect at once.
  */
 export async function userFromSessionToken(token: string | null | undefined): Promise<User | null> {
   if (!token) return null;
   try {
-    const payload = await decode({ token, secret: env().NEXTAUTH_SECRET });
-    if (!payload?.id) return null;
-    const user = await findUserById(String(payload.id));
+    const userId = await userIdOfToken(token);
+    if (!userId) return null;
+    const user = await findUserById(userId);
     return user && !user.disabled ? user : null;
   } catch {
     return null;

@@ -4,6 +4,8 @@ import { ApiError } from '@/lib/api/errors';
 import { getVersion } from '@/db/cells';
 import { findAssignment, findDrill, type Assignment, type Drill } from '@/db/drills';
 import { findBatchByKey, findRun, insertBatch, listBatches, submitRun, type Run } from '@/db/runs';
+import type { User } from '@/db/users';
+import { runForOwner } from './access';
 import { buildCell, applyLog, gradeSignals, replayRun, type RunContext } from './engine';
 import { gradeRun, type GradeResult } from './grade';
 import { evictLiveRun, getLiveRun, putLiveRun, withRunLock, type LiveRun } from './live-runs';
@@ -50,20 +52,42 @@ export async function storedLog(runId: string): Promise<{ events: LoggedEvent[];
 }
 
 /**
- * The run's live cell: from the cache, else rebuilt from the stored log. The cache entry also
- * keeps the run's setup and stored end, so a batch needs no reads beyond the owner check; a
- * cache made stale by another server process is caught by the unique indexes on insert.
+ * A cached run's setup, plus the run row as read when its cell was built: its owner, mode, cell
+ * and drill never change, so a batch of a cached run needs no read of the run (see runForBatch).
  */
-async function liveCell(run: Run): Promise<LiveRun<RunSetup>> {
-  const hit = getLiveRun(run.id) as LiveRun<RunSetup> | undefined;
+type LiveSetup = RunSetup & { run: Run };
+
+/**
+ * The run's live cell: from the cache, else rebuilt from the stored log (with the run re-read,
+ * so the cached row is current when cached). The cache entry also keeps the run's setup and
+ * stored end, so a batch needs no reads beyond the session check and its insert; a cache made
+ * stale by another server process is caught by the insert's own checks.
+ */
+async function liveCell(run: Run): Promise<LiveRun<LiveSetup>> {
+  const hit = getLiveRun(run.id) as LiveRun<LiveSetup> | undefined;
   if (hit) return hit;
-  const setup = await runSetup(run);
+  const fresh = await findRun(run.id);
+  if (!fresh) throw new ApiError(404, 'No such run.');
+  const setup = await runSetup(fresh);
   const log = await storedLog(run.id);
   const made = replayRun({ ...setup.context, trace: [] }, log.events, log.untilMs);
   if (!made.ok) throw new Error(`run ${run.id} does not replay: ${JSON.stringify(made.errors.slice(0, 3))}`);
-  const live: LiveRun<RunSetup> = { cell: made.value, lastSeq: log.lastSeq, untilMs: log.untilMs, setup };
+  const live: LiveRun<LiveSetup> = { cell: made.value, lastSeq: log.lastSeq, untilMs: log.untilMs, setup: { ...setup, run: fresh } };
   putLiveRun(run.id, live);
   return live;
+}
+
+/**
+ * The run a batch is for, if the user owns it (anybody else gets 404). A run whose cell is
+ * cached comes from the cache: who owns it and what it runs never change, so the batch path
+ * reads the database only for the session and the insert. Its changing fields (status,
+ * lastSeq, untilMs) may be stale; appendBatch's insert checks them against the database.
+ */
+export async function runForBatch(user: User, id: string): Promise<Run> {
+  const hit = getLiveRun(id) as LiveRun<LiveSetup> | undefined;
+  if (!hit) return runForOwner(user, id);
+  if (hit.setup.run.userId !== user.id) throw new ApiError(404, 'No such run.');
+  return hit.setup.run;
 }
 
 /** The rebuilt snapshot of a run from its stored log alone (no cache): the reference the cache must match. */
@@ -93,12 +117,15 @@ export function appendBatch(run: Run, input: BatchInput): Promise<BatchAnswer> {
       const same = await findBatchByKey(run.id, input.key);
       return same ? { seq: same.seq, untilMs: same.untilMs, eventCount: same.events.length, duplicate: true } : null;
     };
-    if (run.status !== 'active') {
+    const refuseSubmitted = async (): Promise<BatchAnswer> => {
       const again = await duplicate();
       if (again) return again;
       throw new ApiError(409, 'This run has been submitted; it takes no more events.');
-    }
+    };
+    if (run.status !== 'active') return refuseSubmitted();
     let live = await liveCell(run);
+    // A cell cached by a view of a submitted run knows it is submitted (that never reverts).
+    if (live.setup.run.status !== 'active') return refuseSubmitted();
     if (input.seq !== live.lastSeq + 1) {
       // A retry of a stored batch, or a client that lost track; another process may also have
       // stored batches this cache has not seen, so check against the database before refusing.
@@ -138,10 +165,14 @@ export function appendBatch(run: Run, input: BatchInput): Promise<BatchAnswer> {
       const again = await duplicate();
       if (again) return again;
       if (stored.reason === 'submitted') throw new ApiError(409, 'This run has been submitted; it takes no more events.');
+      if (stored.reason === 'missing') throw new ApiError(404, 'No such run.');
+      if (stored.reason === 'gap') throw new ApiError(409, `Expected batch ${stored.expectedSeq}.`, { seq: [`expected ${stored.expectedSeq}`] });
       throw new ApiError(409, 'Another batch took this sequence number; fetch the run and continue from its last batch.');
     }
     live.lastSeq = input.seq;
     live.untilMs = input.untilMs;
+    live.setup.run.lastSeq = input.seq;
+    live.setup.run.untilMs = input.untilMs;
     return { seq: input.seq, untilMs: input.untilMs, eventCount: input.events.length, duplicate: false };
   });
 }

@@ -23,6 +23,7 @@ import { clearLiveRuns, getLiveRun } from '@/lib/runs/live-runs';
 import { regrade, uncachedSnapshot } from '@/lib/runs/service';
 import { sanitiseSnapshot } from '@/lib/runs/sanitise';
 import { DRILL_LIBRARY } from '@/lib/drills/library';
+import { BATCH_LIMITS } from '@/lib/schemas/runs';
 import { call, demoCohortId, demoUser, makeUser, sessionCookie } from './helpers';
 import { drillWorld, expectNoSecrets, type DrillWorld } from './drills-fixtures';
 
@@ -165,6 +166,71 @@ describe('batches', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const cached = getLiveRun(runId)!.cell.snapshot();
     expect(cached).toEqual(await uncachedSnapshot((await findRun(runId))!));
+  });
+});
+
+describe('batches of a cached run (the batch path reads only the session and its insert)', () => {
+  it('refuses what another server process changed behind the cache: a stored batch, a submit; and a disabled student at once', async () => {
+    const w = await drillWorld(trainer, 1);
+    const s = w.students[0];
+    const runId = (await start(s, w.assignmentId)).body.run.id;
+    const first = await post(s, runId, { key: key(), ...LOG[0] });
+    expect(first.status, JSON.stringify(first.body)).toBe(201);
+    expect(getLiveRun(runId)!.lastSeq).toBe(1);
+    // Another process stores batch 2 (the cache here still expects 2): this process's batch 2
+    // meets it in the insert, is refused, and nothing is stored twice.
+    await db()('run_batches').insert({ run_id: runId, seq: 2, idempotency_key: key(), until_ms: 3000, events: JSON.stringify([]), event_count: 0 });
+    const raced = await post(s, runId, { key: key(), seq: 2, untilMs: 3500, events: [] });
+    expect(raced.status).toBe(409);
+    expect(await batchCount(runId)).toBe(2);
+    // The refused batch dropped the stale cell; the client resumes after the stored batch 2.
+    const next = await post(s, runId, { key: key(), seq: 3, untilMs: 4000, events: [] });
+    expect(next.status, JSON.stringify(next.body)).toBe(201);
+    // Another process submits: the cached run still says active, the insert does not.
+    await db()('runs').where({ id: runId }).update({ status: 'submitted', submitted_at: db().fn.now() });
+    expect(getLiveRun(runId)).toBeDefined();
+    const late = await post(s, runId, { key: key(), seq: 4, untilMs: 5000, events: [] });
+    expect(late.status).toBe(409);
+    expect((late.body as { error: string }).error).toContain('submitted');
+    expect(await batchCount(runId)).toBe(3);
+    // The session is re-read on every batch, cached run or not: a disabled account is refused.
+    await db()('runs').where({ id: runId }).update({ status: 'active', submitted_at: null });
+    const cookie = await sessionCookie(s);
+    expect((await call(batches.POST, `/api/runs/${runId}/batches`, { method: 'POST', cookie, params: { id: runId }, body: { key: key(), seq: 4, untilMs: 5000, events: [] } })).status).toBe(201);
+    await db()('users').where({ id: s.id }).update({ disabled: true });
+    const refused = await call(batches.POST, `/api/runs/${runId}/batches`, { method: 'POST', cookie, params: { id: runId }, body: { key: key(), seq: 5, untilMs: 6000, events: [] } });
+    expect(refused.status).toBe(401);
+    expect(await batchCount(runId)).toBe(4);
+  });
+
+  it('a body that is not JSON is a 400; one over the batch size limit a 413 (declared or not); nothing stored', async () => {
+    const w = await drillWorld(trainer, 1);
+    const s = w.students[0];
+    const runId = (await start(s, w.assignmentId)).body.run.id;
+    const cookie = await sessionCookie(s);
+    const at = { method: 'POST', cookie, params: { id: runId } };
+    expect((await call(batches.POST, `/api/runs/${runId}/batches`, { ...at, rawBody: '{"key": ' })).status).toBe(400);
+    // Valid JSON padded past the limit: the size is refused before anything is parsed.
+    const big = JSON.stringify({ key: key(), ...LOG[0], pad: 'x'.repeat(BATCH_LIMITS.bodyBytes) });
+    expect((await call(batches.POST, `/api/runs/${runId}/batches`, { ...at, rawBody: big })).status).toBe(413);
+    expect((await call(batches.POST, `/api/runs/${runId}/batches`, { ...at, rawBody: '{}', headers: { 'content-length': String(BATCH_LIMITS.bodyBytes + 1) } })).status).toBe(413);
+    // Multi-byte text counts in bytes: under the limit in characters, over it in UTF-8.
+    const wide = JSON.stringify({ key: key(), ...LOG[0], pad: '\u00e9'.repeat(Math.ceil(BATCH_LIMITS.bodyBytes / 2) + 10) });
+    expect(wide.length).toBeLessThan(BATCH_LIMITS.bodyBytes);
+    expect((await call(batches.POST, `/api/runs/${runId}/batches`, { ...at, rawBody: wide })).status).toBe(413);
+    expect(await batchCount(runId)).toBe(0);
+    expect((await post(s, runId, { key: key(), ...LOG[0] })).status).toBe(201);
+  });
+
+  it('a cached run stays 404 to everyone but its owner', async () => {
+    const w = await drillWorld(trainer, 2);
+    const [owner, other] = w.students;
+    const runId = (await start(owner, w.assignmentId)).body.run.id;
+    expect((await post(owner, runId, { key: key(), ...LOG[0] })).status).toBe(201);
+    expect(getLiveRun(runId)).toBeDefined();
+    expect((await post(other, runId, { key: key(), seq: 2, untilMs: 3000, events: [] })).status).toBe(404);
+    expect((await post(trainer, runId, { key: key(), seq: 2, untilMs: 3000, events: [] })).status).toBe(404);
+    expect(await batchCount(runId)).toBe(1);
   });
 });
 
