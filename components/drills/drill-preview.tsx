@@ -3,6 +3,8 @@
  * "Preview as student": the drill's workspace with the student's permissions, but run in this
  * browser's engine worker with the hidden fault cards injected at time 0 and shown to the
  * trainer live. The preview is recorded like free practice (its own run), so it can be replayed.
+ * Edits behave as in the student's attempt: they stay in the browser until "Download to PLC"
+ * sends the parts the drill lets the student download; nothing restarts the run at time 0.
  */
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import Link from 'next/link';
@@ -15,7 +17,7 @@ import type { CellDocument, FaultCard } from '@/simulator';
 import { RunWorkspace } from '@/components/runs/run-workspace';
 import { useRunRecorder } from '@/components/runs/use-run-recorder';
 import { Markdown } from './markdown';
-import { areaEditing } from './drill-attempt';
+import { areaEditing, downloadableAreas } from './drill-attempt';
 
 export type PreviewDrill = {
   id: string;
@@ -57,11 +59,12 @@ export function DrillPreview({ drill, document }: { drill: PreviewDrill; documen
 }
 
 function PreviewWorkspace({ drill, document, runId, startNext }: { drill: PreviewDrill; document: CellDocument; runId: string; startNext: () => Promise<string> }) {
-  const init = useMemo(() => ({ cellId: drill.cellId, version: drill.cellVersion, document, canEdit: false }), [drill.cellId, drill.cellVersion, document]);
+  const init = useMemo(() => ({ cellId: drill.cellId, version: drill.cellVersion, document, canEdit: false, editsWaitForDownload: true }), [drill.cellId, drill.cellVersion, document]);
   return (
     <RunWorkspace
       init={init}
       editing={areaEditing(drill.permissions.editable)}
+      downloadable={downloadableAreas(drill.permissions.editable)}
       forceAllowed={drill.permissions.forceAllowed}
       header={<PreviewHeader drill={drill} />}
     >

@@ -131,7 +131,8 @@ describe('batch sender', () => {
     const server = fakeServer();
     server.script.push({ status: 422, body: { error: 'Some events cannot be logged.', fields: { 'events.1.event.type': ['This drill does not allow forcing.'] } } });
     const rejected = vi.fn();
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, onRejected: rejected });
+    const stored = vi.fn();
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, onRejected: rejected, onStored: stored });
     const force: LoggedEvent = { t: 20, event: { type: 'force', target: '%IX0.0', value: 1 } };
     s.push(press(10));
     s.push(force);
@@ -142,6 +143,9 @@ describe('batch sender', () => {
     expect(rejected).toHaveBeenCalledWith([force], 'This drill does not allow forcing.');
     expect(server.stored).toHaveLength(1);
     expect(server.stored[0].events).toEqual([press(10), press(30, 'stop')]);
+    // Only what the server stored is reported as stored (a remote run settles downloads by it).
+    expect(stored).toHaveBeenCalledTimes(1);
+    expect(stored).toHaveBeenCalledWith([press(10), press(30, 'stop')]);
     expect(server.stored[0].key).not.toBe(server.requests[0].key);
     expect(server.stored[0].seq).toBe(1);
   });

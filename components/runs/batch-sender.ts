@@ -62,6 +62,8 @@ export type BatchSenderOptions = {
   onChange?: (state: SenderState) => void;
   /** Events the server refused, with why (they are not stored). */
   onRejected?: (events: LoggedEvent[], message: string) => void;
+  /** Events the server stored (once per batch, in order). */
+  onStored?: (events: LoggedEvent[]) => void;
 };
 
 export type BatchSender = {
@@ -211,6 +213,7 @@ export function createBatchSender(opts: BatchSenderOptions): BatchSender {
       storedEventsTotal += batch.events.length;
       state.attempt = 0;
       state.lastError = null;
+      if (batch.events.length > 0) opts.onStored?.(batch.events);
       changed();
       settleWaiters();
       if (queue.length > 0 || waiters.length > 0) void pump();

@@ -2,21 +2,31 @@
 /**
  * Free practice on a cell: it runs in this browser's engine worker as in the workspace, and its
  * event log is streamed to the server as a practice run, so it is saved and replayable.
+ * The student may edit the logic sheet, wiring and routine (and stage point-map rows); edits
+ * wait for "Download to PLC" instead of restarting the run, and the download is an event of
+ * the log like any other, so the replay runs exactly what the student ran.
  */
 import { useCallback, useEffect, useMemo, useState } from 'react';
 import Link from 'next/link';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import type { CellDocument } from '@/simulator';
-import { RunWorkspace } from './run-workspace';
+import { DOWNLOAD_AREAS } from '@/components/workspace/download';
+import { RunWorkspace, type AreaEditing } from './run-workspace';
 import { useRunRecorder } from './use-run-recorder';
 
 type Started = { run: { id: string; seed?: number } };
 
+/** Practice opens every area that can change the running cell through an event. */
+const PRACTICE_EDITING: AreaEditing = { logic: true, field: true, controller: true };
+
 export function PracticeRun({ cellId, cellName, version, document }: { cellId: string; cellName: string; version: number; document: CellDocument }) {
   const [run, setRun] = useState<{ id: string; seed: number } | null>(null);
   const [error, setError] = useState<string | null>(null);
-  const start = useCallback(() => fetchJson<Started>('/api/runs', { method: 'POST', body: { cellId, version } }), [cellId, version]);
+  const start = useCallback(
+    (seed?: number) => fetchJson<Started>('/api/runs', { method: 'POST', body: seed === undefined ? { cellId, version } : { cellId, version, seed } }),
+    [cellId, version],
+  );
   useEffect(() => {
     let cancelled = false;
     start()
@@ -26,16 +36,18 @@ export function PracticeRun({ cellId, cellName, version, document }: { cellId: s
       cancelled = true;
     };
   }, [start, document.seed]);
-  const startNext = useCallback(async () => (await start()).run.id, [start]);
+  // After "Restart run" the worker keeps the first run's seed, so the next run is opened with it.
+  const startNext = useCallback(async () => (await start(run?.seed)).run.id, [start, run?.seed]);
   // The worker seeds the cell from the document: the run's seed makes the saved run replay exactly.
-  const init = useMemo(() => (run ? { cellId, version, document: { ...document, seed: run.seed }, canEdit: false } : null), [run, cellId, version, document]);
+  const init = useMemo(() => (run ? { cellId, version, document: { ...document, seed: run.seed }, canEdit: false, editsWaitForDownload: true } : null), [run, cellId, version, document]);
 
   if (error) return <Notice tone="error">{error}</Notice>;
   if (!run || !init) return <p className="text-sm text-slate-500">Starting a practice run…</p>;
   return (
     <RunWorkspace
       init={init}
-      editing={{}}
+      editing={PRACTICE_EDITING}
+      downloadable={DOWNLOAD_AREAS}
       forceAllowed
       header={
         <header className="mb-3">

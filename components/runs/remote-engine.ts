@@ -228,6 +228,10 @@ export function createRemoteRun(opts: RemoteRunOptions): RemoteRun {
           onRejected: (events, message) => {
             for (const e of events) sink.patch({ lastRejection: { event: e.event, problems: [{ path: [], code: 'refused', message }] } });
           },
+          // Only a stored event has reached the server's cell: that settles a download in flight.
+          onStored: (events) => {
+            for (const e of events) sink.accepted?.(e.event);
+          },
         });
         sink.patch({ status: 'ready', problems: [], signalNames: [], running, speed: 1 });
         setState({ phase: ended ? 'ended' : 'ready', resumed: run.lastSeq > 0, timeMs: baseMs, running, saving: sender.getState() });

@@ -50,6 +50,13 @@
  * stay staged without resetting the run) — the document is updated for saving and undo, the
  * run continues untouched.
  *
+ * In a run whose edits wait for "Download to PLC" (`WorkspaceInit.editsWaitForDownload`: free
+ * practice, a trainer's preview; a drill attempt's server-side cell always behaves so) no edit
+ * (nor undo/redo) reloads the cell: `downloadEdits(areas)` sends the changed logic sheet,
+ * wiring or routine as one `download` event and the run goes on. `engineDocument` is what the
+ * engine runs; a refused download puts the parts back to what ran before (so they show as not
+ * yet sent and the button resends them) and keeps the engine's problems in `downloadRefusal`.
+ *
  * Driving the run
  * ---------------
  *   const send = useSendEvent();
@@ -58,7 +65,8 @@
  * The result comes back asynchronously; a rejected event is reported in `engine.lastRejection`.
  *
  * Run controls: `run(1 | 10 | 'max')`, `pause()`, `stepScan()` (advance to the end of the next
- * PLC scan), `restartRun()` (reload the current document at time 0).
+ * PLC scan), `restartRun()` (reload the current document at time 0; where edits wait for a download, the
+ * init document, leaving the edits to download).
  */
 import { createContext, useContext } from 'react';
 import { useStoreWithEqualityFn } from 'zustand/traditional';
@@ -116,6 +124,13 @@ export type WorkspaceInit = {
   canEdit: boolean;
   /** False when force/unforce is forbidden (a drill's permission); default true. */
   forceAllowed?: boolean;
+  /**
+   * True when edits must not restart the run: the document changes, the running cell keeps
+   * going until `downloadEdits` sends the changed parts. "Restart run" reloads at time 0 from
+   * this init document (where a recorded run's replay starts), leaving the edits to download.
+   * Default false (the cell workspace reloads on every edit).
+   */
+  editsWaitForDownload?: boolean;
 };
 
 /** Store state. */
@@ -133,6 +148,11 @@ export type WorkspaceState = {
    * `downloadEdits` sends the logic/wiring/routine parts where `document` differs from it.
    */
   engineDocument: CellDocument;
+  /**
+   * The last download the engine refused and why (paths into the document); cleared by the next
+   * download and by a reload. The refused parts count as not yet sent again.
+   */
+  downloadRefusal: { event: DownloadEvent; problems: Problem[] } | null;
   past: HistoryEntry[];
   future: HistoryEntry[];
   dirty: boolean;
@@ -164,7 +184,7 @@ export type WorkspaceActions = {
   pause(): void;
   /** Advances the cell to the end of the next PLC scan (paused). */
   stepScan(): void;
-  /** Reloads the current document at time 0 and keeps the run state (running or paused). */
+  /** Reloads the current document (or, where edits wait for a download, the init document) at time 0; keeps the run state. */
   restartRun(): void;
   /** The run's event log so far, from the worker. */
   getEventLog(): Promise<LoggedEvent[]>;
@@ -174,6 +194,8 @@ export type WorkspaceActions = {
   /** Internal: the engine connection pushes into the store through these. */
   receiveSnapshot(snapshot: CellSnapshot): void;
   patchEngine(patch: Partial<EngineState>): void;
+  /** Internal: the engine took `event` (settles a download in flight). */
+  eventAccepted(event: CellEvent): void;
   /**
    * Internal: connects an engine (the provider does this with the Web Worker) and loads the
    * current document into it; returns the function that disconnects and stops it.

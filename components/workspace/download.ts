@@ -40,3 +40,42 @@ export function afterDownload(running: CellDocument, event: DownloadEvent): Cell
     controller: event.routine ? { ...running.controller, routine: event.routine.steps, poses: event.routine.poses } : running.controller,
   };
 }
+
+/** The parts a download event carries. */
+export function downloadParts(event: DownloadEvent): DownloadArea[] {
+  return DOWNLOAD_AREAS.filter((a) => (a === 'logic' ? event.logic : a === 'wiring' ? event.wiring : event.routine) !== undefined);
+}
+
+/** `target` with the given parts taken from `source` (everything else kept as in `target`). */
+export function withParts(target: CellDocument, source: CellDocument, parts: readonly DownloadArea[]): CellDocument {
+  if (parts.length === 0) return target;
+  return {
+    ...target,
+    plc: parts.includes('logic') ? { ...target.plc, sheet: source.plc.sheet } : target.plc,
+    wiring: parts.includes('wiring') ? source.wiring : target.wiring,
+    controller: parts.includes('routine') ? { ...target.controller, routine: source.controller.routine, poses: source.controller.poses } : target.controller,
+  };
+}
+
+/** A download sent to the engine whose answer has not come back yet, and what the engine ran before it. */
+export type DownloadInFlight = { event: DownloadEvent; key: string; before: CellDocument };
+
+/**
+ * What the engine runs once the download `refused` (sent while `inFlight` were out, in send
+ * order) is refused: the parts it carried go back to what ran before it, unless a later
+ * download in flight carries that part (then that one decides). Later downloads' `before`
+ * are corrected the same way, so a second refusal restores what the engine really had.
+ * Returns the corrected engine document and the downloads still in flight.
+ */
+export function revertRefused(engineDocument: CellDocument, inFlight: readonly DownloadInFlight[], refused: number): { engineDocument: CellDocument; inFlight: DownloadInFlight[] } {
+  const gone = inFlight[refused];
+  if (!gone) return { engineDocument, inFlight: [...inFlight] };
+  let open = downloadParts(gone.event);
+  const rest: DownloadInFlight[] = inFlight.slice(0, refused);
+  for (const later of inFlight.slice(refused + 1)) {
+    rest.push(open.length > 0 ? { ...later, before: withParts(later.before, gone.before, open) } : later);
+    const carried = downloadParts(later.event);
+    open = open.filter((p) => !carried.includes(p));
+  }
+  return { engineDocument: withParts(engineDocument, gone.before, open), inFlight: rest };
+}

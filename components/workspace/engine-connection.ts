@@ -42,6 +42,7 @@ export function connectEngineWorker(sink: EngineSink): EngineConnection {
         break;
       case 'accepted':
         sink.patch({ lastRejection: null, eventCount: m.eventCount });
+        sink.accepted?.(m.event);
         break;
       case 'rejected':
         sink.patch({ lastRejection: { event: m.event, problems: m.problems } });

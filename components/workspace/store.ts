@@ -4,9 +4,9 @@
  * run it without a Web Worker and the worker stays replaceable.
  */
 import { createStore } from 'zustand/vanilla';
-import type { CellDocument, CellEvent, LoggedEvent, CellSnapshot } from '@/simulator';
+import type { CellDocument, CellEvent, DownloadEvent, LoggedEvent, CellSnapshot, Problem } from '@/simulator';
 import type { TraceChunk } from './engine-protocol';
-import { afterDownload, downloadEvent } from './download';
+import { afterDownload, downloadEvent, revertRefused, type DownloadInFlight } from './download';
 import type { EngineState, HistoryEntry, RunSpeed, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
 
 /** Undo depth; older steps fall off (a document is small, but hours of editing add up). */
@@ -34,6 +34,12 @@ export type EngineSink = {
   /** Exact signal changes; never coalesced (unlike snapshots), so no edge is lost. */
   trace(chunk: TraceChunk): void;
   patch(patch: Partial<EngineState>): void;
+  /**
+   * The engine took `event` (the worker applied it; a server-side run stored it). Optional for
+   * connections that cannot tell; the store uses it to settle downloads still in flight.
+   * A refusal is reported through `patch({ lastRejection })`.
+   */
+  accepted?(event: CellEvent): void;
 };
 
 /** Builds an engine connection for a store; receives the sink it reports into. */
@@ -65,14 +71,42 @@ export function sameDocument(a: CellDocument, b: CellDocument): boolean {
 export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: EngineFactory): WorkspaceStoreApi {
   let engine: EngineConnection | null = null;
   const traceListeners = new Set<(chunk: TraceChunk) => void>();
+  // Downloads sent and not yet answered, oldest first: a refusal puts what they carried back to "not sent".
+  let inFlight: DownloadInFlight[] = [];
+  const editsWait = init.editsWaitForDownload === true;
 
   const store = createStore<WorkspaceStore>()((set, get) => {
-    const applyDocument = (document: CellDocument, reload: boolean) => {
-      if (reload && !engine?.keepsRunOnEdit) set({ engineDocument: document });
+    /**
+     * Hands `document` to the engine: an edit reloads the cell at time 0 unless this run's
+     * edits wait for a download; `restart` always reloads (the "Restart run" control).
+     */
+    const applyDocument = (document: CellDocument, reload: boolean, restart = false) => {
+      if (reload && editsWait && !restart) return;
+      if (reload && !engine?.keepsRunOnEdit) {
+        inFlight = [];
+        set({ engineDocument: document, downloadRefusal: null });
+      }
       if (reload) {
         set({ engine: { ...get().engine, status: 'loading', problems: [], lastRejection: null } });
         engine?.load(document);
       }
+    };
+    const findInFlight = (event: DownloadEvent) => {
+      // The worker answers with a structured clone, a server-side run with the very object: match either way.
+      const byIdentity = inFlight.findIndex((f) => f.event === event);
+      if (byIdentity >= 0) return byIdentity;
+      const key = JSON.stringify(event);
+      return inFlight.findIndex((f) => f.key === key);
+    };
+    const downloadRefused = (event: DownloadEvent, problems: Problem[]) => {
+      const i = findInFlight(event);
+      if (i < 0) {
+        set({ downloadRefusal: { event, problems } });
+        return;
+      }
+      const next = revertRefused(get().engineDocument, inFlight, i);
+      inFlight = next.inFlight;
+      set({ engineDocument: next.engineDocument, downloadRefusal: { event, problems } });
     };
     const pushHistory = (stack: HistoryEntry[], entry: HistoryEntry) => {
       const next = [...stack, entry];
@@ -87,6 +121,7 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
       document: init.document,
       savedDocument: init.document,
       engineDocument: init.document,
+      downloadRefusal: null,
       past: [],
       future: [],
       dirty: false,
@@ -171,9 +206,10 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
         const { engineDocument, document } = get();
         const event = downloadEvent(engineDocument, document, areas);
         if (!event) return null;
-        // Optimistic: a refused download shows in engine.lastRejection; the edits stay in the
-        // document, so correcting them and downloading again sends the parts that still differ.
-        set({ engineDocument: afterDownload(engineDocument, event) });
+        // Optimistic: the parts count as sent at once. A refusal (engine.lastRejection) puts them
+        // back to what ran before, so the edits show as not yet sent and the button resends them.
+        inFlight.push({ event, key: JSON.stringify(event), before: engineDocument });
+        set({ engineDocument: afterDownload(engineDocument, event), downloadRefusal: null });
         get().sendEvent(event);
         return event;
       },
@@ -190,7 +226,9 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
         engine?.stepScan();
       },
       restartRun() {
-        applyDocument(get().document, true);
+        // Where edits wait for a download, a restart starts the run over from the document it
+        // began with (what a recorded run's replay starts from); the edits stay pending.
+        applyDocument(editsWait ? init.document : get().document, true, true);
       },
       getEventLog() {
         return engine ? engine.getEventLog() : Promise.resolve([]);
@@ -208,6 +246,13 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
       patchEngine(patch) {
         // A document that does not load leaves no running cell: drop the old picture rather than show it as live.
         set((s) => ({ engine: { ...s.engine, ...patch }, ...(patch.status === 'invalid' ? { snapshot: null } : {}) }));
+        const refused = patch.lastRejection?.event;
+        if (refused?.type === 'download') downloadRefused(refused, patch.lastRejection!.problems);
+      },
+      eventAccepted(event) {
+        if (event.type !== 'download') return;
+        const i = findInFlight(event);
+        if (i >= 0) inFlight = inFlight.filter((_, j) => j !== i);
       },
       attachEngine(factory) {
         engine?.dispose();
@@ -215,10 +260,12 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
           snapshot: (snap) => get().receiveSnapshot(snap),
           trace: (chunk) => traceListeners.forEach((l) => l(chunk)),
           patch: (p) => get().patchEngine(p),
+          accepted: (e) => get().eventAccepted(e),
         });
         engine = conn;
+        inFlight = [];
         const { running, speed } = get().engine;
-        set({ snapshot: null, engine: { ...INITIAL_ENGINE, running, speed }, engineDocument: get().document });
+        set({ snapshot: null, engine: { ...INITIAL_ENGINE, running, speed }, engineDocument: get().document, downloadRefusal: null });
         conn.load(get().document);
         if (running) conn.run(speed);
         return () => {

@@ -58,23 +58,36 @@ export async function storedLog(runId: string): Promise<{ events: LoggedEvent[];
 type LiveSetup = RunSetup & { run: Run };
 
 /**
- * The run's live cell: from the cache, else rebuilt from the stored log (with the run re-read,
- * so the cached row is current when cached). The cache entry also keeps the run's setup and
- * stored end, so a batch needs no reads beyond the session check and its insert; a cache made
- * stale by another server process is caught by the insert's own checks.
+ * The run's live cell: from the cache, else rebuilt from the stored log. The cache entry also
+ * keeps the run's setup and stored end, so a batch needs no reads beyond the session check and
+ * its insert; a cache made stale by another server process (or a status that changed since the
+ * run was read) is caught by the insert's own checks.
  */
 async function liveCell(run: Run): Promise<LiveRun<LiveSetup>> {
   const hit = getLiveRun(run.id) as LiveRun<LiveSetup> | undefined;
   if (hit) return hit;
-  const fresh = await findRun(run.id);
-  if (!fresh) throw new ApiError(404, 'No such run.');
-  const setup = await runSetup(fresh);
+  const setup = await runSetup(run);
   const log = await storedLog(run.id);
   const made = replayRun({ ...setup.context, trace: [] }, log.events, log.untilMs);
   if (!made.ok) throw new Error(`run ${run.id} does not replay: ${JSON.stringify(made.errors.slice(0, 3))}`);
-  const live: LiveRun<LiveSetup> = { cell: made.value, lastSeq: log.lastSeq, untilMs: log.untilMs, setup: { ...setup, run: fresh } };
+  const live: LiveRun<LiveSetup> = { cell: made.value, lastSeq: log.lastSeq, untilMs: log.untilMs, setup: { ...setup, run } };
   putLiveRun(run.id, live);
   return live;
+}
+
+/**
+ * Builds an active run's live cell when the run starts or resumes, so its first batch does not
+ * pay for building the cell (and replaying the log): a class starting a drill together would
+ * otherwise send a burst of first batches that each build one. Only a cache: when building
+ * fails here, the first batch rebuilds it and reports the error to the client.
+ */
+export async function prepareLiveRun(run: Run): Promise<void> {
+  if (run.status !== 'active') return;
+  try {
+    await withRunLock(run.id, () => liveCell(run));
+  } catch {
+    // Left to the batch path (see above).
+  }
 }
 
 /**

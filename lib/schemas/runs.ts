@@ -43,6 +43,11 @@ export const pageQuerySchema = z.object({
 export const practiceStartSchema = z.object({
   cellId: z.uuid({ message: 'Choose a cell.' }),
   version: z.number().int().min(1).optional(),
+  /**
+   * Practice only (never graded): the browser may name the seed its worker already runs, so a run
+   * opened after "Restart run" replays exactly what the student saw.
+   */
+  seed: z.number().int().min(0).max(0xffffffff).optional(),
 });
 
 export const overrideSchema = z.object({

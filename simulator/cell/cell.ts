@@ -1404,7 +1404,7 @@ class CellRuntime {
   applyEvent(input: unknown): Result<{ timeMs: number }> {
     if (this.disposed) return err('disposed', 'the cell has been disposed');
     const parsed = cellEventSchema.safeParse(input);
-    if (!parsed.success) return { ok: false, errors: zodProblems(parsed.error.issues) };
+    if (!parsed.success) return { ok: false, errors: downloadPathsIntoDocument(input, zodProblems(parsed.error.issues)) };
     const e = parsed.data;
     this.invalidateWiring();
     const r = this.applyParsed(e);
@@ -1960,4 +1960,22 @@ class CellRuntime {
       dispose: () => rt.dispose(),
     };
   }
+}
+
+/**
+ * A download's shape problems come from the event schema, with paths into the event
+ * (`['logic', 'blocks', 3, ...]`). docs/engine.md promises paths into the document, as the
+ * merged-document check gives, so the carried parts are re-rooted where they live there.
+ */
+function downloadPathsIntoDocument(input: unknown, problems: Problem[]): Problem[] {
+  if (typeof input !== 'object' || input === null || (input as { type?: unknown }).type !== 'download') return problems;
+  return problems.map((p) => {
+    const [head, ...rest] = p.path;
+    if (head === 'logic') return { ...p, path: ['plc', 'sheet', ...rest] };
+    if (head === 'wiring') return { ...p, path: ['wiring', ...rest] };
+    // The routine part is `{ steps, poses }`; the document keeps them as controller.routine / controller.poses.
+    if (head === 'routine' && rest[0] === 'steps') return { ...p, path: ['controller', 'routine', ...rest.slice(1)] };
+    if (head === 'routine' && rest[0] === 'poses') return { ...p, path: ['controller', 'poses', ...rest.slice(1)] };
+    return p;
+  });
 }

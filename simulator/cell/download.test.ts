@@ -78,6 +78,14 @@ describe('download event', () => {
     const r2 = c.apply({ type: 'download', wiring });
     expect(r2.ok).toBe(false);
     if (!r2.ok) expect(r2.errors.every((p) => p.path[0] === 'wiring')).toBe(true);
+    // A shape problem (a negative preset) is found by the event schema; its path still points into the document.
+    const negative = structuredClone(pickAndPlaceDebouncedSheet());
+    const timer = negative.blocks.findIndex((b) => b.type === 'TON' || b.type === 'TOF' || b.type === 'TP');
+    // Deliberately malformed, as a hand-edited or corrupted download would be: bypass the types.
+    (negative.blocks[timer].params as Record<string, unknown>).PT = -5;
+    const r4 = c.apply({ type: 'download', logic: negative });
+    expect(r4.ok).toBe(false);
+    if (!r4.ok) expect(r4.errors.map((p) => p.path.slice(0, 6))).toContainEqual(['plc', 'sheet', 'blocks', timer, 'params', 'PT']);
     const r3 = c.apply({ type: 'download' });
     expect(r3.ok).toBe(false);
     if (!r3.ok) expect(r3.errors[0].code).toBe('empty_download');

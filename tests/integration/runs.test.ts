@@ -222,6 +222,18 @@ describe('batches of a cached run (the batch path reads only the session and its
     expect((await post(s, runId, { key: key(), ...LOG[0] })).status).toBe(201);
   });
 
+  it('starting (or resuming) a run builds its live cell, so the first batch does not; the cell matches the log', async () => {
+    const w = await drillWorld(trainer, 1);
+    const s = w.students[0];
+    const runId = (await start(s, w.assignmentId)).body.run.id;
+    expect(getLiveRun(runId)).toBeDefined();
+    expect((await post(s, runId, { key: key(), ...LOG[0] })).status).toBe(201);
+    clearLiveRuns();
+    expect((await start(s, w.assignmentId)).status).toBe(200);
+    expect(getLiveRun(runId)!.lastSeq).toBe(1);
+    expect(getLiveRun(runId)!.cell.snapshot()).toEqual(await uncachedSnapshot((await findRun(runId))!));
+  });
+
   it('a cached run stays 404 to everyone but its owner', async () => {
     const w = await drillWorld(trainer, 2);
     const [owner, other] = w.students;
@@ -324,6 +336,12 @@ describe('submit, grading and replay', () => {
     expect((ev.body as { total: number }).total).toBe(1);
     const mine = await call(runs.GET, '/api/runs', { cookie });
     expect((mine.body as { runs: { id: string }[] }).runs.map((r) => r.id)).toContain(runId);
+    // A practice run opened after "Restart run" keeps the seed the browser's worker runs.
+    const again = await call(runs.POST, '/api/runs', { method: 'POST', cookie, body: { cellId: shared.cell_id, seed: 4242 } });
+    expect(again.status, JSON.stringify(again.body)).toBe(201);
+    expect((await findRun((again.body as { run: { id: string } }).run.id))!.seed).toBe(4242);
+    const badSeed = await call(runs.POST, '/api/runs', { method: 'POST', cookie, body: { cellId: shared.cell_id, seed: -1 } });
+    expect(badSeed.status).toBe(422);
     const cellOfOther = await db()('cells').where({ owner_id: (await demoUser('lead@brennick.test')).id }).first('id');
     expect((await call(runs.POST, '/api/runs', { method: 'POST', cookie, body: { cellId: cellOfOther.id } })).status).toBe(404);
   });

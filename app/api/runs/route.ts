@@ -3,7 +3,7 @@ import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { runView } from '@/lib/runs/access';
-import { newSeed } from '@/lib/runs/service';
+import { newSeed, prepareLiveRun } from '@/lib/runs/service';
 import { practiceStartSchema } from '@/lib/schemas/runs';
 import { getVersion } from '@/db/cells';
 import { createRun, listRunsOfUser } from '@/db/runs';
@@ -26,6 +26,7 @@ export const POST = apiRoute(async (req: Request) => {
   await cellForReader(user, body.cellId);
   const version = await getVersion(body.cellId, body.version);
   if (!version) throw new ApiError(422, 'Some fields are not valid.', { version: ['The cell has no such version.'] });
-  const run = await createRun({ userId: user.id, mode: 'practice', cellId: body.cellId, cellVersion: version.version, seed: newSeed() });
+  const run = await createRun({ userId: user.id, mode: 'practice', cellId: body.cellId, cellVersion: version.version, seed: body.seed ?? newSeed() });
+  await prepareLiveRun(run);
   return Response.json({ run: runView(run, true), document: version.document }, { status: 201 });
 });
