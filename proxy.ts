@@ -19,5 +19,5 @@ export function proxy(request: NextRequest) {
 }
 
 export const config = {
-  matcher: ['/dashboard/:path*', '/cohorts/:path*', '/admin/:path*'],
+  matcher: ['/dashboard/:path*', '/cohorts/:path*', '/admin/:path*', '/cells/:path*', '/drills/:path*', '/runs/:path*', '/gradebook/:path*'],
 };
