@@ -5,13 +5,17 @@ import { shallowEqual, useForceAllowed, useSelection, useSendEvent, useSnapshot,
 import { endpointText } from '@/components/field/endpoint-text';
 import type { WiringRow } from '@/simulator';
 import { useRelated } from '@/components/workspace/use-related';
+import { useSignalLabels } from '@/components/workspace/use-signal-labels';
 
-/** What each PLC address is wired to, from the terminal strip (`← start:contact`, `→ R0.S1.C0`). */
-function wiredTo(wiring: WiringRow[]): Map<string, string> {
+/**
+ * What each PLC address is wired to, from the terminal strip, named by the signal labels where
+ * they know it (`← Cycle start (start:contact)`, `→ DI1 Start (R0.S1.C0)`), else the bare end.
+ */
+function wiredTo(wiring: WiringRow[], labels: Record<string, string>): Map<string, string> {
   const map = new Map<string, string>();
   for (const w of wiring) {
-    if ('plc' in w.to) map.set(w.to.plc, `← ${endpointText(w.from)}`);
-    if ('plc' in w.from) map.set(w.from.plc, `→ ${endpointText(w.to)}`);
+    if ('plc' in w.to) map.set(w.to.plc, `← ${labels[w.to.plc] ?? endpointText(w.from)}`);
+    if ('plc' in w.from) map.set(w.from.plc, `→ ${labels[w.from.plc] ?? endpointText(w.to)}`);
   }
   return map;
 }
@@ -30,14 +34,16 @@ export function MonitorArea() {
   const points = useSnapshot((s) => s.controller.points, shallowEqual) ?? [];
   const [filter, setFilter] = useState('');
   const wiring = useWorkspace((s) => s.document.wiring);
-  const wired = wiredTo(wiring);
+  const labels = useSignalLabels();
+  const wired = wiredTo(wiring, labels);
 
   const rows: Row[] = [
     ...Object.entries(addresses).map(([a, v]) => ({ target: a, kind: 'address' as const, label: '', where: `PLC ${wired.get(a) ?? '(not wired)'}`, value: v.value, forced: v.forced, bit: isBit(a) })),
     ...points.map((p) => ({
       target: p.ref,
       kind: 'point' as const,
-      label: p.label + (p.invert ? ' (inverted)' : ''),
+      // The live point map's label; an unlabelled point is named by what is wired to its channel.
+      label: p.label ? p.label + (p.invert ? ' (inverted)' : '') : (labels[p.ref] ?? (p.invert ? '(inverted)' : '')),
       where: `rack ${p.rack} · slot ${p.slot} · ch ${p.channel}`,
       value: p.value,
       forced: p.forced,
@@ -45,7 +51,7 @@ export function MonitorArea() {
     })),
   ];
   const q = filter.trim().toLowerCase();
-  const shown = q ? rows.filter((r) => `${r.target} ${r.label}`.toLowerCase().includes(q)) : rows;
+  const shown = q ? rows.filter((r) => `${r.target} ${r.label} ${r.where}`.toLowerCase().includes(q)) : rows;
 
   return (
     <div className="space-y-3">
@@ -56,7 +62,7 @@ export function MonitorArea() {
       )}
       <label className="flex max-w-sm items-center gap-2 text-sm">
         <span className="text-slate-700">Filter</span>
-        <input value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="%IX0 or DI" className="flex-1 rounded border border-slate-300 px-2 py-1 font-mono text-sm" />
+        <input value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="%IX0, DI or a device name" className="flex-1 rounded border border-slate-300 px-2 py-1 font-mono text-sm" />
       </label>
       <div className="overflow-x-auto rounded-md border border-slate-300 bg-white">
         <table className="w-full text-left text-sm" data-testid="monitor-table">

@@ -5,10 +5,14 @@ import { formatCellTime } from '@/components/workspace/format';
 import { useScopeData } from './scope-context';
 import { snapToEdge } from './edges';
 import type { SignalHistory } from './scope-recorder';
+import { useSignalLabels } from '@/components/workspace/use-signal-labels';
 
 const WINDOWS = [2000, 10_000, 30_000];
 const PLOT_W = 860;
-const LABEL_W = 110;
+/** Room left of the plot for the address, its live value and the wired device's label. */
+const LABEL_W = 220;
+/** Longest label drawn in a lane heading (about what fits LABEL_W at the small size); the full text is in the hover title. */
+const LANE_LABEL_CHARS = 40;
 const LANE_H = 38;
 const AXIS_H = 22;
 /** Cursor clicks snap to an edge closer than this many pixels. */
@@ -20,6 +24,7 @@ const isBitKey = (k: string) => /^%[IQM]X/.test(k) || /^(DI|DO|TI|TO)\d/.test(k)
 export function ScopeArea() {
   const [frozen, setFrozen] = useState(false);
   const data = useScopeData(frozen);
+  const labels = useSignalLabels();
   const keys = useMemo(() => [...data.signals].sort(), [data.signals]);
   const [chosen, setChosen] = useState<string[] | null>(null);
   const shown = (chosen ?? keys.filter(isBitKey).slice(0, 6)).filter((k) => keys.includes(k));
@@ -53,14 +58,17 @@ export function ScopeArea() {
 
   return (
     <div className="flex flex-col gap-3 lg:flex-row">
-      <fieldset className="w-full shrink-0 rounded-md border border-slate-300 bg-white p-2 lg:w-56">
+      <fieldset className="w-full shrink-0 rounded-md border border-slate-300 bg-white p-2 lg:w-72">
         <legend className="px-1 text-xs font-semibold text-slate-700">Signals</legend>
         <div className="max-h-96 space-y-0.5 overflow-y-auto">
           {keys.length === 0 ? <p className="text-xs text-slate-500">Waiting for the first samples…</p> : null}
           {keys.map((k) => (
-            <label key={k} className="flex items-center gap-2 font-mono text-xs">
-              <input type="checkbox" checked={shown.includes(k)} onChange={() => toggle(k)} className="accent-accent-700" />
-              {k}
+            <label key={k} className="flex items-start gap-2 text-xs">
+              <input type="checkbox" checked={shown.includes(k)} onChange={() => toggle(k)} className="mt-0.5 accent-accent-700" />
+              <span className="min-w-0 break-words">
+                <span className="font-mono">{k}</span>
+                {labels[k] ? <span className="text-[11px] text-slate-500"> · {labels[k]}</span> : null}
+              </span>
             </label>
           ))}
         </div>
@@ -96,7 +104,7 @@ export function ScopeArea() {
           >
             <TimeAxis start={start} windowMs={windowMs} x={x} height={height} />
             {shown.map((k, i) => (
-              <Lane key={k} name={k} history={historyOf(k)} top={AXIS_H + i * LANE_H} x={x} start={start} end={end} />
+              <Lane key={k} name={k} label={labels[k]} history={historyOf(k)} top={AXIS_H + i * LANE_H} x={x} start={start} end={end} />
             ))}
             {(['a', 'b'] as const).map((c) =>
               cursors[c] !== null && cursors[c]! >= start ? (
@@ -154,7 +162,7 @@ function TimeAxis({ start, windowMs, x, height }: { start: number; windowMs: num
   );
 }
 
-function Lane({ name, history, top, x, start, end }: { name: string; history: SignalHistory; top: number; x: (t: number) => number; start: number; end: number }) {
+function Lane({ name, label, history, top, x, start, end }: { name: string; label: string | undefined; history: SignalHistory; top: number; x: (t: number) => number; start: number; end: number }) {
   const bit = isBitKey(name);
   // The value in force at the window start, then every change inside the window.
   const firstInside = history.findIndex((h) => h.t > start);
@@ -186,16 +194,23 @@ function Lane({ name, history, top, x, start, end }: { name: string; history: Si
   return (
     <g data-testid={`scope-lane-${name}`}>
       <line x1={0} x2={LABEL_W + PLOT_W} y1={top + LANE_H} y2={top + LANE_H} stroke="#1e293b" />
-      <text x={6} y={top + LANE_H / 2 + 4} fontSize={11} fill="#e2e8f0" fontFamily="var(--font-mono)">
+      {/* Address on the first line, the wired device or point label under it, smaller and dimmer. */}
+      <text x={6} y={top + (label ? 15 : LANE_H / 2 + 4)} fontSize={11} fill="#e2e8f0" fontFamily="var(--font-mono)">
         {name}
       </text>
+      {label ? (
+        <text x={6} y={top + 29} fontSize={9.5} fill="#94a3b8">
+          <title>{label}</title>
+          {label.length > LANE_LABEL_CHARS ? `${label.slice(0, LANE_LABEL_CHARS - 1)}…` : label}
+        </text>
+      ) : null}
       <path d={d} fill="none" stroke="#64748b" strokeWidth={1.25} />
       {/* ON is drawn brighter and thicker on top of the trace, not by colour alone. */}
       {onSegments.map((s, i) => (
         <path key={i} d={s} fill="none" stroke="#5eead4" strokeWidth={3.5} />
       ))}
       {last ? (
-        <text x={LABEL_W - 6} y={top + LANE_H / 2 + 4} fontSize={10} textAnchor="end" fill={bit && last.v !== 0 ? '#5eead4' : '#94a3b8'} fontWeight={bit && last.v !== 0 ? 700 : 400} className={cn('font-mono')}>
+        <text x={LABEL_W - 6} y={top + (label ? 15 : LANE_H / 2 + 4)} fontSize={10} textAnchor="end" fill={bit && last.v !== 0 ? '#5eead4' : '#94a3b8'} fontWeight={bit && last.v !== 0 ? 700 : 400} className={cn('font-mono')}>
           {bit ? (last.v !== 0 ? 'ON' : 'off') : last.v}
         </text>
       ) : null}
