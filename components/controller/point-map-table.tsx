@@ -11,7 +11,7 @@ import type { ControllerModule, PointFamily, PointMapRow } from '@/simulator';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/components/ui/cn';
 import { canApplyStaged, pointMapView, rowChannels, channelRange, type RowState } from './point-map-state';
-import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
+import { NumberCell } from './number-cell';
 
 const FAMILIES: PointFamily[] = ['DI', 'DO', 'AI', 'AO', 'WI', 'WO', 'TI', 'TO'];
 
@@ -31,26 +31,8 @@ type Props = {
   onRestart(): void;
 };
 
-function IntCell({ label, value, min, max, disabled, onCommit }: { label: string; value: number; min: number; max: number; disabled: boolean; onCommit(v: number): void }) {
-  const [text, setText] = useDraft(String(value));
-  const commit = () => {
-    const n = Number(text);
-    if (Number.isInteger(n) && n >= min && n <= max) {
-      if (n !== value) onCommit(n);
-    } else setText(String(value));
-  };
-  return (
-    <input
-      aria-label={label}
-      inputMode="numeric"
-      className="w-14 rounded border border-slate-300 px-1 py-0.5 font-mono text-sm disabled:bg-transparent disabled:text-slate-500"
-      value={text}
-      disabled={disabled}
-      onChange={(e) => setText(e.target.value)}
-      onBlur={commit}
-      onKeyDown={blurOnEnter}
-    />
-  );
+function IntCell(props: { label: string; value: number; min: number; max: number; disabled: boolean; onCommit(v: number): void }) {
+  return <NumberCell {...props} integer className="w-14 disabled:bg-transparent disabled:text-slate-500" />;
 }
 
 export function PointMapTable({ live, staged, modules, canEdit, onStage, onDiscard, onRestart }: Props) {

@@ -2,28 +2,10 @@
 /** The taught poses: coordinates per axis, speed and acceleration limits; add and remove. */
 import { Plus, Trash2 } from 'lucide-react';
 import type { Pose } from '@/simulator';
-import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
+import { NumberCell } from './number-cell';
 
-function Cell({ label, value, min, max, disabled, onCommit, exclusiveMin }: { label: string; value: number; min: number; max: number; disabled: boolean; exclusiveMin?: boolean; onCommit(v: number): void }) {
-  const [text, setText] = useDraft(String(value));
-  const commit = () => {
-    const n = Number(text);
-    const ok = text.trim() !== '' && Number.isFinite(n) && (exclusiveMin ? n > min : n >= min) && n <= max;
-    if (!ok) return setText(String(value));
-    if (n !== value) onCommit(n);
-  };
-  return (
-    <input
-      aria-label={label}
-      inputMode="decimal"
-      className="w-20 rounded border border-slate-300 px-1 py-0.5 font-mono text-sm disabled:border-transparent"
-      value={text}
-      disabled={disabled}
-      onChange={(e) => setText(e.target.value)}
-      onBlur={commit}
-      onKeyDown={blurOnEnter}
-    />
-  );
+function Cell(props: { label: string; value: number; min: number; max: number; disabled: boolean; exclusiveMin?: boolean; onCommit(v: number): void }) {
+  return <NumberCell {...props} className="w-20 disabled:border-transparent" />;
 }
 
 export function PosesTable({ poses, axes, homePose, canEdit, onChange }: { poses: readonly Pose[]; axes: number; homePose: string; canEdit: boolean; onChange(poses: Pose[], label: string): void }) {

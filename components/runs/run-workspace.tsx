@@ -4,10 +4,8 @@
  * same areas as the cell workspace, each editable or read-only as the run allows, without the
  * save controls (a run never changes the saved cell).
  */
-import { useMemo, useState, type KeyboardEvent, type ReactNode } from 'react';
-import { Activity, Cable, Cpu, LayoutPanelTop, Network, SlidersHorizontal } from 'lucide-react';
+import { useMemo, useState, type ReactNode } from 'react';
 import type { StoreApi } from 'zustand/vanilla';
-import { cn } from '@/components/ui/cn';
 import { SafetyCaution } from '@/components/ui/safety-caution';
 import { PanelArea } from '@/components/panel/panel-area';
 import { FieldArea } from '@/components/field/field-area';
@@ -21,17 +19,10 @@ import { WorkspaceStoreContext, useWorkspace, useWorkspaceApi, type WorkspaceIni
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
 import type { EngineFactory } from '@/components/workspace/store';
 import { DownloadButton } from '@/components/workspace/download-button';
+import { AreaTabs, type AreaId } from '@/components/workspace/area-tabs';
 import type { DownloadArea } from '@/components/workspace/download';
 
-export const RUN_AREAS = [
-  { id: 'panel', label: 'Panel', icon: LayoutPanelTop },
-  { id: 'field', label: 'Field', icon: Cable },
-  { id: 'logic', label: 'Logic', icon: Network },
-  { id: 'controller', label: 'Controller', icon: Cpu },
-  { id: 'monitor', label: 'Monitor', icon: SlidersHorizontal },
-  { id: 'scope', label: 'Scope', icon: Activity },
-] as const;
-export type RunAreaId = (typeof RUN_AREAS)[number]['id'];
+export type RunAreaId = AreaId;
 
 /** Which areas may change the cell; the panel is always operable. */
 export type AreaEditing = Partial<Record<RunAreaId, boolean>>;
@@ -109,12 +100,6 @@ function RunAreas({ editing, forceAllowed, strip, downloadable }: { editing: Are
   const status = useWorkspace((s) => s.engine.status);
   const problems = useWorkspace((s) => s.engine.problems);
 
-  const onTabKey = (e: KeyboardEvent<HTMLButtonElement>, index: number) => {
-    const delta = e.key === 'ArrowRight' ? 1 : e.key === 'ArrowLeft' ? -1 : 0;
-    if (!delta) return;
-    e.preventDefault();
-    setArea(RUN_AREAS[(index + delta + RUN_AREAS.length) % RUN_AREAS.length].id);
-  };
 
   return (
     <div className="space-y-3" data-testid="workspace">
@@ -131,33 +116,11 @@ function RunAreas({ editing, forceAllowed, strip, downloadable }: { editing: Are
           Refused “{rejection.event.type}”: {rejection.problems.map((p) => p.message).join('; ')}
         </p>
       ) : null}
-      <div role="tablist" aria-label="Workspace areas" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {RUN_AREAS.map((a, i) => {
-          const Icon = a.icon;
-          const selected = area === a.id;
-          return (
-            <button
-              key={a.id}
-              type="button"
-              role="tab"
-              id={`tab-${a.id}`}
-              aria-selected={selected}
-              aria-controls={`area-${a.id}`}
-              tabIndex={selected ? 0 : -1}
-              onClick={() => setArea(a.id)}
-              onKeyDown={(e) => onTabKey(e, i)}
-              className={cn(
-                '-mb-px inline-flex items-center gap-1.5 rounded-t-md border px-3 py-2 text-sm',
-                selected ? 'border-slate-300 border-b-white bg-white font-semibold text-accent-800' : 'border-transparent text-slate-600 hover:text-slate-900',
-              )}
-            >
-              <Icon aria-hidden className="h-4 w-4" />
-              {a.label}
-              {a.id !== 'panel' && a.id !== 'monitor' && a.id !== 'scope' && !editing[a.id] ? <span className="text-[10px] font-normal text-slate-400">read-only</span> : null}
-            </button>
-          );
-        })}
-      </div>
+      <AreaTabs
+        area={area}
+        onSelect={setArea}
+        badge={(id) => (id !== 'panel' && id !== 'monitor' && id !== 'scope' && !editing[id] ? <span className="text-[10px] font-normal text-slate-400">read-only</span> : null)}
+      />
       <div
         role="tabpanel"
         id={`area-${area}`}

@@ -1,6 +1,6 @@
 'use client';
-import { useEffect, useRef, useState, type KeyboardEvent } from 'react';
-import { Activity, Cable, Cpu, LayoutPanelTop, Network, Pencil, Radio, SlidersHorizontal } from 'lucide-react';
+import { useEffect, useState } from 'react';
+import { Pencil, Radio } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
 import { SafetyCaution } from '@/components/ui/safety-caution';
 import { PanelArea } from '@/components/panel/panel-area';
@@ -15,16 +15,7 @@ import { StatusStrip } from './status-strip';
 import { SaveControls } from './save-controls';
 import { useDraft } from './use-draft';
 import { LogicSlot, ControllerSlot } from './area-slots';
-
-const AREAS = [
-  { id: 'panel', label: 'Panel', icon: LayoutPanelTop },
-  { id: 'field', label: 'Field', icon: Cable },
-  { id: 'logic', label: 'Logic', icon: Network },
-  { id: 'controller', label: 'Controller', icon: Cpu },
-  { id: 'monitor', label: 'Monitor', icon: SlidersHorizontal },
-  { id: 'scope', label: 'Scope', icon: Activity },
-] as const;
-type AreaId = (typeof AREAS)[number]['id'];
+import { AreaTabs, type AreaId } from './area-tabs';
 
 /** The client island of the workspace page: one store, one engine worker, six areas. */
 export function Workspace({ init, cellName }: { init: WorkspaceInit; cellName: string }) {
@@ -47,7 +38,6 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
   const problemCount = useWorkspace((s) => s.engine.problems.length);
   const rejection = useWorkspace((s) => s.engine.lastRejection);
   const draft = useDraft();
-  const tabRefs = useRef<Record<string, HTMLButtonElement | null>>({});
 
   // Ctrl/Cmd+Z undo, Ctrl/Cmd+Shift+Z or Ctrl+Y redo — except inside text fields, which keep their own undo.
   useEffect(() => {
@@ -68,14 +58,6 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
     return () => window.removeEventListener('keydown', onKey);
   }, [api]);
 
-  const onTabKey = (e: KeyboardEvent<HTMLButtonElement>, index: number) => {
-    const delta = e.key === 'ArrowRight' ? 1 : e.key === 'ArrowLeft' ? -1 : 0;
-    if (!delta) return;
-    e.preventDefault();
-    const next = AREAS[(index + delta + AREAS.length) % AREAS.length];
-    setArea(next.id);
-    tabRefs.current[next.id]?.focus();
-  };
 
   return (
     <div className="space-y-3" data-testid="workspace">
@@ -144,38 +126,15 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
         </p>
       ) : null}
 
-      <div role="tablist" aria-label="Workspace areas" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {AREAS.map((a, i) => {
-          const Icon = a.icon;
-          const selected = area === a.id;
-          return (
-            <button
-              key={a.id}
-              ref={(el) => {
-                tabRefs.current[a.id] = el;
-              }}
-              type="button"
-              role="tab"
-              id={`tab-${a.id}`}
-              aria-selected={selected}
-              aria-controls={`area-${a.id}`}
-              tabIndex={selected ? 0 : -1}
-              onClick={() => setArea(a.id)}
-              onKeyDown={(e) => onTabKey(e, i)}
-              className={cn(
-                '-mb-px inline-flex items-center gap-1.5 rounded-t-md border px-3 py-2 text-sm',
-                selected ? 'border-slate-300 border-b-white bg-white font-semibold text-accent-800' : 'border-transparent text-slate-600 hover:text-slate-900',
-              )}
-            >
-              <Icon aria-hidden className="h-4 w-4" />
-              {a.label}
-            </button>
-          );
-        })}
-        <span className="ml-auto flex items-center gap-1 self-center text-xs text-slate-500">
-          <Radio aria-hidden className="h-3.5 w-3.5" /> live
-        </span>
-      </div>
+      <AreaTabs
+        area={area}
+        onSelect={setArea}
+        trailing={
+          <span className="ml-auto flex items-center gap-1 self-center text-xs text-slate-500">
+            <Radio aria-hidden className="h-3.5 w-3.5" /> live
+          </span>
+        }
+      />
 
       <div role="tabpanel" id={`area-${area}`} aria-labelledby={`tab-${area}`} className="min-h-[420px]" data-testid={`area-${area}`}>
         {area === 'panel' ? <PanelArea /> : null}
