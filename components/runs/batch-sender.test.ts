@@ -82,7 +82,7 @@ describe('batch sender', () => {
   it('retries a dropped connection with the same key and backoff 500, 1000, 2000 ms', async () => {
     const server = fakeServer();
     server.script.push('drop-before', 'drop-before', 503);
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500 });
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => 0 });
     s.push(press(5));
     await vi.advanceTimersByTimeAsync(10);
     expect(server.requests).toHaveLength(1);
@@ -100,10 +100,40 @@ describe('batch sender', () => {
     expect(s.getState()).toMatchObject({ storedSeq: 1, attempt: 0, lastError: null });
   });
 
+  it('shortens each retry delay by its jitter, at most by half (500 → 375, 1000 → 750 ms with a fraction of 0.5)', async () => {
+    // Exponential backoff with jitter: common practice for clients that may fail together.
+    const server = fakeServer();
+    server.script.push('drop-before', 'drop-before');
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => 0.5 });
+    s.push(press(5));
+    await vi.advanceTimersByTimeAsync(10);
+    await vi.advanceTimersByTimeAsync(374);
+    expect(server.requests).toHaveLength(1);
+    await vi.advanceTimersByTimeAsync(1);
+    expect(server.requests).toHaveLength(2);
+    await vi.advanceTimersByTimeAsync(749);
+    expect(server.requests).toHaveLength(2);
+    await vi.advanceTimersByTimeAsync(1);
+    expect(server.requests).toHaveLength(3);
+    expect(server.stored).toHaveLength(1);
+  });
+
+  it('never waits less than half the backoff, whatever the jitter draws', async () => {
+    const server = fakeServer();
+    server.script.push('drop-before');
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => 0.999999 });
+    s.push(press(5));
+    await vi.advanceTimersByTimeAsync(10);
+    await vi.advanceTimersByTimeAsync(249);
+    expect(server.requests).toHaveLength(1);
+    await vi.advanceTimersByTimeAsync(2);
+    expect(server.requests).toHaveLength(2);
+  });
+
   it('stores a batch once when the answer is lost after storing, and continues with seq 2', async () => {
     const server = fakeServer();
     server.script.push('drop-after');
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 200 });
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 200, random: () => 0 });
     s.push(press(5));
     await vi.advanceTimersByTimeAsync(10);
     expect(server.stored).toHaveLength(1);
@@ -176,7 +206,7 @@ describe('batch sender', () => {
   it('flush resolves only once queued events and the cell time are stored', async () => {
     const server = fakeServer();
     server.script.push('drop-before');
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 1000, firstBackoffMs: 300 });
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 1000, firstBackoffMs: 300, random: () => 0 });
     s.push(press(10));
     s.advanceTo(750);
     let resolved = false;

@@ -56,9 +56,15 @@ export type BatchSenderOptions = {
   eventDelayMs?: number;
   /** How often the cell time alone is stored while nothing happens. */
   flushEveryMs?: number;
-  /** First retry delay; doubles per failure up to `maxBackoffMs`. */
+  /**
+   * First retry delay; doubles per failure up to `maxBackoffMs`. Each delay is shortened by a
+   * random part of up to half of it (jitter), so the clients of a whole class that lost the
+   * server together (a restart) do not all retry in the same millisecond.
+   */
   firstBackoffMs?: number;
   maxBackoffMs?: number;
+  /** The jitter's source, a fraction in [0, 1): 0 keeps the full delay. Math.random by default; tests fix it. */
+  random?: () => number;
   onChange?: (state: SenderState) => void;
   /** Events the server refused, with why (they are not stored). */
   onRejected?: (events: LoggedEvent[], message: string) => void;
@@ -102,6 +108,7 @@ export function createBatchSender(opts: BatchSenderOptions): BatchSender {
   const flushEveryMs = opts.flushEveryMs ?? 2000;
   const firstBackoffMs = opts.firstBackoffMs ?? 500;
   const maxBackoffMs = opts.maxBackoffMs ?? 10_000;
+  const random = opts.random ?? Math.random;
   const makeKey = opts.makeKey ?? ((seq: number) => `${opts.runId}.${seq}.${randomPart()}`);
   const { clock } = opts;
 
@@ -225,7 +232,10 @@ export function createBatchSender(opts: BatchSenderOptions): BatchSender {
       state.attempt += 1;
       state.lastError = body.error ?? `HTTP ${status}`;
       changed();
-      if (!disposed) schedule(Math.min(maxBackoffMs, firstBackoffMs * 2 ** (state.attempt - 1)));
+      if (!disposed) {
+        const full = Math.min(maxBackoffMs, firstBackoffMs * 2 ** (state.attempt - 1));
+        schedule(full - Math.floor((random() * full) / 2));
+      }
       return;
     }
     if (status === 422) {
