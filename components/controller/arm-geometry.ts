@@ -55,3 +55,17 @@ export function armGeometry(points: readonly (readonly number[])[]) {
     },
   };
 }
+
+/** Rough advance width of one character at `fontSize` in the UI's sans font (wide glyphs included). */
+const CHAR_WIDTH_EM = 0.6;
+
+/**
+ * Where a pose's label goes: to the right of its marker and above it, unless that would run
+ * past the view's right or top edge; then to the left (anchored at its end) or below.
+ */
+export function labelPlacement(px: number, py: number, text: string, w: number, fontSize = 11, gap = 8): { x: number; y: number; anchor: 'start' | 'end' } {
+  const width = text.length * fontSize * CHAR_WIDTH_EM;
+  const right = px + gap + width <= w - 2;
+  const above = py - 6 - fontSize >= 0;
+  return { x: right ? px + gap : px - gap, y: above ? py - 6 : py + 6 + fontSize, anchor: right ? 'start' : 'end' };
+}

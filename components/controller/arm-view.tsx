@@ -8,7 +8,7 @@
 import { useMemo } from 'react';
 import type { Pose } from '@/simulator';
 import { useSnapshot, shallowEqual } from '@/components/workspace/contract';
-import { armGeometry, fitView } from './arm-geometry';
+import { armGeometry, fitView, labelPlacement } from './arm-geometry';
 
 const W = 420;
 const H = 260;
@@ -49,11 +49,13 @@ export function ArmView({ poses, homePose }: { poses: readonly Pose[]; homePose:
         {poses.map((p) => {
           const [px, py] = P(p.coordinates[0] ?? 0, p.coordinates[1] ?? 0);
           const isTarget = p.id === target;
+          const label = p.label ?? p.id;
+          const at = labelPlacement(px, py, label, W);
           return (
             <g key={p.id}>
               <circle cx={px} cy={py} r={isTarget ? 7 : 5} fill={isTarget ? '#c8f3ee' : '#fff'} stroke={isTarget ? '#0f7874' : '#64748b'} strokeWidth={isTarget ? 2.5 : 1.5} />
-              <text x={px + 8} y={py - 6} fontSize={11} fill={isTarget ? '#10605d' : '#475569'} fontWeight={isTarget ? 700 : 400}>
-                {p.label ?? p.id}
+              <text x={at.x} y={at.y} textAnchor={at.anchor} fontSize={11} fill={isTarget ? '#10605d' : '#475569'} fontWeight={isTarget ? 700 : 400}>
+                {label}
               </text>
             </g>
           );

@@ -1,8 +1,9 @@
 'use client';
 /**
  * A number field in a table row that commits on blur or Enter and snaps back to the stored
- * value when the text is not acceptable. `integer` cells (point-map rows) take whole numbers in
- * [min, max]; decimal cells (poses) need a non-empty finite number, optionally above `min`.
+ * value when the text is not acceptable: an empty field is never a number (it is not 0).
+ * `integer` cells (point-map rows) take whole numbers in [min, max]; decimal cells (poses)
+ * take finite numbers in [min, max], or above `min` with `exclusiveMin`.
  */
 import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
 import { cn } from '@/components/ui/cn';
@@ -19,17 +20,24 @@ type Props = {
   className?: string;
 };
 
-function acceptable(text: string, n: number, { min, max, integer, exclusiveMin }: Props): boolean {
-  if (integer) return Number.isInteger(n) && n >= min && n <= max;
-  return text.trim() !== '' && Number.isFinite(n) && (exclusiveMin ? n > min : n >= min) && n <= max;
+type Bounds = Pick<Props, 'min' | 'max' | 'integer' | 'exclusiveMin'>;
+
+/** The number a cell's text commits, or null when the cell should snap back. */
+export function acceptedNumber(text: string, { min, max, integer, exclusiveMin }: Bounds): number | null {
+  // Number('') and Number('  ') are 0: a cleared field would otherwise commit 0.
+  if (text.trim() === '') return null;
+  const n = Number(text);
+  if (!Number.isFinite(n) || (integer && !Number.isInteger(n))) return null;
+  if (exclusiveMin ? n <= min : n < min) return null;
+  return n <= max ? n : null;
 }
 
 export function NumberCell(props: Props) {
   const { label, value, disabled, onCommit, integer, className } = props;
   const [text, setText] = useDraft(String(value));
   const commit = () => {
-    const n = Number(text);
-    if (!acceptable(text, n, props)) return setText(String(value));
+    const n = acceptedNumber(text, props);
+    if (n === null) return setText(String(value));
     if (n !== value) onCommit(n);
   };
   return (
