@@ -34,7 +34,10 @@ export async function completePasswordReset(
     const row = await findTokenRow(trx, 'password_resets', token, { forUpdate: true });
     const refusal = tokenRefusal(row, 'used_at');
     if (refusal) return { ok: false, reason: refusal };
-    await trx('users').where({ id: row.user_id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+    // A new generation ends every session opened with the old password (lib/auth/session.ts).
+    await trx('users')
+      .where({ id: row.user_id })
+      .update({ password_hash: passwordHash, session_generation: trx.raw('session_generation + 1'), updated_at: trx.fn.now() });
     await trx('password_resets').where({ user_id: row.user_id }).whereNull('used_at').update({ used_at: trx.fn.now() });
     await trx('sign_in_failures').where({ email: trx('users').select('email').where({ id: row.user_id }) }).delete();
     await writeAudit({ actorId: row.user_id, action: 'password.reset', targetUserId: row.user_id }, trx);

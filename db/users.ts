@@ -17,6 +17,7 @@ interface UserRow {
   last_sign_in_at: Date | null;
   created_at: Date;
   password_hash: string;
+  session_generation: number;
 }
 
 const PUBLIC_COLUMNS = ['id', 'email', 'name', 'role', 'organization', 'disabled', 'last_sign_in_at', 'created_at'];
@@ -54,10 +55,20 @@ export async function findUserByEmail(email: string): Promise<User | null> {
   return row ? toUser(row) : null;
 }
 
+/**
+ * The user behind a session, with the account's session generation: a token minted under
+ * another generation (before a password reset) no longer signs anybody in.
+ */
+export async function findSessionUser(id: string): Promise<{ user: User; sessionGeneration: number } | null> {
+  if (!isUuid(id)) return null;
+  const row = await db()('users').select([...PUBLIC_COLUMNS, 'session_generation']).where({ id }).first();
+  return row ? { user: toUser(row), sessionGeneration: row.session_generation } : null;
+}
+
 /** Only the sign-in and password paths may see the hash. */
-export async function findCredentials(email: string): Promise<(User & { passwordHash: string }) | null> {
+export async function findCredentials(email: string): Promise<(User & { passwordHash: string; sessionGeneration: number }) | null> {
   const row: UserRow | undefined = await db()('users').where({ email: normalizeEmail(email) }).first();
-  return row ? { ...toUser(row), passwordHash: row.password_hash } : null;
+  return row ? { ...toUser(row), passwordHash: row.password_hash, sessionGeneration: row.session_generation } : null;
 }
 
 export async function createUser(
@@ -77,7 +88,9 @@ export async function createUser(
 }
 
 export async function setPasswordHash(userId: string, passwordHash: string, trx: Knex = db()): Promise<void> {
-  await trx('users').where({ id: userId }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+  await trx('users')
+    .where({ id: userId })
+    .update({ password_hash: passwordHash, session_generation: trx.raw('session_generation + 1'), updated_at: trx.fn.now() });
 }
 
 export async function markSignedIn(userId: string): Promise<void> {

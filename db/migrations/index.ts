@@ -5,6 +5,7 @@ import * as m003 from './20261201_003_auth_support';
 import * as m004 from './20261201_004_mail_and_seed';
 import * as m101 from './20261201_101_cells';
 import * as m201 from './20261201_201_drills_and_runs';
+import * as m301 from './20261202_001_session_generation';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -23,6 +24,7 @@ const migrations: ReadonlyArray<readonly [string, Migration]> = [
   ['20261201_004_mail_and_seed', m004],
   ['20261201_101_cells', m101],
   ['20261201_201_drills_and_runs', m201],
+  ['20261202_001_session_generation', m301],
 ];
 
 export const migrationSource: Knex.MigrationSource<readonly [string, Migration]> = {

@@ -8,7 +8,7 @@ import { clearFailuresForEmail, countRecentFailures, recordFailure } from '@/db/
 import { writeAudit } from '@/db/audit';
 
 export type AuthResult =
-  | { ok: true; user: User }
+  | { ok: true; user: User; sessionGeneration: number }
   | { ok: false; reason: 'invalid' }
   | { ok: false; reason: 'disabled' }
   | { ok: false; reason: 'rate-limited'; retryAfterMinutes: number };
@@ -60,8 +60,8 @@ export async function authenticate(input: { email: unknown; password: unknown; a
   }
   await clearFailuresForEmail(email);
   await markSignedIn(account.id);
-  const { passwordHash: _hash, ...user } = account;
-  return { ok: true, user };
+  const { passwordHash: _hash, sessionGeneration, ...user } = account;
+  return { ok: true, user, sessionGeneration };
 }
 
 /**

@@ -14,5 +14,7 @@ declare module 'next-auth/jwt' {
   interface JWT {
     id: string;
     role: Role;
+    /** The account's session generation at sign-in (absent in tokens minted before it existed: 0). */
+    gen?: number;
   }
 }

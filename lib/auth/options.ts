@@ -44,7 +44,10 @@ export function authOptions(): NextAuthOptions {
             console.error('[auth] sign-in check failed', err);
             throw new Error(SIGN_IN_MESSAGES.unavailable);
           }
-          if (result.ok) return { id: result.user.id, email: result.user.email, name: result.user.name, role: result.user.role };
+          if (result.ok) {
+            const { id, email, name, role } = result.user;
+            return { id, email, name, role, sessionGeneration: result.sessionGeneration };
+          }
           // Thrown messages reach the form as `error`; null gives next-auth's generic code.
           if (result.reason === 'rate-limited') throw new Error(SIGN_IN_MESSAGES.rateLimited(result.retryAfterMinutes));
           if (result.reason === 'disabled') throw new Error(SIGN_IN_MESSAGES.disabled);
@@ -57,6 +60,8 @@ export function authOptions(): NextAuthOptions {
         if (user) {
           token.id = user.id;
           token.role = (user as { role: Role }).role;
+          // Kept through every refresh of the token; see userFromSessionToken.
+          token.gen = (user as { sessionGeneration?: number }).sessionGeneration ?? 0;
         }
         return token;
       },

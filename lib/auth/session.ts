@@ -6,7 +6,7 @@ import { env } from '@/lib/env';
 import { ApiError } from '@/lib/api/errors';
 import type { Role } from '@/lib/roles';
 import type { User } from '@/db/users';
-import { findUserById } from '@/db/users';
+import { findSessionUser } from '@/db/users';
 import { sessionCookieName } from './options';
 
 function readCookie(cookieHeader: string | null, name: string): string | null {
@@ -26,36 +26,40 @@ function readCookie(cookieHeader: string | null, name: string): string | null {
  * the database on every request. Bounded; the oldest entries go first.
  */
 const TOKEN_CACHE_MAX = 2000;
-const tokenCache = globalThis as unknown as { cellwrightSessionTokens?: Map<string, { userId: string; secret: string; expiresAtMs: number }> };
+type TokenFacts = { userId: string; generation: number };
+const tokenCache = globalThis as unknown as { cellwrightSessionTokens?: Map<string, TokenFacts & { secret: string; expiresAtMs: number }> };
 
-async function userIdOfToken(token: string): Promise<string | null> {
+async function factsOfToken(token: string): Promise<TokenFacts | null> {
   const secret = env().NEXTAUTH_SECRET;
   const cache = (tokenCache.cellwrightSessionTokens ??= new Map());
   const hit = cache.get(token);
-  if (hit && hit.secret === secret && hit.expiresAtMs > Date.now()) return hit.userId;
+  if (hit && hit.secret === secret && hit.expiresAtMs > Date.now()) return { userId: hit.userId, generation: hit.generation };
   if (hit) cache.delete(token);
   const payload = await decode({ token, secret });
   if (!payload?.id) return null;
-  const userId = String(payload.id);
+  const facts = { userId: String(payload.id), generation: typeof payload.gen === 'number' ? payload.gen : 0 };
   // Remembered up to the token's own expiry; decode itself allows a little clock skew past it.
   if (typeof payload.exp === 'number') {
     if (cache.size >= TOKEN_CACHE_MAX) cache.delete(cache.keys().next().value as string);
-    cache.set(token, { userId, secret, expiresAtMs: payload.exp * 1000 });
+    cache.set(token, { ...facts, secret, expiresAtMs: payload.exp * 1000 });
   }
-  return userId;
+  return facts;
 }
 
 /**
- * The signed-in user behind a session token, re-read from the database on
- * every call so a disabled account or a changed role takes effect at once.
+ * The signed-in user behind a session token, re-read from the database on every call so a
+ * disabled account, a changed role or a password reset (which ends older sessions) takes
+ * effect at once.
  */
 export async function userFromSessionToken(token: string | null | undefined): Promise<User | null> {
   if (!token) return null;
   try {
-    const userId = await userIdOfToken(token);
-    if (!userId) return null;
-    const user = await findUserById(userId);
-    return user && !user.disabled ? user : null;
+    const facts = await factsOfToken(token);
+    if (!facts) return null;
+    const found = await findSessionUser(facts.userId);
+    // A password reset raises the account's generation: sessions opened before it end here.
+    if (!found || found.sessionGeneration !== facts.generation) return null;
+    return found.user.disabled ? null : found.user;
   } catch {
     return null;
   }

@@ -10,6 +10,10 @@ import * as accept from '@/app/api/invitations/accept/route';
 import * as resets from '@/app/api/password-resets/route';
 import * as resetComplete from '@/app/api/password-resets/complete/route';
 import * as cohort from '@/app/api/cohorts/[id]/route';
+import * as cellsList from '@/app/api/cells/route';
+import { encode } from 'next-auth/jwt';
+import { authOptions } from '@/lib/auth/options';
+import { TEST_ENV } from './test-env';
 import { authenticate } from '@/lib/auth/credentials';
 import { hashToken } from '@/lib/tokens';
 import { closeDb, db } from '@/db/knex';
@@ -170,6 +174,31 @@ describe('password reset by e-mail', () => {
     const reuse = await call(resetComplete.POST, '/api/password-resets/complete', { method: 'POST', body: { token, password: 'third-password-789' } });
     expect(reuse.status).toBe(409);
     expect((await authenticate({ email: user.email, password: 'new-password-456', address: '10.0.0.2' })).ok).toBe(true);
+  });
+
+  it('ends the sessions opened before the reset; a sign-in with the new password gets a working one', async () => {
+    // Common practice (OWASP Session Management Cheat Sheet): a password change or reset
+    // invalidates the account's existing sessions.
+    const user = await makeUser('student', 'before-reset-123');
+    const oldCookie = await sessionCookie(user);
+    expect((await call(cellsList.GET, '/api/cells', { cookie: oldCookie })).status).toBe(200);
+
+    await call(resets.POST, '/api/password-resets', { method: 'POST', body: { email: user.email } });
+    const token = linkToken((await latestMailTo(user.email)).text_body, 'reset-password');
+    expect((await call(resetComplete.POST, '/api/password-resets/complete', { method: 'POST', body: { token, password: 'after-reset-456' } })).status).toBe(200);
+
+    expect((await call(cellsList.GET, '/api/cells', { cookie: oldCookie })).status).toBe(401);
+
+    // The new sign-in carries the account's new generation through next-auth's jwt callback.
+    const signedIn = await authenticate({ email: user.email, password: 'after-reset-456', address: '10.0.0.4' });
+    if (!signedIn.ok) throw new Error('the new password did not sign in');
+    expect(signedIn.sessionGeneration).toBe(1);
+    const jwt = authOptions().callbacks!.jwt!;
+    const minted = await jwt({ token: { sub: user.id } as never, user: { id: user.id, email: user.email, name: user.name, role: user.role, sessionGeneration: signedIn.sessionGeneration } as never, account: null, trigger: 'signIn' } as never);
+    expect(minted.gen).toBe(1);
+    const newCookie = `next-auth.session-token=${await encode({ token: minted, secret: TEST_ENV.NEXTAUTH_SECRET })}`;
+    expect((await call(cellsList.GET, '/api/cells', { cookie: newCookie })).status).toBe(200);
+    expect((await call(cellsList.GET, '/api/cells', { cookie: oldCookie })).status).toBe(401);
   });
 
   it('answers the same for an unknown address and sends nothing', async () => {
