@@ -100,34 +100,24 @@ describe('batch sender', () => {
     expect(s.getState()).toMatchObject({ storedSeq: 1, attempt: 0, lastError: null });
   });
 
-  it('shortens each retry delay by its jitter, at most by half (500 → 375, 1000 → 750 ms with a fraction of 0.5)', async () => {
-    // Exponential backoff with jitter: common practice for clients that may fail together.
+  // Exponential backoff with jitter: common practice for clients that may fail together. A
+  // fraction f shortens a delay d to d - floor(f × d / 2): never below half of it.
+  it.each([
+    { fraction: 0.5, delays: [375, 750] },
+    { fraction: 0.999999, delays: [251, 501] },
+  ])('with a jitter fraction of $fraction the retries wait $delays ms', async ({ fraction, delays }) => {
     const server = fakeServer();
     server.script.push('drop-before', 'drop-before');
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => 0.5 });
+    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => fraction });
     s.push(press(5));
     await vi.advanceTimersByTimeAsync(10);
-    await vi.advanceTimersByTimeAsync(374);
-    expect(server.requests).toHaveLength(1);
-    await vi.advanceTimersByTimeAsync(1);
-    expect(server.requests).toHaveLength(2);
-    await vi.advanceTimersByTimeAsync(749);
-    expect(server.requests).toHaveLength(2);
-    await vi.advanceTimersByTimeAsync(1);
-    expect(server.requests).toHaveLength(3);
+    for (const [i, delay] of delays.entries()) {
+      await vi.advanceTimersByTimeAsync(delay - 1);
+      expect(server.requests).toHaveLength(i + 1);
+      await vi.advanceTimersByTimeAsync(1);
+      expect(server.requests).toHaveLength(i + 2);
+    }
     expect(server.stored).toHaveLength(1);
-  });
-
-  it('never waits less than half the backoff, whatever the jitter draws', async () => {
-    const server = fakeServer();
-    server.script.push('drop-before');
-    const s = createBatchSender({ runId: 'run-1', fetch: server.fetch, clock, storedSeq: 0, storedUntilMs: 0, makeKey, eventDelayMs: 10, firstBackoffMs: 500, random: () => 0.999999 });
-    s.push(press(5));
-    await vi.advanceTimersByTimeAsync(10);
-    await vi.advanceTimersByTimeAsync(249);
-    expect(server.requests).toHaveLength(1);
-    await vi.advanceTimersByTimeAsync(2);
-    expect(server.requests).toHaveLength(2);
   });
 
   it('stores a batch once when the answer is lost after storing, and continues with seq 2', async () => {
