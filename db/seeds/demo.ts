@@ -3,6 +3,7 @@ import { hashPassword } from '@/lib/password';
 import type { Role } from '@/lib/roles';
 import { seedDemoCells } from './demo-cells';
 import { seedDemoDrills } from './demo-drills';
+import { seedDemoRuns } from './demo-runs';
 
 /** The invented demo scenario: a technical college's robot-cell class and a plant's maintenance lead. */
 export const DEMO_COLLEGE = 'Kestrel Vale Technical College';
@@ -34,6 +35,7 @@ export async function seedDemo(knex: Knex): Promise<boolean> {
   // Cells have their own marker, so a database seeded before cells existed gets them too.
   await seedDemoCells(knex);
   await seedDemoDrills(knex, DEMO_COHORT);
+  await seedDemoRuns(knex, DEMO_COHORT);
   return seeded;
 }
 
