@@ -238,9 +238,30 @@ export async function overrideGrade(run: Run, grade: number | null, reason: stri
   });
 }
 
-/** A user's runs, newest first (the "my runs" list and the practice history). */
+/** A user's runs, newest first, at most `limit` (GET /api/runs). */
 export async function listRunsOfUser(userId: string, limit = 100): Promise<Run[]> {
   return (await runQuery().where('r.user_id', userId).orderBy('r.started_at', 'desc').limit(limit)).map(toRun);
+}
+
+/** Every drill attempt of a user (one per assignment at most), newest first: dashboards and the runs page. */
+export async function listDrillRunsOfUser(userId: string): Promise<Run[]> {
+  return (await runQuery().where({ 'r.user_id': userId, 'r.mode': 'drill' }).orderBy('r.started_at', 'desc')).map(toRun);
+}
+
+/** One page of a user's practice runs, newest first, with the cell each ran and the total count. */
+export async function pagePracticeRunsOfUser(userId: string, page: number, pageSize: number): Promise<{ runs: (Run & { cellName: string })[]; total: number }> {
+  const where = { 'r.user_id': userId, 'r.mode': 'practice' };
+  const [rows, count] = await Promise.all([
+    runQuery()
+      .join('cells as c', 'c.id', 'r.cell_id')
+      .select('c.name as cell_name')
+      .where(where)
+      .orderBy([{ column: 'r.started_at', order: 'desc' }, { column: 'r.id' }])
+      .limit(pageSize)
+      .offset((page - 1) * pageSize),
+    db()('runs as r').where(where).count<{ n: string }[]>({ n: '*' }),
+  ]);
+  return { runs: rows.map((row) => ({ ...toRun(row), cellName: row.cell_name as string })), total: Number(count[0].n) };
 }
 
 /** Runs on a set of assignments (the gradebook). */

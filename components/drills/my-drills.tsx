@@ -3,14 +3,14 @@ import { formatDateTime } from '@/components/ui/format';
 import { cn } from '@/components/ui/cn';
 import { assignmentState } from '@/lib/drills/access';
 import { listAssignmentsForStudent } from '@/db/drills';
-import { listRunsOfUser } from '@/db/runs';
+import { listDrillRunsOfUser } from '@/db/runs';
 import { ListTable } from '@/components/ui/list-table';
 
 const STATE_STYLE = { upcoming: 'bg-slate-100 text-slate-700', open: 'bg-accent-50 text-accent-800 ring-1 ring-accent-200', closed: 'bg-slate-200 text-slate-700' } as const;
 
 /** A student's assigned drills: open or closed, their run, their grade (server component). */
 export async function MyDrillsTable({ userId, compact = false }: { userId: string; compact?: boolean }) {
-  const [assignments, runs] = await Promise.all([listAssignmentsForStudent(userId), listRunsOfUser(userId)]);
+  const [assignments, runs] = await Promise.all([listAssignmentsForStudent(userId), listDrillRunsOfUser(userId)]);
   const byAssignment = new Map(runs.filter((r) => r.assignmentId).map((r) => [r.assignmentId!, r]));
   return (
     <ListTable

@@ -17,7 +17,7 @@ import * as gradebook from '@/app/api/gradebook/route';
 import * as gradebookCsv from '@/app/api/gradebook/csv/route';
 import { closeDb, db } from '@/db/knex';
 import type { User } from '@/db/users';
-import { findRun, listSubmittedRuns } from '@/db/runs';
+import { createRun, findRun, listDrillRunsOfUser, listSubmittedRuns, pagePracticeRunsOfUser } from '@/db/runs';
 import { listDrills } from '@/db/drills';
 import { clearLiveRuns, getLiveRun } from '@/lib/runs/live-runs';
 import { regrade, uncachedSnapshot } from '@/lib/runs/service';
@@ -381,6 +381,36 @@ describe('gradebook', () => {
     const byStudent = await call(override.POST, '/x', { method: 'POST', cookie: await sessionCookie(world.students[0]), params: { id: runId }, body: { grade: 100, reason: 'I deserve it' } });
     expect(byStudent.status).toBe(403);
     expect((await findRun(runId))!.overrideGrade).toBe(80);
+  });
+});
+
+describe('run listings', () => {
+  it('a drill attempt stays listed behind any number of practice runs, and practice runs page without gaps or repeats', async () => {
+    const student = await makeUser('student');
+    await db()('memberships').insert({ cohort_id: world.cohortId, user_id: student.id });
+    const attempt = await start(student);
+    expect(attempt.status).toBe(201);
+    // 101 practice runs started after the attempt: more than one capped "latest runs" list holds.
+    const practiceIds: string[] = [];
+    for (let i = 0; i < 101; i++) {
+      const r = await createRun({ userId: student.id, mode: 'practice', cellId: world.cellId, cellVersion: 1, seed: i });
+      practiceIds.push(r.id);
+    }
+    // Distinct start times, newest last created, so the expected order is known.
+    for (const [i, id] of practiceIds.entries()) await db()('runs').where({ id }).update({ started_at: new Date(Date.now() + (i + 1) * 1000) });
+
+    const attempts = await listDrillRunsOfUser(student.id);
+    expect(attempts.map((r) => r.id)).toEqual([attempt.body.run.id]);
+
+    const seen: string[] = [];
+    for (let page = 1; page <= 5; page++) {
+      const p = await pagePracticeRunsOfUser(student.id, page, 25);
+      expect(p.total).toBe(101);
+      expect(p.runs.every((r) => r.mode === 'practice' && r.cellName === 'Drill base')).toBe(true);
+      seen.push(...p.runs.map((r) => r.id));
+    }
+    expect(seen).toEqual([...practiceIds].reverse());
+    expect((await pagePracticeRunsOfUser(student.id, 6, 25)).runs).toEqual([]);
   });
 });
 
