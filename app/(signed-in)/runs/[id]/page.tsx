@@ -65,6 +65,7 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
                 <dt className="text-slate-500">Diagnosis</dt>
                 <dd data-testid="run-diagnosis">
                   {humanise(run.diagnosis.kind)} at <span className="font-mono">{run.diagnosis.location}</span>
+                  {run.diagnosis.note ? <span className="mt-1 block whitespace-pre-line text-slate-600" data-testid="run-diagnosis-note">{run.diagnosis.note}</span> : null}
                 </dd>
               </>
             ) : null}
