@@ -69,11 +69,13 @@ test('a trainer assigns a drill; the student runs it, finds the fault and submit
   const dialog = student.getByTestId('submit-dialog');
   await dialog.getByLabel('Fault kind').selectOption('open-wire');
   await dialog.getByLabel('Where').selectOption('w-stop');
+  await dialog.getByLabel('Note for your trainer (optional)').fill('Stop input reads off with the button released: open conductor on w-stop.');
   await dialog.getByTestId('confirm-submit').click();
   await student.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
   // The drill has no rules and a diagnosis weight of 10: the right kind at the right place earns
   // all of it (grading as lib/runs/grade.ts defines it), so the server's grade is 100 %.
   await expect(student.getByTestId('run-grade')).toHaveText('100%');
+  await expect(student.getByTestId('run-diagnosis-note')).toHaveText('Stop input reads off with the button released: open conductor on w-stop.');
   const runUrl = student.url();
   await student.context().close();
 
@@ -82,10 +84,12 @@ test('a trainer assigns a drill; the student runs it, finds the fault and submit
   const book = trainer.getByTestId('gradebook');
   await expect(book).toContainText(title.toUpperCase(), { ignoreCase: true });
   const row = book.getByRole('row').filter({ hasText: DEMO.student.name });
-  await expect(row).toContainText('100%');
   await row.getByRole('button', { name: new RegExp(DEMO.student.name) }).click();
   const detail = trainer.getByTestId('student-detail');
-  await detail.getByRole('row').filter({ hasText: title }).getByTestId('replay-link').click();
+  // The student's row also holds the demo's earlier drill: check this drill's own line.
+  const line = detail.getByRole('row').filter({ hasText: title });
+  await expect(line).toContainText('100%');
+  await line.getByTestId('replay-link').click();
   await trainer.waitForURL(`${runUrl}/replay`);
   await expect(trainer.getByTestId('replay')).toBeVisible();
   await expect(trainer.getByTestId('replay-time')).toContainText('0:00.000 /');
