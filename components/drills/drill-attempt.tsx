@@ -19,24 +19,10 @@ import { RunWorkspace, type AreaEditing } from '@/components/runs/run-workspace'
 import { DOWNLOAD_AREAS, type DownloadArea } from '@/components/workspace/download';
 import { Markdown } from './markdown';
 import { locationOptions, type LocationOption } from './locations';
+import type { StudentDrillPayload } from '@/lib/drills/access';
 
-export type StudentDrill = {
-  assignmentId: string;
-  state: 'upcoming' | 'open' | 'closed';
-  opensAt: string;
-  closesAt: string;
-  drill: {
-    id: string;
-    title: string;
-    brief: string;
-    objectives: string[];
-    timeLimitMs: number;
-    permissions: { forceAllowed: boolean; editable: string[] };
-    cellId: string;
-    cellVersion: number;
-  };
-  diagnosisKinds: readonly string[];
-};
+/** What the attempt page hands the client: the student payload (no fault cards, rules or answer) and the diagnosis catalogue. */
+export type StudentDrill = StudentDrillPayload & { diagnosisKinds: readonly string[] };
 
 type RunAnswer = { run: { id: string; status: string; lastSeq: number; untilMs: number } };
 

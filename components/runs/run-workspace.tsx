@@ -7,13 +7,9 @@
 import { useMemo, useState, type ReactNode } from 'react';
 import type { StoreApi } from 'zustand/vanilla';
 import { SafetyCaution } from '@/components/ui/safety-caution';
-import { PanelArea } from '@/components/panel/panel-area';
-import { FieldArea } from '@/components/field/field-area';
-import { MonitorArea } from '@/components/monitor/monitor-area';
 import { ForceBanner } from '@/components/monitor/force-banner';
-import { ScopeArea } from '@/components/scope/scope-area';
 import { ScopeRecorderProvider } from '@/components/scope/scope-context';
-import { LogicSlot, ControllerSlot } from '@/components/workspace/area-slots';
+import { AreaBody } from '@/components/workspace/area-slots';
 import { StatusStrip } from '@/components/workspace/status-strip';
 import { WorkspaceStoreContext, useWorkspace, useWorkspaceApi, type WorkspaceInit, type WorkspaceStore, type WorkspaceStoreApi } from '@/components/workspace/contract';
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
@@ -131,12 +127,7 @@ function RunAreas({ editing, forceAllowed, strip, downloadable }: { editing: Are
       >
         {areaDownloads.length > 0 ? <DownloadButton areas={areaDownloads} /> : null}
         <AreaScope canEdit={Boolean(editing[area])}>
-          {area === 'panel' ? <PanelArea /> : null}
-          {area === 'field' ? <FieldArea /> : null}
-          {area === 'logic' ? <LogicSlot /> : null}
-          {area === 'controller' ? <ControllerSlot /> : null}
-          {area === 'monitor' ? <MonitorArea /> : null}
-          {area === 'scope' ? <ScopeArea /> : null}
+          <AreaBody area={area} />
         </AreaScope>
       </div>
     </div>

@@ -1,5 +1,10 @@
 'use client';
 import dynamic from 'next/dynamic';
+import { PanelArea } from '@/components/panel/panel-area';
+import { FieldArea } from '@/components/field/field-area';
+import { MonitorArea } from '@/components/monitor/monitor-area';
+import { ScopeArea } from '@/components/scope/scope-area';
+import type { AreaId } from './area-tabs';
 
 function Loading({ what }: { what: string }) {
   return <p className="p-6 text-sm text-slate-500">Loading the {what}…</p>;
@@ -12,3 +17,21 @@ function Loading({ what }: { what: string }) {
 export const LogicSlot = dynamic(() => import('@/components/logic/logic-area'), { ssr: false, loading: () => <Loading what="logic sheet" /> });
 
 export const ControllerSlot = dynamic(() => import('@/components/controller/controller-area'), { ssr: false, loading: () => <Loading what="controller" /> });
+
+/** The body of one workspace area: the same six areas in the cell workspace and in run workspaces. */
+export function AreaBody({ area }: { area: AreaId }) {
+  switch (area) {
+    case 'panel':
+      return <PanelArea />;
+    case 'field':
+      return <FieldArea />;
+    case 'logic':
+      return <LogicSlot />;
+    case 'controller':
+      return <ControllerSlot />;
+    case 'monitor':
+      return <MonitorArea />;
+    case 'scope':
+      return <ScopeArea />;
+  }
+}

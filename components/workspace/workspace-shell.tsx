@@ -3,18 +3,14 @@ import { useEffect, useState } from 'react';
 import { Pencil, Radio } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
 import { SafetyCaution } from '@/components/ui/safety-caution';
-import { PanelArea } from '@/components/panel/panel-area';
-import { FieldArea } from '@/components/field/field-area';
-import { MonitorArea } from '@/components/monitor/monitor-area';
 import { ForceBanner } from '@/components/monitor/force-banner';
-import { ScopeArea } from '@/components/scope/scope-area';
 import { ScopeRecorderProvider } from '@/components/scope/scope-context';
 import { useWorkspace, useWorkspaceApi, type WorkspaceInit } from './contract';
 import { WorkspaceProvider } from './workspace-provider';
 import { StatusStrip } from './status-strip';
 import { SaveControls } from './save-controls';
 import { useDraft } from './use-draft';
-import { LogicSlot, ControllerSlot } from './area-slots';
+import { AreaBody } from './area-slots';
 import { AreaTabs, type AreaId } from './area-tabs';
 
 /** The client island of the workspace page: one store, one engine worker, six areas. */
@@ -137,12 +133,7 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
       />
 
       <div role="tabpanel" id={`area-${area}`} aria-labelledby={`tab-${area}`} className="min-h-[420px]" data-testid={`area-${area}`}>
-        {area === 'panel' ? <PanelArea /> : null}
-        {area === 'field' ? <FieldArea /> : null}
-        {area === 'logic' ? <LogicSlot /> : null}
-        {area === 'controller' ? <ControllerSlot /> : null}
-        {area === 'monitor' ? <MonitorArea /> : null}
-        {area === 'scope' ? <ScopeArea /> : null}
+        <AreaBody area={area} />
       </div>
     </div>
   );

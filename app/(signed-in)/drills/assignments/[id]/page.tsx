@@ -57,13 +57,5 @@ export default async function DrillAttemptPage({ params }: { params: Promise<{ i
       </>
     );
   }
-  const student = {
-    assignmentId: payload.assignmentId,
-    state: payload.state,
-    opensAt: payload.opensAt,
-    closesAt: payload.closesAt,
-    drill: { ...payload.drill, permissions: { forceAllowed: payload.drill.permissions.forceAllowed, editable: [...payload.drill.permissions.editable] } },
-    diagnosisKinds: [...DIAGNOSIS_KINDS],
-  };
-  return <DrillAttempt payload={student} document={version.document} />;
+  return <DrillAttempt payload={{ ...payload, diagnosisKinds: DIAGNOSIS_KINDS }} document={version.document} />;
 }
