@@ -1,4 +1,5 @@
 'use client';
+import type { ComponentType } from 'react';
 import dynamic from 'next/dynamic';
 import { PanelArea } from '@/components/panel/panel-area';
 import { FieldArea } from '@/components/field/field-area';
@@ -18,20 +19,17 @@ export const LogicSlot = dynamic(() => import('@/components/logic/logic-area'), 
 
 export const ControllerSlot = dynamic(() => import('@/components/controller/controller-area'), { ssr: false, loading: () => <Loading what="controller" /> });
 
+const AREA_BODIES: Record<AreaId, ComponentType> = {
+  panel: PanelArea,
+  field: FieldArea,
+  logic: LogicSlot,
+  controller: ControllerSlot,
+  monitor: MonitorArea,
+  scope: ScopeArea,
+};
+
 /** The body of one workspace area: the same six areas in the cell workspace and in run workspaces. */
 export function AreaBody({ area }: { area: AreaId }) {
-  switch (area) {
-    case 'panel':
-      return <PanelArea />;
-    case 'field':
-      return <FieldArea />;
-    case 'logic':
-      return <LogicSlot />;
-    case 'controller':
-      return <ControllerSlot />;
-    case 'monitor':
-      return <MonitorArea />;
-    case 'scope':
-      return <ScopeArea />;
-  }
+  const Body = AREA_BODIES[area];
+  return <Body />;
 }
