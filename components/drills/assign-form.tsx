@@ -5,6 +5,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import { Send } from 'lucide-react';
+import { TextField } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
@@ -64,20 +65,8 @@ export function AssignForm({ drillId, cohorts }: { drillId: string; cohorts: { i
             ))}
           </select>
         </div>
-        <div className="space-y-1">
-          <label htmlFor="assign-opens" className="block text-xs font-medium text-slate-600">
-            Opens
-          </label>
-          <input id="assign-opens" type="datetime-local" className={cls} {...register('opensAt')} />
-          {formState.errors.opensAt ? <p className="text-xs text-red-700">{formState.errors.opensAt.message}</p> : null}
-        </div>
-        <div className="space-y-1">
-          <label htmlFor="assign-closes" className="block text-xs font-medium text-slate-600">
-            Closes
-          </label>
-          <input id="assign-closes" type="datetime-local" className={cls} {...register('closesAt')} />
-          {formState.errors.closesAt ? <p className="text-xs text-red-700">{formState.errors.closesAt.message}</p> : null}
-        </div>
+        <TextField id="assign-opens" label="Opens" type="datetime-local" error={formState.errors.opensAt?.message} {...register('opensAt')} />
+        <TextField id="assign-closes" label="Closes" type="datetime-local" error={formState.errors.closesAt?.message} {...register('closesAt')} />
       </div>
       {result ? <Notice tone={result.tone}>{result.text}</Notice> : null}
       <Button type="submit" disabled={formState.isSubmitting} data-testid="assign-drill">
