@@ -49,15 +49,14 @@ export function AssignForm({ drillId, cohorts }: { drillId: string; cohorts: { i
     }
   });
   if (cohorts.length === 0) return <p className="text-sm text-slate-500">You have no cohorts yet. Create one under Cohorts first.</p>;
-  const cls = 'block w-full rounded-md border border-slate-300 bg-white px-2 py-1.5 text-sm';
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label="Assign drill">
       <div className="grid gap-3 sm:grid-cols-3">
         <div className="space-y-1">
-          <label htmlFor="assign-cohort" className="block text-xs font-medium text-slate-600">
+          <label htmlFor="assign-cohort" className="block text-sm font-medium text-slate-700">
             Cohort
           </label>
-          <select id="assign-cohort" className={cls} {...register('cohortId')}>
+          <select id="assign-cohort" className="block w-full rounded-md border border-slate-300 bg-white px-3 py-2 text-sm text-slate-900 shadow-sm" {...register('cohortId')}>
             {cohorts.map((c) => (
               <option key={c.id} value={c.id}>
                 {c.name} ({c.memberCount})
