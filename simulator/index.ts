@@ -170,3 +170,32 @@ export type { CellDocumentInput } from './demo';
 export { pickAndPlaceCell, starterCell, demoCells } from './demo';
 /** The model debounce fix of the pick-and-place part input (a logic sheet to download) and its presets. */
 export { pickAndPlaceDebouncedSheet, PART_DEBOUNCE_MS } from './demo';
+
+// ---- diff (changeover: base vs proposed cell document)
+/**
+ * Structural diff of two cell documents and the I/O-list change sheet (simulator/diff/).
+ * `diffCells(base, proposed)` → `CellDiff`: entries per area (`DIFF_AREAS`: cell, devices,
+ * modules, wiring, pointMap, logic, routine, handshake), each `DiffEntry` with its kind
+ * (added / removed / changed / moved / reordered), target, id, document path, detail line and
+ * field changes, plus a `summary` of counts per area for a signed record.
+ * `ioChangeSheet(diff, base, proposed)` → `{ rows, csv }`: what electricians re-terminate,
+ * CSV cells neutralised against formula injection (`neutraliseCsvCell`).
+ * The headless `diff` command is `diffCommand` in simulator/diff/cli.ts.
+ */
+export type {
+  CellDiff,
+  DiffArea,
+  DiffKind,
+  DiffTarget,
+  DiffEntry,
+  DiffSummary,
+  AreaCounts,
+  FieldChange,
+  WireEndChange,
+  RoleBinding,
+  IoChangeAction,
+  IoChangeRow,
+  IoChangeSheet,
+} from './diff';
+export { diffCells, ioChangeSheet, ioChangeCsv, neutraliseCsvCell, IO_CHANGE_COLUMNS, DIFF_AREAS, DIFF_KINDS, DIFF_FORMAT_VERSION } from './diff';
+// ---- end diff
