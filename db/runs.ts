@@ -61,7 +61,7 @@ function toRun(r: any): Run {
     status: r.status,
     startedAt: iso(r.started_at)!,
     submittedAt: iso(r.submitted_at),
-    endedMs: r.ended_ms,
+    endedMs: r.ended_ms === null || r.ended_ms === undefined ? null : Number(r.ended_ms),
     diagnosis: r.diagnosis,
     grade: r.grade,
     breakdown: r.breakdown,
@@ -70,7 +70,7 @@ function toRun(r: any): Run {
     overrideReason: r.override_reason,
     overrideBy: r.override_by,
     lastSeq: r.last_seq ?? 0,
-    untilMs: r.until_ms ?? 0,
+    untilMs: Number(r.until_ms ?? 0),
   };
 }
 
@@ -81,7 +81,7 @@ function runQuery(k: Knex = db()) {
   return k('runs as r')
     .join('users as u', 'u.id', 'r.user_id')
     .joinRaw('left join lateral (select b.seq, b.until_ms from run_batches b where b.run_id = r.id order by b.seq desc limit 1) lb on true')
-    .select('r.*', 'u.name as user_name', k.raw('coalesce(lb.seq, 0)::int as last_seq'), k.raw('coalesce(lb.until_ms, 0)::int as until_ms'));
+    .select('r.*', 'u.name as user_name', k.raw('coalesce(lb.seq, 0)::int as last_seq'), k.raw('coalesce(lb.until_ms, 0)::bigint as until_ms'));
 }
 
 export async function findRun(id: string): Promise<Run | null> {
@@ -146,7 +146,7 @@ export async function startAssignmentRun(input: NewRun & { assignmentId: string 
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toBatch(r: any): StoredBatch {
-  return { seq: r.seq, key: r.idempotency_key, untilMs: r.until_ms, events: r.events, createdAt: iso(r.created_at)! };
+  return { seq: r.seq, key: r.idempotency_key, untilMs: Number(r.until_ms), events: r.events, createdAt: iso(r.created_at)! };
 }
 
 /** Every batch of a run in sequence order: the run's whole event log. */
@@ -206,20 +206,33 @@ export interface Submission {
   traceHash: string;
 }
 
-/** Marks an active run submitted with its grade; false when it was no longer active (a second submit). */
-export async function submitRun(runId: string, s: Submission): Promise<boolean> {
-  const n = await db()('runs')
-    .where({ id: runId, status: 'active' })
-    .update({
-      status: 'submitted',
-      submitted_at: db().fn.now(),
-      ended_ms: s.endedMs,
-      diagnosis: s.diagnosis ? JSON.stringify(s.diagnosis) : null,
-      grade: s.grade,
-      breakdown: s.breakdown ? JSON.stringify(s.breakdown) : null,
-      trace_hash: s.traceHash,
-    });
-  return n > 0;
+/**
+ * Submits a run in one transaction: the run row is locked FOR UPDATE (a batch insert reads it
+ * FOR SHARE, so a late batch from any server process waits and then finds the run submitted),
+ * the stored log is read under that lock, `grade` turns exactly that log into the submission,
+ * and the row is updated before the lock is released. Whatever `grade` throws rolls it all back.
+ */
+export async function submitLocked(runId: string, grade: (run: Run, batches: StoredBatch[]) => Promise<Submission>): Promise<{ ok: true; run: Run } | { ok: false; reason: 'submitted' | 'missing' }> {
+  if (!isUuid(runId)) return { ok: false, reason: 'missing' };
+  return db().transaction(async (trx) => {
+    const locked = await trx('runs').where({ id: runId }).forUpdate().first('id', 'status');
+    if (!locked) return { ok: false as const, reason: 'missing' as const };
+    if (locked.status !== 'active') return { ok: false as const, reason: 'submitted' as const };
+    const run = toRun(await runQuery(trx).where('r.id', runId).first());
+    const s = await grade(run, await listBatches(runId, trx));
+    await trx('runs')
+      .where({ id: runId })
+      .update({
+        status: 'submitted',
+        submitted_at: trx.fn.now(),
+        ended_ms: s.endedMs,
+        diagnosis: s.diagnosis ? JSON.stringify(s.diagnosis) : null,
+        grade: s.grade,
+        breakdown: s.breakdown ? JSON.stringify(s.breakdown) : null,
+        trace_hash: s.traceHash,
+      });
+    return { ok: true as const, run: toRun(await runQuery(trx).where('r.id', runId).first()) };
+  });
 }
 
 /** Sets (or, with null, removes) a trainer's override of a run's grade, and records it in the audit log in the same transaction. */

@@ -46,11 +46,29 @@ start_database() {
   bash db/cluster.sh start
 }
 
+# A random session secret for this checkout, made once: 48 bytes from node's CSPRNG, base64
+# (64 characters), in .local/secret readable by its owner only. Kept across runs so sessions
+# survive a restart; delete the file to sign everybody out and get a new one.
+LOCAL_SECRET_FILE="$REPO/.local/secret"
+ensure_local_secret() {
+  if [[ -s "$LOCAL_SECRET_FILE" ]]; then return; fi
+  log "creating a session secret in .local/secret"
+  mkdir -p "$REPO/.local"
+  (
+    umask 077
+    node -e "process.stdout.write(require('node:crypto').randomBytes(48).toString('base64'))" >"$LOCAL_SECRET_FILE.tmp"
+  )
+  chmod 600 "$LOCAL_SECRET_FILE.tmp"
+  mv "$LOCAL_SECRET_FILE.tmp" "$LOCAL_SECRET_FILE"
+}
+
 # tsx with the react-server condition so `import 'server-only'` resolves to its empty module outside Next.js.
 tsx_server() { node_modules/.bin/tsx --conditions=react-server "$@"; }
 
 # Build unless .next is newer than every source file that goes into it.
 build_app() {
+  # The engine's worker-thread bundle (lib/runs/worker-bundle.ts): rebuilt every time, 0.1 s.
+  npx tsx scripts/build-engine-worker.ts
   if [[ -f .next/BUILD_ID ]]; then
     local newer
     newer="$(find app components lib db simulator public proxy.ts next.config.mjs tailwind.config.ts postcss.config.mjs package-lock.json tsconfig.json \

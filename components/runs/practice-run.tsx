@@ -12,10 +12,14 @@ import { Notice } from '@/components/ui/notice';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import type { CellDocument } from '@/simulator';
 import { DOWNLOAD_AREAS } from '@/components/workspace/download';
+import { StatusStrip } from '@/components/workspace/status-strip';
 import { RunWorkspace, type AreaEditing } from './run-workspace';
 import { useRunRecorder } from './use-run-recorder';
 
 type Started = { run: { id: string; seed?: number } };
+
+/** The server follows a recorded practice run at most ×10 ahead of its age (lib/runs/policy.ts). */
+const PRACTICE_SPEEDS = [1, 10] as const;
 
 /** Practice opens every area that can change the running cell through an event. */
 const PRACTICE_EDITING: AreaEditing = { logic: true, field: true, controller: true };
@@ -49,6 +53,7 @@ export function PracticeRun({ cellId, cellName, version, document }: { cellId: s
       editing={PRACTICE_EDITING}
       downloadable={DOWNLOAD_AREAS}
       forceAllowed
+      strip={<StatusStrip speeds={PRACTICE_SPEEDS} />}
       header={
         <header className="mb-3">
           <p className="text-xs font-medium uppercase tracking-wide text-accent-700">Free practice · recorded</p>

@@ -10,8 +10,12 @@ const SPEEDS: { speed: RunSpeed; label: string; icon: typeof Play }[] = [
   { speed: 'max', label: 'Run max', icon: Zap },
 ];
 
-/** Run controls and the live readouts: cell time, speed, controller state. */
-export function StatusStrip() {
+/**
+ * Run controls and the live readouts: cell time, speed, controller state. `speeds` narrows the
+ * offered speeds: a recorded practice run offers ×1 and ×10 only, since the server follows
+ * its log and lets it run at most ×10 ahead of its age (lib/runs/policy.ts, LIMITS.speed).
+ */
+export function StatusStrip({ speeds }: { speeds?: readonly RunSpeed[] } = {}) {
   const engine = useWorkspace((s) => s.engine);
   const run = useWorkspace((s) => s.run);
   const pause = useWorkspace((s) => s.pause);
@@ -32,7 +36,7 @@ export function StatusStrip() {
   return (
     <div className="flex flex-wrap items-center gap-x-5 gap-y-2 rounded-md border border-slate-300 bg-slate-800 px-3 py-2 text-slate-100" data-testid="status-strip">
       <div role="group" aria-label="Run controls" className="flex items-center gap-1">
-        {SPEEDS.map(({ speed, label, icon: Icon }) => {
+        {SPEEDS.filter((s) => !speeds || speeds.includes(s.speed)).map(({ speed, label, icon: Icon }) => {
           const active = engine.running && engine.speed === speed;
           return (
             <button

@@ -1,34 +1,32 @@
 import 'server-only';
-import type { Cell } from '@/simulator';
 
 /**
- * The live cells of runs in progress, by run id: the server-side engine a drill attempt
- * runs on (the student's browser never holds the hidden faults). Only a cache: every entry
- * can be rebuilt from the run's stored batches (the engine is deterministic), so a server
- * restart or an eviction loses nothing. Kept on globalThis so Next.js hot reloads share it;
- * least recently used entries are evicted (and their cells disposed) beyond MAX_LIVE_RUNS.
+ * What the app process remembers of runs in progress, by run id: the run row and its setup
+ * (drill, assignment, limits) as read when the run was last loaded, and the stored end. The
+ * cells themselves live in the engine's worker threads (engine-host.ts). Only a cache, of small
+ * objects (no cell document): every entry is re-read from the database on a miss, so a restart
+ * or an eviction loses nothing. Kept on globalThis so Next.js hot reloads share it.
  */
-export interface LiveRun<S = unknown> {
-  cell: Cell;
-  /** Sequence number of the last batch applied to the cell. */
+export interface LiveMeta<S = unknown> {
+  /** Sequence number of the last stored batch. */
   lastSeq: number;
   /** Cell time the last stored batch reached. */
   untilMs: number;
-  /** What the run's simulation depends on (document, faults, drill), read once per rebuild. */
   setup: S;
 }
 
-export const MAX_LIVE_RUNS = 200;
+/** Entries kept; each is a few kilobytes (a run row, a drill's rules and fault cards). */
+export const MAX_LIVE_META = 5000;
 
-const g = globalThis as unknown as { cellwrightLiveRuns?: Map<string, LiveRun>; cellwrightRunLocks?: Map<string, Promise<unknown>> };
+const g = globalThis as unknown as { cellwrightLiveMeta?: Map<string, LiveMeta>; cellwrightRunLocks?: Map<string, Promise<unknown>> };
 
-function cache(): Map<string, LiveRun> {
-  g.cellwrightLiveRuns ??= new Map();
-  return g.cellwrightLiveRuns;
+function cache(): Map<string, LiveMeta> {
+  g.cellwrightLiveMeta ??= new Map();
+  return g.cellwrightLiveMeta;
 }
 
-/** The cached live run, marked most recently used; undefined on a miss. */
-export function getLiveRun(runId: string): LiveRun | undefined {
+/** The remembered run, marked most recently used; undefined on a miss. */
+export function getLiveMeta(runId: string): LiveMeta | undefined {
   const c = cache();
   const hit = c.get(runId);
   if (hit) {
@@ -38,43 +36,26 @@ export function getLiveRun(runId: string): LiveRun | undefined {
   return hit;
 }
 
-/** Caches a live run, evicting the least recently used beyond the bound. */
-export function putLiveRun(runId: string, live: LiveRun): void {
+export function putLiveMeta(runId: string, meta: LiveMeta): void {
   const c = cache();
-  const old = c.get(runId);
-  if (old && old.cell !== live.cell) old.cell.dispose();
   c.delete(runId);
-  c.set(runId, live);
-  while (c.size > MAX_LIVE_RUNS) {
-    const [oldest, entry] = c.entries().next().value as [string, LiveRun];
-    c.delete(oldest);
-    entry.cell.dispose();
-  }
+  c.set(runId, meta);
+  while (c.size > MAX_LIVE_META) c.delete(c.keys().next().value as string);
 }
 
-/** Drops a run's cell (after a rejected batch left it half-applied, or on submit). */
-export function evictLiveRun(runId: string): void {
-  const c = cache();
-  const hit = c.get(runId);
-  if (hit) {
-    c.delete(runId);
-    hit.cell.dispose();
-  }
+export function forgetLiveMeta(runId: string): void {
+  cache().delete(runId);
 }
 
-/** Empties the cache: what a server restart does (tests use it to prove nothing is lost). */
-export function clearLiveRuns(): void {
-  for (const id of [...cache().keys()]) evictLiveRun(id);
-}
-
-export function liveRunCount(): number {
-  return cache().size;
+/** Forgets everything (with resetEngineHost, what a server restart does). */
+export function clearLiveMeta(): void {
+  cache().clear();
 }
 
 /**
  * Runs `fn` after every earlier call for the same run has finished, so two requests of one
  * run (a retry racing its original, a view during a batch) never drive its cell at once.
- * Across server processes the unique indexes on run_batches are the guard.
+ * Across server processes the run row's lock and the unique indexes on run_batches are the guard.
  */
 export function withRunLock<T>(runId: string, fn: () => Promise<T>): Promise<T> {
   g.cellwrightRunLocks ??= new Map();

@@ -2,6 +2,37 @@ import type { LoggedEvent } from '@/simulator';
 import type { DrillPermissions } from '@/lib/schemas/drills';
 
 /**
+ * Bounds on what one run may ask of the server's engine.
+ * - `downloadsPerBatch`, `downloadsPerRun`: a `download` event recompiles and revalidates the
+ *   whole document, so a batch or a run full of them would be a cheap way to burn the server.
+ *   A student downloads after each edit; a few per minute is heavy use.
+ * - `speed`: how fast a run's cell time may run ahead of its wall-clock age. A drill attempt
+ *   runs on the server at ×1; a practice run runs in the browser at ×1 or ×10 and the server
+ *   follows it, so neither can ask the server to simulate far beyond what it could have run.
+ * - `slackMs`: room for clocks, start-up and a slow first batch.
+ */
+export const LIMITS = {
+  downloadsPerBatch: 5,
+  downloadsPerRun: 300,
+  speed: { drill: 1, practice: 10 },
+  slackMs: 60_000,
+} as const;
+
+/** The cell time a run may reach now: its age since it started × its mode's speed, plus slack. */
+export function allowedUntilMs(run: { mode: 'drill' | 'practice'; startedAt: string }, nowMs: number): { untilMs: number; rate: number } {
+  const rate = LIMITS.speed[run.mode];
+  const age = Math.max(0, nowMs - Date.parse(run.startedAt));
+  return { untilMs: Math.floor(age * rate + LIMITS.slackMs), rate };
+}
+
+/** How many `download` events a list holds. */
+export function countDownloads(events: readonly LoggedEvent[]): number {
+  let n = 0;
+  for (const e of events) if (e.event.type === 'download') n++;
+  return n;
+}
+
+/**
  * Which events a run may log. A drill's student cannot add or remove fault cards (that would
  * clear the hidden fault), forces only when the drill allows them, and stages point-map edits
  * only when the point map is an editable area, and downloads (`download`: logic sheet, wiring,
@@ -10,6 +41,8 @@ import type { DrillPermissions } from '@/lib/schemas/drills';
  */
 export function eventProblems(mode: 'drill' | 'practice', permissions: DrillPermissions | null, events: readonly LoggedEvent[]): Record<string, string[]> {
   const out: Record<string, string[]> = {};
+  const downloads = countDownloads(events);
+  if (downloads > LIMITS.downloadsPerBatch) out.events = [`A batch may hold at most ${LIMITS.downloadsPerBatch} downloads; this one has ${downloads}.`];
   if (mode === 'practice') return out;
   events.forEach((e, i) => {
     const type = e.event.type;

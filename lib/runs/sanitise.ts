@@ -36,6 +36,13 @@ export function isHiddenSignal(name: string): boolean {
   return name.startsWith('fault.');
 }
 
+/** Signals a replay shows: everything a technician could observe (not the free-running clock), plus the hidden ones when allowed. */
+export function displaySignals(names: string[], hidden: string[]): string[] {
+  const shown = names.filter((n) => n !== 'time' && !isHiddenSignal(n));
+  for (const h of hidden) if (!shown.includes(h)) shown.push(h);
+  return shown;
+}
+
 /** A trace without signals that name fault cards (indices renumbered). */
 export function sanitiseTrace(trace: Trace): Trace {
   const keep: number[] = [];

@@ -15,7 +15,7 @@ import { findRun } from '@/db/runs';
 import type { User } from '@/db/users';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { DRILL_LIBRARY, libraryBaseDocument } from '@/lib/drills/library';
-import { clearLiveRuns } from '@/lib/runs/live-runs';
+import { restartEngine } from '@/lib/runs/service';
 import { regrade } from '@/lib/runs/service';
 import { cellDocumentSchema, pickAndPlaceCell, pickAndPlaceDebouncedSheet } from '@/simulator';
 import { call, demoUser, makeUser, sessionCookie, uniqueEmail } from './helpers';
@@ -45,7 +45,7 @@ beforeAll(async () => {
   assignmentId = a.id;
 });
 afterAll(async () => {
-  clearLiveRuns();
+  await restartEngine();
   students = [];
   await closeDb();
 });
@@ -82,7 +82,7 @@ const PINNED_SEED = 7;
 async function runAndSubmit(student: User, first: { untilMs: number; events: unknown[] }) {
   const runId = await start(student);
   await db()('runs').where({ id: runId }).update({ seed: PINNED_SEED });
-  clearLiveRuns();
+  await restartEngine();
   for (const b of [{ seq: 1, ...first }, ...CYCLE]) {
     const res = await post(student, runId, { key: key(), ...b });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
@@ -108,7 +108,7 @@ describe('downloads in a drill run', () => {
     // Guard 3 + part on 2 + part off 2 + cycle 3 + diagnosis 10 of 25 points (lib/drills/library.ts weights).
     expect(plain.grade).toBe(80);
     for (const run of [fixed, plain]) {
-      clearLiveRuns();
+      await restartEngine();
       const again = await regrade(run, run.diagnosis, run.endedMs!);
       expect(again.traceHash).toBe(run.traceHash);
       expect(again.grade).toBe(run.grade);

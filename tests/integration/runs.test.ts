@@ -19,8 +19,8 @@ import { closeDb, db } from '@/db/knex';
 import type { User } from '@/db/users';
 import { createRun, findRun, listDrillRunsOfUser, listSubmittedRuns, pagePracticeRunsOfUser } from '@/db/runs';
 import { listDrills } from '@/db/drills';
-import { clearLiveRuns, getLiveRun } from '@/lib/runs/live-runs';
-import { regrade, uncachedSnapshot } from '@/lib/runs/service';
+import { peekLive } from '@/lib/runs/engine-host';
+import { regrade, restartEngine, uncachedSnapshot } from '@/lib/runs/service';
 import { sanitiseSnapshot } from '@/lib/runs/sanitise';
 import { DRILL_LIBRARY } from '@/lib/drills/library';
 import { BATCH_LIMITS } from '@/lib/schemas/runs';
@@ -37,7 +37,7 @@ beforeAll(async () => {
   world = await drillWorld(trainer, 3);
 });
 afterAll(async () => {
-  clearLiveRuns();
+  await restartEngine();
   await closeDb();
 });
 
@@ -131,12 +131,12 @@ describe('batches', () => {
     const have = await batchCount(runId);
     expect(have).toBe(2);
     // Restart: drop the live cells and the database pool.
-    clearLiveRuns();
+    await restartEngine();
     await closeDb();
     const third = await post(s, runId, { key: key(), ...LOG[2] });
     expect(third.status, JSON.stringify(third.body)).toBe(201);
-    const cached = getLiveRun(runId)!.cell.snapshot();
-    clearLiveRuns();
+    const cached = (await peekLive(runId))!.snapshot;
+    await restartEngine();
     await closeDb();
     const run = (await findRun(runId))!;
     const reference = await uncachedSnapshot(run);
@@ -164,7 +164,7 @@ describe('batches', () => {
     await call(view.GET, `/api/runs/${runId}/view?t=30000`, { cookie: await sessionCookie(s), params: { id: runId } });
     const res = await post(s, runId, { key: key(), seq: 1, untilMs: 3000, events: [{ t: 1000, event: { type: 'set-field', device: 'part', active: true } }] });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
-    const cached = getLiveRun(runId)!.cell.snapshot();
+    const cached = (await peekLive(runId))!.snapshot;
     expect(cached).toEqual(await uncachedSnapshot((await findRun(runId))!));
   });
 });
@@ -176,7 +176,7 @@ describe('batches of a cached run (the batch path reads only the session and its
     const runId = (await start(s, w.assignmentId)).body.run.id;
     const first = await post(s, runId, { key: key(), ...LOG[0] });
     expect(first.status, JSON.stringify(first.body)).toBe(201);
-    expect(getLiveRun(runId)!.lastSeq).toBe(1);
+    expect((await peekLive(runId))!.lastSeq).toBe(1);
     // Another process stores batch 2 (the cache here still expects 2): this process's batch 2
     // meets it in the insert, is refused, and nothing is stored twice.
     await db()('run_batches').insert({ run_id: runId, seq: 2, idempotency_key: key(), until_ms: 3000, events: JSON.stringify([]), event_count: 0 });
@@ -188,7 +188,7 @@ describe('batches of a cached run (the batch path reads only the session and its
     expect(next.status, JSON.stringify(next.body)).toBe(201);
     // Another process submits: the cached run still says active, the insert does not.
     await db()('runs').where({ id: runId }).update({ status: 'submitted', submitted_at: db().fn.now() });
-    expect(getLiveRun(runId)).toBeDefined();
+    expect(await peekLive(runId)).not.toBeNull();
     const late = await post(s, runId, { key: key(), seq: 4, untilMs: 5000, events: [] });
     expect(late.status).toBe(409);
     expect((late.body as { error: string }).error).toContain('submitted');
@@ -226,12 +226,12 @@ describe('batches of a cached run (the batch path reads only the session and its
     const w = await drillWorld(trainer, 1);
     const s = w.students[0];
     const runId = (await start(s, w.assignmentId)).body.run.id;
-    expect(getLiveRun(runId)).toBeDefined();
+    expect(await peekLive(runId)).not.toBeNull();
     expect((await post(s, runId, { key: key(), ...LOG[0] })).status).toBe(201);
-    clearLiveRuns();
+    await restartEngine();
     expect((await start(s, w.assignmentId)).status).toBe(200);
-    expect(getLiveRun(runId)!.lastSeq).toBe(1);
-    expect(getLiveRun(runId)!.cell.snapshot()).toEqual(await uncachedSnapshot((await findRun(runId))!));
+    expect((await peekLive(runId))!.lastSeq).toBe(1);
+    expect((await peekLive(runId))!.snapshot).toEqual(await uncachedSnapshot((await findRun(runId))!));
   });
 
   it('a cached run stays 404 to everyone but its owner', async () => {
@@ -239,7 +239,7 @@ describe('batches of a cached run (the batch path reads only the session and its
     const [owner, other] = w.students;
     const runId = (await start(owner, w.assignmentId)).body.run.id;
     expect((await post(owner, runId, { key: key(), ...LOG[0] })).status).toBe(201);
-    expect(getLiveRun(runId)).toBeDefined();
+    expect(await peekLive(runId)).not.toBeNull();
     expect((await post(other, runId, { key: key(), seq: 2, untilMs: 3000, events: [] })).status).toBe(404);
     expect((await post(trainer, runId, { key: key(), seq: 2, untilMs: 3000, events: [] })).status).toBe(404);
     expect(await batchCount(runId)).toBe(1);

@@ -1,4 +1,5 @@
-import { apiRoute, parseJsonBody } from '@/lib/api/errors';
+import { apiRoute } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { checkDocument } from '@/lib/cells/document';

@@ -1,4 +1,5 @@
-import { apiRoute, ApiError, parseJsonBody } from '@/lib/api/errors';
+import { apiRoute, ApiError } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { COHORT_ROLES } from '@/lib/roles';
 import { createCohortSchema } from '@/lib/schemas/cohorts';

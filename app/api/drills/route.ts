@@ -1,4 +1,5 @@
-import { apiRoute, parseJsonBody } from '@/lib/api/errors';
+import { apiRoute } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { DRILL_ROLES } from '@/lib/drills/access';
 import { checkDrillInput } from '@/lib/drills/author';
@@ -14,7 +15,7 @@ export const GET = apiRoute(async (req: Request) => {
 /** Create a drill on one of the trainer's cell versions; fault cards and rules are checked by the engine. */
 export const POST = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, DRILL_ROLES);
-  const input = await parseJsonBody(req, drillInputSchema);
+  const input = await parseJsonBody(req, drillInputSchema, 'drill');
   await checkDrillInput(user, input);
   return Response.json({ drill: await createDrill(user.id, input) }, { status: 201 });
 });

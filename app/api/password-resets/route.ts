@@ -1,27 +1,26 @@
-import { apiRoute, parseJsonBody } from '@/lib/api/errors';
-import { env } from '@/lib/env';
+import { apiRoute } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requestResetSchema } from '@/lib/schemas/auth';
-import { sendMail } from '@/lib/mail/send';
-import { passwordResetMail } from '@/lib/mail/templates';
-import { RESET_TTL_MINUTES, createPasswordReset } from '@/db/password-resets';
+import { requestAddress } from '@/lib/auth/credentials';
+import { requestPasswordReset } from '@/lib/auth/password-reset';
+
+const ACCEPTED = 'If an active account uses this address, a reset link is on its way.';
 
 /**
- * Public: mail a reset link if the address has an active account. The answer
- * is the same either way so it cannot be used to find accounts.
+ * Public: mail a reset link if the address has an active account. The answer, and the work
+ * done before it, are the same either way, so neither the body nor the time reveals an
+ * account; the mail goes out after the response. Throttled per client address (429 with
+ * Retry-After) and per e-mail (the same 202, no mail): lib/auth/password-reset.ts says why.
  */
 export const POST = apiRoute(async (req: Request) => {
-  const { email } = await parseJsonBody(req, requestResetSchema);
-  const reset = await createPasswordReset(email);
-  if (reset) {
-    const link = `${env().APP_URL}/reset-password/${reset.token}`;
-    try {
-      await sendMail(passwordResetMail({ to: email, name: reset.name, link, expiresInMinutes: RESET_TTL_MINUTES }));
-    } catch (err) {
-      console.error('[mail] reset not sent', err);
-    }
+  const { email } = await parseJsonBody(req, requestResetSchema, 'auth');
+  const outcome = await requestPasswordReset(email, requestAddress(req.headers));
+  if (outcome.status === 'throttled') {
+    const minutes = Math.ceil(outcome.retryAfterSeconds / 60);
+    return Response.json(
+      { error: `Too many reset requests from your network. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` },
+      { status: 429, headers: { 'retry-after': String(outcome.retryAfterSeconds), 'cache-control': 'no-store' } },
+    );
   }
-  return Response.json(
-    { message: 'If an active account uses this address, a reset link is on its way.' },
-    { status: 202 },
-  );
+  return Response.json({ message: ACCEPTED }, { status: 202, headers: { 'cache-control': 'no-store' } });
 });

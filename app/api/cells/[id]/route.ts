@@ -1,4 +1,5 @@
-import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';

@@ -1,4 +1,5 @@
-import { ApiError, apiRoute, parseJsonBody } from '@/lib/api/errors';
+import { ApiError, apiRoute } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { checkDocument, problemsToFields } from '@/lib/cells/document';
@@ -12,7 +13,7 @@ import { createCell } from '@/db/cells';
  */
 export const POST = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, CELL_ROLES);
-  const body = await parseJsonBody(req, importCellSchema);
+  const body = await parseJsonBody(req, importCellSchema, 'cell');
   const checked = checkDocument(body.document);
   if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));
   const name = body.name ?? checked.document.name;

@@ -1,4 +1,5 @@
-import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
 import { checkDrillInput, drillAsInput } from '@/lib/drills/author';
@@ -22,7 +23,7 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, DRILL_ROLES);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
-  const patch = await parseJsonBody(req, drillPatchSchema);
+  const patch = await parseJsonBody(req, drillPatchSchema, 'drill');
   if (await drillHasRuns(id)) throw new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
   const input = { ...drillAsInput(drill), ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) };
   await checkDrillInput(user, input);

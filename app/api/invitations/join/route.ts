@@ -1,4 +1,5 @@
-import { apiRoute, ApiError, parseJsonBody } from '@/lib/api/errors';
+import { apiRoute, ApiError } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { joinInvitationSchema } from '@/lib/schemas/auth';
 import { joinWithInvitation } from '@/db/invitations';
@@ -6,7 +7,7 @@ import { joinWithInvitation } from '@/db/invitations';
 /** A signed-in student whose address was invited joins the cohort with the link. */
 export const POST = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, ['student']);
-  const { token } = await parseJsonBody(req, joinInvitationSchema);
+  const { token } = await parseJsonBody(req, joinInvitationSchema, 'auth');
   const result = await joinWithInvitation(token, user.id);
   if (!result.ok) {
     if (result.reason === 'invalid') throw new ApiError(404, 'This invitation link is not valid for your account.');

@@ -14,5 +14,5 @@ export async function readRunPage(req: Request, params: Promise<{ id: string }>)
   const { id } = await parseParams(params, runIdParamSchema);
   const { run, hiddenVisible } = await runForReader(user, id);
   const { page, pageSize } = parseQuery(req, pageQuerySchema);
-  return { run, hiddenVisible, page, pageSize };
+  return { user, run, hiddenVisible, page, pageSize };
 }

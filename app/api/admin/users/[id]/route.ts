@@ -1,4 +1,5 @@
-import { apiRoute, ApiError, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { idParamSchema } from '@/lib/schemas/cohorts';
 import { userPatchSchema } from '@/lib/schemas/admin';

@@ -1,4 +1,5 @@
-import { ApiError, apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
@@ -26,7 +27,7 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, CELL_ROLES);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
-  const body = await parseJsonBody(req, saveVersionSchema);
+  const body = await parseJsonBody(req, saveVersionSchema, 'cell');
   const checked = checkDocument(body.document);
   if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));
   const result = await saveVersion(id, user.id, body.baseVersion, checked.document, body.message);

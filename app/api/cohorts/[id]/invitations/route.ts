@@ -1,4 +1,5 @@
-import { apiRoute, parseJsonBody, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { COHORT_ROLES } from '@/lib/roles';
 import { idParamSchema, inviteSchema } from '@/lib/schemas/cohorts';

@@ -1,4 +1,5 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { BODY_LIMITS, readBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
 import { sniffImageType } from '@/lib/drills/sniff';
@@ -9,13 +10,6 @@ type Ctx = { params: Promise<{ id: string }> };
 
 /** At most this many images per brief. */
 const MAX_ASSETS_PER_DRILL = 30;
-/** Room for the multipart envelope around the file. */
-const ENVELOPE_BYTES = 16 * 1024;
-
-/** 413 and 415 are outside the shared status list; same `{ error, fields }` body. */
-function refuse(status: 413 | 415, error: string, fields: Record<string, string[]>): Response {
-  return Response.json({ error, fields }, { status, headers: { 'cache-control': 'no-store' } });
-}
 
 /** The brief's images (metadata only). */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
@@ -34,21 +28,26 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, DRILL_ROLES);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   await drillForAuthor(user, id);
-  const declared = Number(req.headers.get('content-length') ?? '0');
-  if (declared > MAX_ASSET_BYTES + ENVELOPE_BYTES) return refuse(413, 'The image is larger than 1 MiB.', { file: [`At most ${MAX_ASSET_BYTES} bytes.`] });
+  let bytesIn: Uint8Array<ArrayBuffer>;
+  try {
+    bytesIn = await readBody(req, BODY_LIMITS.asset);
+  } catch (e) {
+    if (e instanceof ApiError && e.status === 413) throw new ApiError(413, 'The image is larger than 1 MiB.', { file: [`At most ${MAX_ASSET_BYTES} bytes.`] });
+    throw e;
+  }
   let form: FormData;
   try {
-    form = await req.formData();
+    form = await new Response(bytesIn, { headers: { 'content-type': req.headers.get('content-type') ?? '' } }).formData();
   } catch {
     throw new ApiError(400, 'Send the image as multipart form data with a field named "file".');
   }
   const file = form.get('file');
   if (!file || typeof file === 'string') throw new ApiError(422, 'Some fields are not valid.', { file: ['Choose an image file.'] });
-  if (file.size > MAX_ASSET_BYTES) return refuse(413, 'The image is larger than 1 MiB.', { file: [`At most ${MAX_ASSET_BYTES} bytes.`] });
+  if (file.size > MAX_ASSET_BYTES) throw new ApiError(413, 'The image is larger than 1 MiB.', { file: [`At most ${MAX_ASSET_BYTES} bytes.`] });
   if (file.size === 0) throw new ApiError(422, 'Some fields are not valid.', { file: ['The file is empty.'] });
   const bytes = Buffer.from(await file.arrayBuffer());
   const type = sniffImageType(bytes);
-  if (!type) return refuse(415, 'This file is not a PNG, JPEG, WebP or GIF image.', { file: ['Upload a PNG, JPEG, WebP or GIF image.'] });
+  if (!type) throw new ApiError(415, 'This file is not a PNG, JPEG, WebP or GIF image.', { file: ['Upload a PNG, JPEG, WebP or GIF image.'] });
   const name = assetNameSchema.safeParse(file.name || 'image');
   if (!name.success) throw new ApiError(422, 'Some fields are not valid.', { file: ['A file name without slashes, at most 200 characters.'] });
   if ((await countAssets(id)) >= MAX_ASSETS_PER_DRILL) throw new ApiError(409, `A brief holds at most ${MAX_ASSETS_PER_DRILL} images.`);

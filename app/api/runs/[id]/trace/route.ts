@@ -11,8 +11,8 @@ type Ctx = { params: Promise<{ id: string }> };
  * its trainer and admins, or for the student once the drill has closed.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const { run, hiddenVisible, page, pageSize } = await readRunPage(req, ctx.params);
-  const trace = await replayTrace(run, hiddenVisible);
+  const { user, run, hiddenVisible, page, pageSize } = await readRunPage(req, ctx.params);
+  const trace = await replayTrace(run, hiddenVisible, user.id);
   const { items, ...paging } = pageOf(trace.samples, page, pageSize);
   return Response.json({ signals: trace.signals, samples: items, endMs: trace.endMs, ...paging, hiddenVisible });
 });

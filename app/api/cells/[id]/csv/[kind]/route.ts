@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { ApiError, apiRoute, parseJsonBody, parseParams, parseQuery } from '@/lib/api/errors';
+import { ApiError, apiRoute, parseParams, parseQuery } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
@@ -48,7 +49,7 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, CELL_ROLES);
   const { id, kind } = await parseParams(ctx.params, cellCsvParamSchema);
   await cellForOwner(user, id);
-  const body = await parseJsonBody(req, csvImportSchema);
+  const body = await parseJsonBody(req, csvImportSchema, 'csv');
   const latest = await getVersion(id);
   if (!latest) throw new ApiError(404, 'No such cell.');
   const stale = (latestVersion: number) =>
