@@ -1,0 +1,78 @@
+/**
+ * Concrete runs of a compiled sheet and concrete rule checks. A counterexample found on
+ * the encoding is replayed here before it is reported, so a `violated` verdict always
+ * holds on the engine's own compiled sheet (an abstraction can only add behaviour; a
+ * counterexample that needs it does not replay and the verdict stays undecided).
+ */
+import { createProcessImage, getBit, setBit } from '@/simulator/address/process-image';
+import { parseAddress } from '@/simulator/address/address';
+import type { CompiledSheet } from '@/simulator/plc/api';
+import { canonicalAddress, type InterlockRule, type RuleCondition } from './rules';
+
+/** Values of bits after one scan (inputs as read during it), by canonical address. */
+export type Frame = Record<string, boolean>;
+
+/**
+ * Runs `inputs.length` scans from a fresh state: before each, the I area is cleared and
+ * the scan's inputs set (as the cell writes its I area before each scan); returns, per
+ * scan, the `watch` bits afterwards.
+ */
+export function runScans(compiled: CompiledSheet, inputs: readonly Record<string, boolean>[], watch: readonly string[]): Frame[] {
+  const state = compiled.createState();
+  const image = createProcessImage();
+  const bit = (text: string) => {
+    const r = parseAddress(text);
+    if (!r.ok || r.value.size !== 'X') throw new Error(`not a bit address: ${text}`);
+    return r.value;
+  };
+  const watched = watch.map((w) => ({ name: w, at: bit(w) }));
+  const frames: Frame[] = [];
+  for (const vector of inputs) {
+    image.I.fill(0);
+    for (const [name, on] of Object.entries(vector)) {
+      const a = bit(name);
+      if (a.area === 'I') setBit(image, 'I', a.byte, a.bit ?? 0, on);
+    }
+    compiled.scan(state, image);
+    const frame: Frame = {};
+    for (const w of watched) frame[w.name] = getBit(image, w.at.area, w.at.byte, w.at.bit ?? 0);
+    frames.push(frame);
+  }
+  return frames;
+}
+
+/** A condition's value in one frame (an address missing from the frame reads off). */
+export function holds(c: RuleCondition, frame: Frame): boolean {
+  if ('signal' in c) return (frame[canonicalAddress(c.signal)] ?? false) === (c.value === 'on');
+  if ('all' in c) return c.all.every((x) => holds(x, frame));
+  if ('any' in c) return c.any.some((x) => holds(x, frame));
+  return !holds(c.not, frame);
+}
+
+/** The first scan whose result breaks the rule, or null if none of the frames does. */
+export function firstViolation(rule: InterlockRule, frames: readonly Frame[]): number | null {
+  if (rule.kind === 'never' || rule.kind === 'only-if') {
+    for (let t = 0; t < frames.length; t++) {
+      const f = frames[t];
+      const broken = rule.kind === 'never' ? holds(rule.what, f) && holds(rule.while, f) : holds(rule.what, f) && !rule.requires.every((c) => holds(c, f));
+      if (broken) return t;
+    }
+    return null;
+  }
+  // within: the oldest trigger not yet answered decides.
+  let oldest: number | null = null;
+  let was = false;
+  for (let t = 0; t < frames.length; t++) {
+    const x = holds(rule.after, frames[t]);
+    const y = holds(rule.expect, frames[t]);
+    const trigger = rule.trigger === 'holds' ? x : x && !was;
+    was = x;
+    if (y) {
+      oldest = null;
+      continue;
+    }
+    if (oldest === null && trigger) oldest = t;
+    if (oldest !== null && t - oldest >= rule.scans) return t;
+  }
+  return null;
+}
