@@ -81,7 +81,7 @@ export function diffCommand(argv: readonly string[], io: DiffCliIo): 0 | 1 | 2 {
   }
   const diff = diffCells(base.doc, proposed.doc);
   if (flags.includes('--io-sheet')) {
-    io.stdout(`${ioChangeSheet(diff, base.doc, proposed.doc).csv}\r\n`);
+    io.stdout(ioChangeSheet(diff, base.doc, proposed.doc).csv);
     return 0;
   }
   io.stdout(`${JSON.stringify({ ok: true, diff }, null, 2)}\n`);

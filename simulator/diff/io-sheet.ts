@@ -61,12 +61,14 @@ export function neutraliseCsvCell(text: string): string {
   return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
 }
 
-/** Rows as CSV (papaparse), every cell neutralised, CRLF line ends (papaparse's default). */
+/** Rows as CSV (papaparse), every cell neutralised; CRLF after every line, the last one too (RFC 4180). */
 export function ioChangeCsv(rows: readonly IoChangeRow[]): string {
-  return Papa.unparse({
+  const text = Papa.unparse({
     fields: IO_CHANGE_COLUMNS.map((c) => neutraliseCsvCell(c.title)),
     data: rows.map((r) => IO_CHANGE_COLUMNS.map((c) => neutraliseCsvCell(r[c.key]))),
   });
+  // papaparse ends a header-only sheet with a line break but not one with rows: make it one way.
+  return text.endsWith('\r\n') ? text : `${text}\r\n`;
 }
 
 const FAMILY_ORDER: readonly PointFamily[] = ['DI', 'DO', 'AI', 'AO', 'WI', 'WO', 'TI', 'TO'];
