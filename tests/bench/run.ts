@@ -86,6 +86,7 @@ export const MEASUREMENTS: Measurement[] = [
   { name: 'demo cell', describe: 'pick-and-place demo, one hour of cell time', run: cellRealtime },
   { name: 'workspace', describe: 'first-load JS (gzip KiB) and 500-block canvas fps in Chromium; needs BENCH_BASE_URL', run: workspaceBench },
   { name: 'drills', describe: 'server regrade of a 10-minute run; batch POST p95 with 50 clients (autocannon), needs BENCH_BASE_URL', run: drillsBench },
+  { name: 'changeover diff', describe: 'diffCells on two 10,000-block cells differing in 1 % of blocks (median ms, target ≤ 200)', run: async () => (await import('./diff-bench')).diffBench() },
 ];
 
 function round(x: number, digits: number): number {
