@@ -93,6 +93,30 @@ export async function setPasswordHash(userId: string, passwordHash: string, trx:
     .update({ password_hash: passwordHash, session_generation: trx.raw('session_generation + 1'), updated_at: trx.fn.now() });
 }
 
+/**
+ * Replace a password hash with one of the same password at a newer cost (upgrade on sign-in).
+ * Unlike setPasswordHash this keeps the session generation: the password did not change.
+ * Only when the stored hash is still `previousHash`, so a reset that landed in between wins.
+ */
+export async function upgradePasswordHash(userId: string, previousHash: string, newHash: string): Promise<boolean> {
+  const changed = await db()('users').where({ id: userId, password_hash: previousHash }).update({ password_hash: newHash });
+  return changed === 1;
+}
+
+/**
+ * End every session of the account opened under `generation` (sign-out): raising the
+ * generation makes requireApiUser / requirePageUser refuse those tokens, including copies of
+ * the one signing out. A token of an older generation is already dead and changes nothing,
+ * so a stale sign-out never ends sessions opened after it.
+ */
+export async function endSessions(userId: string, generation: number): Promise<boolean> {
+  if (!isUuid(userId)) return false;
+  const changed = await db()('users')
+    .where({ id: userId, session_generation: generation })
+    .update({ session_generation: db().raw('session_generation + 1'), updated_at: db().fn.now() });
+  return changed === 1;
+}
+
 export async function markSignedIn(userId: string): Promise<void> {
   await db()('users').where({ id: userId }).update({ last_sign_in_at: db().fn.now() });
 }

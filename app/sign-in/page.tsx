@@ -3,6 +3,8 @@ import { redirect } from 'next/navigation';
 import { SignInForm } from '@/components/auth/sign-in-form';
 import { PublicShell } from '@/components/ui/public-shell';
 import { getPageUser } from '@/lib/auth/session';
+import { safeCallbackPath } from '@/lib/auth/callback-url';
+import { env } from '@/lib/env';
 
 export const metadata: Metadata = { title: 'Sign in · Cellwright' };
 
@@ -13,7 +15,8 @@ const NOTICES: Record<string, string> = {
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const params = await searchParams;
-  const callbackUrl = typeof params.callbackUrl === 'string' ? params.callbackUrl : undefined;
+  // Only a path of this app survives (lib/auth/callback-url.ts); anything else becomes the dashboard.
+  const callbackUrl = safeCallbackPath(typeof params.callbackUrl === 'string' ? params.callbackUrl : undefined, env().APP_URL);
   if (await getPageUser()) redirect('/dashboard');
   const notice = typeof params.notice === 'string' ? NOTICES[params.notice] : undefined;
   return (

@@ -9,14 +9,10 @@ import { LogIn } from 'lucide-react';
 import { signInSchema } from '@/lib/schemas/auth';
 import type { SignInInput } from '@/lib/schemas/auth';
 import { NEXTAUTH_CREDENTIALS_ERROR, SIGN_IN_MESSAGES } from '@/lib/auth/messages';
+import { safeCallbackPath } from '@/lib/auth/callback-url';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-
-/** Only same-site paths are followed after sign-in, never another origin. */
-function safeCallback(url: string | undefined): string {
-  return url && url.startsWith('/') && !url.startsWith('//') ? url : '/dashboard';
-}
 
 export function SignInForm({ callbackUrl, notice }: { callbackUrl?: string; notice?: string }) {
   const [error, setError] = useState<string | null>(null);
@@ -34,8 +30,9 @@ export function SignInForm({ callbackUrl, notice }: { callbackUrl?: string; noti
       setError(!code || code === NEXTAUTH_CREDENTIALS_ERROR ? SIGN_IN_MESSAGES.invalid : code);
       return;
     }
-    // A full navigation so every server component sees the new session cookie.
-    window.location.assign(safeCallback(callbackUrl));
+    // A full navigation so every server component sees the new session cookie; only ever to a
+    // path of this app (the page checked it too: this is the last word before the browser goes).
+    window.location.assign(safeCallbackPath(callbackUrl, window.location.origin));
   });
 
   return (

@@ -3,7 +3,9 @@ import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
 import { env } from '@/lib/env';
 import type { Role } from '@/lib/roles';
-import { authenticate, clientAddress } from './credentials';
+import { endSessions } from '@/db/users';
+import { authenticate, requestAddress } from './credentials';
+import { safeRedirectUrl } from './callback-url';
 import type { AuthResult } from './credentials';
 import { SIGN_IN_MESSAGES } from './messages';
 
@@ -37,7 +39,7 @@ export function authOptions(): NextAuthOptions {
             result = await authenticate({
               email: credentials?.email,
               password: credentials?.password,
-              address: clientAddress(req?.headers as Record<string, string> | undefined),
+              address: requestAddress(req?.headers as Record<string, string> | undefined),
             });
           } catch (err) {
             // next-auth shows a thrown message to the visitor: never let SQL or internals through.
@@ -55,7 +57,25 @@ export function authOptions(): NextAuthOptions {
         },
       }),
     ],
+    events: {
+      // Sign-out ends the session for good, not only the cookie in this browser: the account's
+      // session generation is raised, so the token (and any copy of it) is refused from now on.
+      // The generation is per account, so this also ends the account's other open sessions.
+      async signOut({ token }) {
+        if (!token?.id) return;
+        try {
+          await endSessions(String(token.id), typeof token.gen === 'number' ? token.gen : 0);
+        } catch (err) {
+          // next-auth only logs a throw here and clears the cookie anyway; say what failed.
+          console.error('[auth] sign-out could not end the session', err);
+        }
+      },
+    },
     callbacks: {
+      // After sign-in or sign-out, only a target on this app's own origin (lib/auth/callback-url.ts).
+      async redirect({ url, baseUrl }) {
+        return safeRedirectUrl(url, baseUrl);
+      },
       async jwt({ token, user }) {
         if (user) {
           token.id = user.id;

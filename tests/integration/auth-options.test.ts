@@ -3,7 +3,7 @@ import { describe, expect, it, vi } from 'vitest';
 import { SIGN_IN_MESSAGES } from '@/lib/auth/messages';
 
 vi.mock('@/lib/auth/credentials', () => ({
-  clientAddress: () => '192.0.2.200',
+  requestAddress: () => '192.0.2.200',
   authenticate: vi.fn(async () => {
     throw new Error('select count(*) from "sign_in_failures" - relation "sign_in_failures" does not exist');
   }),
