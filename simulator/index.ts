@@ -199,3 +199,36 @@ export type {
 } from './diff';
 export { diffCells, ioChangeSheet, ioChangeCsv, neutraliseCsvCell, IO_CHANGE_COLUMNS, DIFF_AREAS, DIFF_KINDS, DIFF_FORMAT_VERSION } from './diff';
 // ---- end diff
+
+// ---- proofs (interlock prover: simulator/prove/)
+/**
+ * Interlock rules over PLC bits (%IX/%QX/%MX) and their proofs. A rule is data a form builds:
+ * `never` (never X while Y), `only-if` (X only if Y and Z …), `within` (after X, Y within N
+ * scans); conditions are a bit with a wanted value combined with all / any / not
+ * (`interlockRuleSchema`, `describeRule` for plain English, `signalLabels` for a cell's
+ * device labels). `proveRules(document or sheet, rules, { maxDepth, budget })` → one
+ * `Verdict` per rule: `proved` (k-induction or exhaustive), `violated` with the shortest
+ * counterexample (one input vector per scan; replayed on the compiled sheet before it is
+ * reported), or `undecided` with the bound reached; each names how counters, timers and
+ * word blocks were encoded (exact, or abstracted as free). Pure and deterministic; the
+ * caller limits wall time. `counterexampleEvents(cex, document)` turns a counterexample into
+ * logged `force` events that replay it on a cell. The headless `prove` command is
+ * `proveCommand` in simulator/prove/cli.ts.
+ */
+export type { RuleCondition, InterlockRule, InterlockRuleInput, SignalLabels, EncodingNote, ProveOptions, Counterexample, Verdict } from './prove';
+export {
+  ruleConditionSchema,
+  interlockRuleSchema,
+  interlockRulesSchema,
+  describeRule,
+  describeCondition,
+  ruleAddresses,
+  signalLabels,
+  MAX_CONDITION_DEPTH,
+  MAX_WITHIN_SCANS,
+  proveRules,
+  PROVE_DEFAULTS,
+  counterexampleEvents,
+  counterexampleFailsAtMs,
+} from './prove';
+// ---- end proofs

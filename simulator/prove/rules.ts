@@ -39,7 +39,7 @@ const bitAddress = z.string().superRefine((text, ctx) => {
 });
 
 /** Schema of a {@link RuleCondition}. */
-export const ruleConditionSchema: z.ZodType<RuleCondition> = z.lazy(() =>
+export const ruleConditionSchema: z.ZodType<RuleCondition, RuleCondition> = z.lazy(() =>
   z.union([
     z.object({ signal: bitAddress, value: z.enum(['on', 'off']) }).strict(),
     z.object({ all: z.array(ruleConditionSchema).min(1).max(64) }).strict(),
