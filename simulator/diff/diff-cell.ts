@@ -39,14 +39,29 @@ function cellFields(d: CellDocument) {
   };
 }
 
+/**
+ * The document path of a dotted field path. Device ids may contain dots (`guard.2`), so under
+ * `initial.devices` the id is matched against the devices the two documents list there.
+ */
+function documentPath(path: string, deviceIds: readonly string[]): string[] {
+  const prefix = 'initial.devices.';
+  if (!path.startsWith(prefix)) return path.split('.');
+  const rest = path.slice(prefix.length);
+  const id = deviceIds.filter((d) => rest === d || rest.startsWith(`${d}.`)).sort((x, y) => y.length - x.length)[0];
+  if (id === undefined) return path.split('.');
+  const tail = rest.slice(id.length + 1);
+  return ['initial', 'devices', id, ...(tail ? tail.split('.') : [])];
+}
+
 function diffCellFields(base: CellDocument, proposed: CellDocument): DiffEntry[] {
+  const deviceIds = [...Object.keys(base.initial.devices ?? {}), ...Object.keys(proposed.initial.devices ?? {})];
   return diffFields(cellFields(base), cellFields(proposed)).map((c) => ({
     area: 'cell',
     kind: c.from === undefined ? 'added' : c.to === undefined ? 'removed' : 'changed',
     target: 'cell-field',
     id: c.path,
     importance: 'high',
-    path: c.path.split('.'),
+    path: documentPath(c.path, deviceIds),
     changes: [c],
     detail: describeChange(c),
   }));

@@ -58,6 +58,24 @@ describe('diffCells', () => {
     expect(diffCells(a, b).summary.identical).toBe(true);
   });
 
+  it('a field written as undefined reads as absent, as in JSON', () => {
+    const a = parsedCell();
+    const b = parsedCell();
+    b.wiring[0].label = undefined;
+    b.controller.routine[1] = { ...b.controller.routine[1], label: undefined };
+    expect(diffCells(a, b).summary.identical).toBe(true);
+  });
+
+  it('odd ids: a block called __proto__, a device id with a dot', () => {
+    const a = parsedCell();
+    const b = parsedCell();
+    b.plc.sheet.blocks.push({ id: '__proto__', type: 'NOT', position: { x: 0, y: 0 }, params: {} });
+    b.initial.devices = { ...b.initial.devices, 'guard.2': { guardClosed: true } };
+    const d = diffCells(a, b);
+    expect(d.areas.logic.map((e) => [e.kind, e.id])).toEqual([['added', '__proto__']]);
+    expect(d.areas.cell.map((e) => [e.id, e.path])).toEqual([['initial.devices.guard.2.guardClosed', ['initial', 'devices', 'guard.2', 'guardClosed']]]);
+  });
+
   it('the changeover fixture is a valid cell (so the diff is tested on a realistic proposal)', () => {
     const r = validateCellDocument(changeoverProposal(parsedCell()));
     expect(r.ok ? [] : r.errors).toEqual([]);

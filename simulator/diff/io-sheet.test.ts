@@ -55,6 +55,17 @@ describe('ioChangeSheet', () => {
     expect(pick(rows, 'DO7')).toEqual([expect.objectContaining({ action: 'invert', was: 'not inverted', now: 'inverted' })]);
   });
 
+  it('a staged edit gives rows marked staged (they take effect at the controller restart)', () => {
+    const a = parsedCell();
+    const b = parsedCell();
+    const staged = structuredClone(b.controller.pointMap);
+    staged.find((r) => r.id === 'pm-to')!.firstChannel = 1;
+    b.controller.staged = staged;
+    const { rows } = ioChangeSheet(diffCells(a, b), a, b);
+    // pm-to: TO1 alone on rack 0 slot 3; its first channel 0 → 1.
+    expect(rows).toEqual([expect.objectContaining({ action: 'move', point: 'TO1', label: 'Gripper close', was: 'rack 0 / slot 3 / ch 0', now: 'rack 0 / slot 3 / ch 1', map: 'staged' })]);
+  });
+
   it('a removed wire is a remove row', () => {
     const { rows } = sheetOf((b) => {
       b.wiring = b.wiring.filter((r) => r.id !== 'w-readylamp');
