@@ -202,11 +202,13 @@ export async function renameCell(id: string, name: string): Promise<CellRecord |
 }
 
 /** Soft delete: the cell disappears from every list and route; its versions stay for runs that cite them. */
+/** Soft-deletes a cell and drops its shares in one transaction (students no longer see it, and nothing is half done). */
 export async function deleteCell(id: string): Promise<boolean> {
-  const n = await db()('cells').where({ id }).whereNull('deleted_at').update({ deleted_at: db().fn.now() });
-  // Shares go at once, so students no longer see a deleted cell.
-  await db()('cell_shares').where({ cell_id: id }).delete();
-  return n > 0;
+  return db().transaction(async (trx) => {
+    const n = await trx('cells').where({ id }).whereNull('deleted_at').update({ deleted_at: trx.fn.now() });
+    await trx('cell_shares').where({ cell_id: id }).delete();
+    return n > 0;
+  });
 }
 
 function versionQuery(cellId: string) {

@@ -96,8 +96,20 @@ async function findDrillWith(k: Knex, id: string): Promise<Drill | null> {
   return row ? toDrill(row) : null;
 }
 
-export async function updateDrill(id: string, input: DrillInput): Promise<Drill | null> {
-  await db()('drills').where({ id }).whereNull('deleted_at').update({ ...drillColumns(input), updated_at: db().fn.now() });
+/**
+ * Changes a drill unless a run has started on it (its grading inputs are then frozen), in one
+ * transaction: the drill row is locked FOR UPDATE, which a run's insert (its foreign key takes
+ * a KEY SHARE lock on the drill) waits for, so no run can start between the check and the write.
+ */
+export async function updateDrillUnlessFrozen(id: string, input: DrillInput): Promise<Drill | 'frozen' | null> {
+  const done = await db().transaction(async (trx) => {
+    const row = await trx('drills').where({ id }).whereNull('deleted_at').forUpdate().first('id');
+    if (!row) return null;
+    if (await trx('runs').where({ drill_id: id }).first('id')) return 'frozen' as const;
+    await trx('drills').where({ id }).update({ ...drillColumns(input), updated_at: trx.fn.now() });
+    return 'updated' as const;
+  });
+  if (done !== 'updated') return done;
   return findDrill(id);
 }
 
@@ -190,11 +202,25 @@ export async function cohortStudents(cohortId: string): Promise<{ id: string; na
     .orderBy('u.name');
 }
 
-/** True when the drill is assigned to a cohort the user belongs to (its brief is theirs to read). */
-export async function isDrillAssignedToMember(drillId: string, userId: string): Promise<boolean> {
+/** True when the drill is assigned to a cohort the user belongs to and that assignment has opened (its brief is theirs to read). */
+export async function isDrillOpenedToMember(drillId: string, userId: string): Promise<boolean> {
   const row = await db()('assignments as a')
     .join('memberships as m', 'm.cohort_id', 'a.cohort_id')
     .where({ 'a.drill_id': drillId, 'm.user_id': userId })
+    .where('a.opens_at', '<=', db().fn.now())
+    .first('a.id');
+  return Boolean(row);
+}
+
+/**
+ * True while the user could still attempt the drill: an assignment of it to one of their
+ * cohorts has not closed yet (open now, or still to open). Its hidden parts stay hidden then.
+ */
+export async function hasUnclosedAssignmentFor(drillId: string, userId: string): Promise<boolean> {
+  const row = await db()('assignments as a')
+    .join('memberships as m', 'm.cohort_id', 'a.cohort_id')
+    .where({ 'a.drill_id': drillId, 'm.user_id': userId })
+    .where('a.closes_at', '>', db().fn.now())
     .first('a.id');
   return Boolean(row);
 }

@@ -47,13 +47,19 @@ export async function createInvitation(cohortId: string, invitedBy: string, rawE
   return { email, status: 'invited', token, invitationId: inserted[0].id };
 }
 
+/**
+ * Revokes an open invitation in one transaction: the row is locked, so an acceptance racing the
+ * revoke either lands first (the revoke answers not-open) or finds the invitation revoked.
+ */
 export async function revokeInvitation(cohortId: string, invitationId: string): Promise<'revoked' | 'not-found' | 'not-open'> {
   if (!isUuid(invitationId)) return 'not-found';
-  const row = await db()('invitations').where({ id: invitationId, cohort_id: cohortId }).first();
-  if (!row) return 'not-found';
-  if (row.accepted_at || row.revoked_at) return 'not-open';
-  await db()('invitations').where({ id: invitationId }).update({ revoked_at: db().fn.now() });
-  return 'revoked';
+  return db().transaction(async (trx) => {
+    const row = await trx('invitations').where({ id: invitationId, cohort_id: cohortId }).forUpdate().first();
+    if (!row) return 'not-found' as const;
+    if (row.accepted_at || row.revoked_at) return 'not-open' as const;
+    await trx('invitations').where({ id: invitationId }).update({ revoked_at: trx.fn.now() });
+    return 'revoked' as const;
+  });
 }
 
 export type TokenState<T> =

@@ -114,7 +114,7 @@ function AttemptHeader({ payload, remote, runId, options }: { payload: StudentDr
         </button>
         {briefOpen ? (
           <div className="grid gap-4 border-t border-slate-100 px-4 py-3 md:grid-cols-[2fr_1fr]">
-            <Markdown source={drill.brief || '_No brief._'} />
+            <Markdown source={drill.brief || '_No brief._'} drillId={drill.id} />
             <div>
               <h2 className="text-xs font-semibold uppercase tracking-wide text-slate-500">Objectives</h2>
               {drill.objectives.length === 0 ? (

@@ -342,7 +342,7 @@ function BriefEditor({ drillId, register, control, setValue, error }: { drillId:
         <textarea aria-label="Brief (Markdown)" rows={10} className={cn(input, 'font-mono')} {...register('brief')} />
       ) : (
         <div className="min-h-40 rounded-md border border-slate-200 p-3">
-          <Markdown source={brief || '_Nothing written yet._'} />
+          <Markdown source={brief || '_Nothing written yet._'} drillId={drillId} />
         </div>
       )}
       {!drillId ? <p className="text-xs text-slate-500">Images can be added once the drill is created.</p> : null}

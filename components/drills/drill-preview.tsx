@@ -125,7 +125,7 @@ function PreviewHeader({ drill }: { drill: PreviewDrill }) {
       </header>
       <div className="grid gap-3 md:grid-cols-[2fr_1fr]">
         <section aria-label="Brief" className="rounded-md border border-slate-200 bg-white p-3">
-          <Markdown source={drill.brief || '_No brief._'} />
+          <Markdown source={drill.brief || '_No brief._'} drillId={drill.id} />
         </section>
         <section aria-label="Hidden fault cards" className="rounded-md border border-amber-300 bg-amber-50 p-3 text-sm" data-testid="trainer-faults">
           <h2 className="text-xs font-semibold uppercase tracking-wide text-amber-900">Hidden from students</h2>

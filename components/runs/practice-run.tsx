@@ -16,7 +16,12 @@ import { StatusStrip } from '@/components/workspace/status-strip';
 import { RunWorkspace, type AreaEditing } from './run-workspace';
 import { useRunRecorder } from './use-run-recorder';
 
-type Started = { run: { id: string; seed?: number } };
+type Started = { run: { id: string } };
+
+/** A 32-bit seed from the browser's cryptographic source. */
+function randomSeed(): number {
+  return crypto.getRandomValues(new Uint32Array(1))[0];
+}
 
 /** The server follows a recorded practice run at most ×10 ahead of its age (lib/runs/policy.ts). */
 const PRACTICE_SPEEDS = [1, 10] as const;
@@ -27,21 +32,23 @@ const PRACTICE_EDITING: AreaEditing = { logic: true, field: true, controller: tr
 export function PracticeRun({ cellId, cellName, version, document }: { cellId: string; cellName: string; version: number; document: CellDocument }) {
   const [run, setRun] = useState<{ id: string; seed: number } | null>(null);
   const [error, setError] = useState<string | null>(null);
+  // This browser picks the run's seed and sends it (the server never sends one back), so the
+  // server's replay of the log matches what the worker ran.
   const start = useCallback(
-    (seed?: number) => fetchJson<Started>('/api/runs', { method: 'POST', body: seed === undefined ? { cellId, version } : { cellId, version, seed } }),
+    async (seed: number) => ({ ...(await fetchJson<Started>('/api/runs', { method: 'POST', body: { cellId, version, seed } })), seed }),
     [cellId, version],
   );
   useEffect(() => {
     let cancelled = false;
-    start()
-      .then((a) => !cancelled && setRun({ id: a.run.id, seed: a.run.seed ?? document.seed }))
+    start(randomSeed())
+      .then((a) => !cancelled && setRun({ id: a.run.id, seed: a.seed }))
       .catch((e) => !cancelled && setError(e instanceof ApiClientError ? e.message : 'The practice run could not start.'));
     return () => {
       cancelled = true;
     };
-  }, [start, document.seed]);
+  }, [start]);
   // After "Restart run" the worker keeps the first run's seed, so the next run is opened with it.
-  const startNext = useCallback(async () => (await start(run?.seed)).run.id, [start, run?.seed]);
+  const startNext = useCallback(async () => (await start(run?.seed ?? randomSeed())).run.id, [start, run?.seed]);
   // The worker seeds the cell from the document: the run's seed makes the saved run replay exactly.
   const init = useMemo(() => (run ? { cellId, version, document: { ...document, seed: run.seed }, canEdit: false, editsWaitForDownload: true } : null), [run, cellId, version, document]);
 

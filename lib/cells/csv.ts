@@ -5,6 +5,7 @@
  * as a spreadsheet numbers it), its column and a message. Pure: no database, no Next.js.
  */
 import Papa from 'papaparse';
+import { csvCellFromFile, csvSafeCell } from '@/lib/csv-cell';
 import type { CellDocument, Endpoint, PointMapRow, Problem, WiringRow } from '@/simulator';
 import { CELL_LIMITS, pointMapRowSchema, resolveLogical, resolvePointMap, wiringRowSchema } from '@/simulator';
 import type { CsvKind } from '@/lib/schemas/cells';
@@ -45,18 +46,31 @@ const joinList = (items: string[]): string => items.map((s) => s.replace(/\|/g, 
 
 function toCsv(columns: readonly string[], rows: Record<string, string | number>[]): string {
   // CRLF line ends: RFC 4180, and what spreadsheet programs write.
-  return Papa.unparse({ fields: [...columns], data: rows.map((r) => columns.map((c) => r[c] ?? '')) }, { newline: '\r\n' }) + '\r\n';
+  const cell = (v: string | number | undefined) => (typeof v === 'string' ? csvSafeCell(v) : (v ?? ''));
+  return Papa.unparse({ fields: [...columns], data: rows.map((r) => columns.map((c) => cell(r[c]))) }, { newline: '\r\n' }) + '\r\n';
 }
 
-/** Reads the CSV text into records keyed by lower-cased header; header problems are row 1. */
-function readRecords(text: string, kind: CsvKind): { records: Record<string, string>[]; errors: CsvRowError[] } {
+/** Most problems an import reports; the rest are counted (MAX_REPORTED_PROBLEMS, route docs). */
+export const MAX_REPORTED_PROBLEMS = 100;
+
+/**
+ * Reads the CSV text into records keyed by lower-cased header; header problems are row 1.
+ * Parsing stops one record past `maxRows`: a file longer than the document allows is refused
+ * at that row without reading the rest.
+ */
+function readRecords(text: string, kind: CsvKind, maxRows: number): { records: Record<string, string>[]; errors: CsvRowError[] } {
   const errors: CsvRowError[] = [];
   const parsed = Papa.parse<Record<string, string>>(text.replace(/^\uFEFF/, ''), {
     header: true,
     skipEmptyLines: 'greedy',
+    preview: maxRows + 1,
     transformHeader: (h) => h.trim().toLowerCase(),
-    transform: (v) => v.trim(),
+    transform: (v) => csvCellFromFile(v.trim()),
   });
+  if (parsed.data.length > maxRows) {
+    errors.push({ row: rowNumber(maxRows), column: '', message: `at most ${maxRows} rows; the file has more, and nothing after row ${rowNumber(maxRows - 1)} was read` });
+    parsed.data.length = maxRows;
+  }
   const fields = (parsed.meta.fields ?? []).filter((f) => f !== '');
   const known = new Set(CSV_COLUMNS[kind]);
   for (const f of fields) if (!known.has(f)) errors.push({ row: 1, column: f, message: `unknown column "${f}"; the columns are ${CSV_COLUMNS[kind].join(', ')}` });
@@ -99,8 +113,7 @@ const IO_FIELD_COLUMN: Record<string, string> = { id: 'wire_id', from: 'from', t
 
 /** Parses a point-map CSV into rows the document schema accepts (shape only; cross-checks come later). */
 export function parsePointMapCsv(text: string): CsvParse<PointMapRow> {
-  const { records, errors } = readRecords(text, 'point-map');
-  if (records.length > CELL_LIMITS.pointMapRows) errors.push({ row: rowNumber(CELL_LIMITS.pointMapRows), column: '', message: `at most ${CELL_LIMITS.pointMapRows} point-map rows` });
+  const { records, errors } = readRecords(text, 'point-map', CELL_LIMITS.pointMapRows);
   const rows: PointMapRow[] = [];
   const rowNumbers: number[] = [];
   const usedIds = new Set<string>();
@@ -201,8 +214,7 @@ function parseEndpoint(text: string, doc: CellDocument): { ok: true; value: Endp
 
 /** Parses an I/O-list CSV into wiring rows (shape only; the document's cross-checks come later). */
 export function parseIoListCsv(text: string, doc: CellDocument): CsvParse<WiringRow> {
-  const { records, errors } = readRecords(text, 'io-list');
-  if (records.length > CELL_LIMITS.wiringRows) errors.push({ row: rowNumber(CELL_LIMITS.wiringRows), column: '', message: `at most ${CELL_LIMITS.wiringRows} wiring rows` });
+  const { records, errors } = readRecords(text, 'io-list', CELL_LIMITS.wiringRows);
   const rows: WiringRow[] = [];
   const rowNumbers: number[] = [];
   const usedIds = new Set<string>();
@@ -255,6 +267,11 @@ export function problemsToRowErrors(problems: readonly Problem[], prefix: readon
 /** Errors in file order (stable within a row: the order they were found). */
 export function sortErrors(errors: CsvRowError[]): CsvRowError[] {
   return [...errors].sort((a, b) => a.row - b.row);
+}
+
+/** The first MAX_REPORTED_PROBLEMS errors (in file order) and how many there were in all. */
+export function firstProblems(errors: readonly CsvRowError[]): { shown: CsvRowError[]; total: number } {
+  return { shown: errors.slice(0, MAX_REPORTED_PROBLEMS), total: errors.length };
 }
 
 /** Row errors as the API's field errors: key `rows.<row>.<column>` (`_` for the whole row). */

@@ -56,23 +56,29 @@ export interface StudentDrillPayload {
   };
 }
 
-/** Builds the student payload field by field (nothing is spread from the drill row). */
+/**
+ * Builds the student payload field by field (nothing is spread from the drill row). Before the
+ * assignment opens the student learns only its title, times and limits: the brief, objectives
+ * and images come with the opening (and so does the base cell; see the assignment route).
+ */
 export async function studentDrillPayload(assignment: Assignment, drill: Drill): Promise<StudentDrillPayload> {
+  const state = assignmentState(assignment);
+  const opened = state !== 'upcoming';
   return {
     assignmentId: assignment.id,
-    state: assignmentState(assignment),
+    state,
     opensAt: assignment.opensAt,
     closesAt: assignment.closesAt,
     drill: {
       id: drill.id,
       title: drill.title,
-      brief: drill.brief,
-      objectives: [...drill.objectives],
+      brief: opened ? drill.brief : '',
+      objectives: opened ? [...drill.objectives] : [],
       timeLimitMs: drill.timeLimitMs,
       permissions: { forceAllowed: drill.permissions.forceAllowed, editable: [...drill.permissions.editable] },
       cellId: drill.cellId,
       cellVersion: drill.cellVersion,
-      assets: await listAssets(drill.id),
+      assets: opened ? await listAssets(drill.id) : [],
     },
   };
 }

@@ -1,5 +1,6 @@
 import 'server-only';
 import Papa from 'papaparse';
+import { csvSafeCell } from '@/lib/csv-cell';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
 import { findCohort, type CohortSummary } from '@/db/cohorts';
@@ -73,7 +74,7 @@ export async function buildGradebook(cohort: CohortSummary): Promise<Gradebook> 
  * spreadsheet shows it as text (OWASP "CSV injection", common practice).
  */
 export function gradebookCsv(book: Gradebook): string {
-  const safe = (s: string) => (/^[=+\-@\t\r]/.test(s) ? `'${s}` : s);
+  const safe = csvSafeCell;
   const header = ['Student', 'E-mail', ...book.columns.map((c) => safe(`${c.drillTitle} (closes ${c.closesAt.slice(0, 10)})`))];
   const rows = book.rows.map((r) => [
     safe(r.name),

@@ -1,7 +1,7 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
-import { findAssignment, findDrill } from '@/db/drills';
+import { findDrill, hasUnclosedAssignmentFor } from '@/db/drills';
 import { findRun, type Run } from '@/db/runs';
 
 /** A run the user owns (batches, view, submit); anybody else gets 404. */
@@ -16,8 +16,9 @@ export type RunReader = 'owner' | 'trainer' | 'admin';
 /**
  * A run the user may read (replay, events, trace): its owner, the trainer of its drill, or an
  * admin. Other people get 404, so run ids reveal nothing. `hiddenVisible` says whether the
- * drill's fault cards may be shown: to the trainer and admins always, to the student only
- * once the drill has closed.
+ * drill's fault cards, rules and breakdown may be shown: to the trainer and admins always, to
+ * the student only once every assignment of that drill they could still attempt has closed
+ * (the same drill may be assigned again, to this cohort or another of theirs).
  */
 export async function runForReader(user: User, id: string): Promise<{ run: Run; reader: RunReader; hiddenVisible: boolean }> {
   const run = await findRun(id);
@@ -27,13 +28,22 @@ export async function runForReader(user: User, id: string): Promise<{ run: Run; 
   if (drill && drill.trainerId === user.id) return { run, reader: 'trainer', hiddenVisible: true };
   if (run.userId !== user.id) throw new ApiError(404, 'No such run.');
   if (run.mode === 'practice') return { run, reader: 'owner', hiddenVisible: true };
-  const assignment = run.assignmentId ? await findAssignment(run.assignmentId) : null;
-  const closed = assignment !== null && Date.now() > Date.parse(assignment.closesAt);
-  return { run, reader: 'owner', hiddenVisible: closed };
+  return { run, reader: 'owner', hiddenVisible: await drillSecretsVisibleToStudent(run.drillId, user.id) };
 }
 
-/** A run as its reader may see it: a student sees the grade but not the breakdown's rule internals until the drill closes. */
-export function runView(run: Run, hiddenVisible: boolean) {
+/** Whether a student may see a drill's hidden parts: only when no assignment of it to any of their cohorts is still open or to come. */
+export async function drillSecretsVisibleToStudent(drillId: string | null, userId: string): Promise<boolean> {
+  if (!drillId) return false;
+  return !(await hasUnclosedAssignmentFor(drillId, userId));
+}
+
+/**
+ * A run as its reader may see it: a student sees the grade but not the breakdown's rule
+ * internals until the drill's hidden parts may be shown (runForReader). The run's seed goes to
+ * the drill's trainer and admins only, never to the student (a practice run's seed is chosen
+ * by the student's own browser).
+ */
+export function runView(run: Run, hiddenVisible: boolean, reader: RunReader = 'owner') {
   const base = {
     id: run.id,
     userId: run.userId,
@@ -56,5 +66,6 @@ export function runView(run: Run, hiddenVisible: boolean) {
     overrideReason: run.overrideReason,
     traceHash: run.traceHash,
   };
-  return hiddenVisible ? { ...base, seed: run.seed, breakdown: run.breakdown } : { ...base, breakdown: null };
+  const withBreakdown = { ...base, breakdown: hiddenVisible ? run.breakdown : null };
+  return reader === 'owner' ? withBreakdown : { ...withBreakdown, seed: run.seed };
 }

@@ -4,10 +4,11 @@ import type { CellSnapshot, LoggedEvent, Trace, WireSnapshot } from '@/simulator
 export type SanitisedWire = Omit<WireSnapshot, 'faults'>;
 
 /** What a student attempting a drill may see: every symptom, no fault card. */
-export type SanitisedSnapshot = Omit<CellSnapshot, 'faults' | 'wires'> & { wires: SanitisedWire[] };
+export type SanitisedSnapshot = Omit<CellSnapshot, 'faults' | 'wires' | 'seed'> & { wires: SanitisedWire[] };
 
 /**
- * Strips everything that names a fault card from a snapshot: the `faults` list and each
+ * Strips everything that names a fault card from a snapshot, and the run's seed (which decides
+ * when an intermittent fault acts): the `faults` list and each
  * wire's `faults`. Symptoms stay (levels, readings, NE 43 loop status, module fault lists,
  * link health, controller alarms), since finding the fault from them is the exercise.
  * Builds a new object (the cell's snapshot is not modified) and copies only known keys, so
@@ -16,7 +17,6 @@ export type SanitisedSnapshot = Omit<CellSnapshot, 'faults' | 'wires'> & { wires
 export function sanitiseSnapshot(s: CellSnapshot): SanitisedSnapshot {
   return {
     timeMs: s.timeMs,
-    seed: s.seed,
     devices: s.devices,
     wires: s.wires.map((w) => {
       const out: SanitisedWire = { id: w.id, level: w.level, unit: w.unit, reading: w.reading, isLink: w.isLink };

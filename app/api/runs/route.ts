@@ -18,7 +18,8 @@ export const GET = apiRoute(async (req: Request) => {
 
 /**
  * Start a free-practice run on a cell the caller may open (their own, or one shared with their
- * cohort), at a given version or the latest. The browser runs it; its events are streamed to
+ * cohort), at a given version or the latest. The browser runs it with the seed it sends (so the
+ * server's replay matches; the server never sends a seed back); its events are streamed to
  * /api/runs/[id]/batches so it is saved and replayable.
  */
 export const POST = apiRoute(async (req: Request) => {

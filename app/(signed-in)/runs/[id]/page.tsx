@@ -21,7 +21,7 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
   const { user } = await requirePageUser(`/runs/${raw.id}`);
   const { id } = paramsOrNotFound(runIdParamSchema, raw);
   const found = await loadOrNotFound(runForReader(user, id));
-  const run = runView(found.run, found.hiddenVisible) as RunInfo;
+  const run = runView(found.run, found.hiddenVisible, found.reader) as RunInfo;
   const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
   const title = drill ? drill.title : 'Free practice';
   return (

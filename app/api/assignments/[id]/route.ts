@@ -8,12 +8,14 @@ type Ctx = { params: Promise<{ id: string }> };
 
 /**
  * The drill as a student receives it: brief, objectives, time limit, what they may use, and
- * the base cell document to draw the workspace. Never the fault cards, the rules or the answer.
+ * the base cell document to draw the workspace; the brief and the cell only once the assignment
+ * has opened. Never the fault cards, the rules or the answer.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, STUDENT_ROLES);
   const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
   const { assignment, drill } = await assignmentForStudent(user, id);
-  const version = await getVersion(drill.cellId, drill.cellVersion);
-  return Response.json({ ...(await studentDrillPayload(assignment, drill)), document: version?.document ?? null });
+  const payload = await studentDrillPayload(assignment, drill);
+  const version = payload.state === 'upcoming' ? null : await getVersion(drill.cellId, drill.cellVersion);
+  return Response.json({ ...payload, document: version?.document ?? null });
 });

@@ -4,7 +4,7 @@ import { requireApiUser } from '@/lib/auth/session';
 import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
 import { checkDrillInput, drillAsInput } from '@/lib/drills/author';
 import { drillIdParamSchema, drillPatchSchema } from '@/lib/schemas/drills';
-import { deleteDrill, drillHasRuns, updateDrill } from '@/db/drills';
+import { deleteDrill, drillHasRuns, updateDrillUnlessFrozen } from '@/db/drills';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -24,10 +24,14 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const patch = await parseJsonBody(req, drillPatchSchema, 'drill');
-  if (await drillHasRuns(id)) throw new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
+  const frozen = () => new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
+  if (await drillHasRuns(id)) throw frozen();
   const input = { ...drillAsInput(drill), ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) };
   await checkDrillInput(user, input);
-  return Response.json({ drill: await updateDrill(id, input) });
+  const updated = await updateDrillUnlessFrozen(id, input);
+  if (updated === 'frozen') throw frozen();
+  if (!updated) throw new ApiError(404, 'No such drill.');
+  return Response.json({ drill: updated });
 });
 
 /** Delete (soft): runs and grades stay in the gradebook. */

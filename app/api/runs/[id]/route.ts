@@ -10,5 +10,5 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req);
   const { id } = await parseParams(ctx.params, runIdParamSchema);
   const { run, reader, hiddenVisible } = await runForReader(user, id);
-  return Response.json({ run: runView(run, hiddenVisible), reader, hiddenVisible });
+  return Response.json({ run: runView(run, hiddenVisible, reader), reader, hiddenVisible });
 });

@@ -13,9 +13,12 @@ import { getVersion } from '@/db/cells';
 export const metadata: Metadata = { title: 'Replay · Cellwright' };
 
 /**
- * Replay of a run for its owner, its drill's trainer or an admin. The drill's fault cards, the
- * run's seed and the rule marks are handed to the browser only when the reader may see hidden
- * parts (the same rule as the run routes: trainer and admin always, the student after close).
+ * Replay of a run for its owner, its drill's trainer or an admin. The drill's fault cards and the
+ * rule marks are handed to the browser only when the reader may see hidden parts (the same rule
+ * as the run routes: trainer and admin always, the student once every assignment of the drill
+ * they could attempt has closed). A drill run's seed never reaches its student (a practice run's
+ * seed was chosen by the student's own browser), so an intermittent fault may replay there with
+ * another pattern than the one the student met.
  */
 export default async function ReplayPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
@@ -43,7 +46,7 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
         runId={run.id}
         document={version.document}
         faults={hiddenVisible && drill ? drill.faults : null}
-        seed={hiddenVisible ? run.seed : null}
+        seed={found.reader !== 'owner' || run.mode === 'practice' ? run.seed : null}
         hiddenVisible={hiddenVisible}
         mode={run.mode}
         violation={first}

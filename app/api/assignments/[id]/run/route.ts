@@ -1,7 +1,7 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { assignmentForStudent, assignmentState, STUDENT_ROLES } from '@/lib/drills/access';
-import { runView } from '@/lib/runs/access';
+import { drillSecretsVisibleToStudent, runView } from '@/lib/runs/access';
 import { newSeed, prepareLiveRun } from '@/lib/runs/service';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
 import { findRunOfAssignment, startAssignmentRun } from '@/db/runs';
@@ -28,5 +28,6 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
     return startAssignmentRun({ userId: user.id, mode: 'drill', drillId: drill.id, assignmentId: assignment.id, cellId: drill.cellId, cellVersion: drill.cellVersion, seed: newSeed() });
   })();
   if (state === 'open') await prepareLiveRun(run);
-  return Response.json({ run: runView(run, state === 'closed'), resumed: !created }, { status: created ? 201 : 200 });
+  const visible = state === 'closed' && (await drillSecretsVisibleToStudent(drill.id, user.id));
+  return Response.json({ run: runView(run, visible), resumed: !created }, { status: created ? 201 : 200 });
 });

@@ -20,5 +20,5 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   if (run.status !== 'submitted') throw new ApiError(409, 'Only a submitted run has a grade to override.');
   const body = await parseJsonBody(req, overrideSchema);
   await overrideGrade(run, body.grade, body.reason, user.id);
-  return Response.json({ run: runView((await findRun(run.id))!, true) });
+  return Response.json({ run: runView((await findRun(run.id))!, true, reader) });
 });

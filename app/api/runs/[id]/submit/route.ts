@@ -1,10 +1,9 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { runForOwner, runView } from '@/lib/runs/access';
+import { drillSecretsVisibleToStudent, runForOwner, runView } from '@/lib/runs/access';
 import { submit } from '@/lib/runs/service';
 import { runIdParamSchema, submitSchema } from '@/lib/schemas/runs';
-import { findAssignment } from '@/db/drills';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -18,7 +17,6 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const run = await runForOwner(user, id);
   const body = await parseJsonBody(req, submitSchema);
   const done = await submit(run, body.diagnosis ?? null);
-  const assignment = done.assignmentId ? await findAssignment(done.assignmentId) : null;
-  const closed = done.mode === 'practice' || (assignment !== null && Date.now() > Date.parse(assignment.closesAt));
-  return Response.json({ run: runView(done, closed) });
+  const visible = done.mode === 'practice' || (await drillSecretsVisibleToStudent(done.drillId, user.id));
+  return Response.json({ run: runView(done, visible) });
 });

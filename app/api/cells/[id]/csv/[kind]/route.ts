@@ -6,7 +6,7 @@ import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
 import { downloadName } from '@/lib/cells/download';
 import { importCsvIntoDocument } from '@/lib/cells/csv-import';
-import { ioListToCsv, pointMapToCsv, rowErrorsToFields } from '@/lib/cells/csv';
+import { firstProblems, ioListToCsv, MAX_REPORTED_PROBLEMS, pointMapToCsv, rowErrorsToFields } from '@/lib/cells/csv';
 import { cellCsvParamSchema, csvImportSchema } from '@/lib/schemas/cells';
 import { getVersion, saveVersion } from '@/db/cells';
 
@@ -41,8 +41,10 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
 /**
  * Import a CSV into my cell as a new version on top of `baseVersion`. The point map lands
  * as STAGED rows (live after a controller restart); the I/O list replaces the wiring.
- * A file with any bad row writes nothing: 422 with every row's error
- * (`rowErrors: [{ row, column, message }]`, and the same as `fields` keyed `rows.<row>.<column>`).
+ * A file with any bad row writes nothing: 422 with the first MAX_REPORTED_PROBLEMS row errors in
+ * file order (`rowErrors: [{ row, column, message }]`, and the same as `fields` keyed
+ * `rows.<row>.<column>`) and `problemCount`, the number of problems in all. A file longer than
+ * the document's row limit is read up to that limit only.
  * 409 `{ error, latestVersion }` when the cell changed since `baseVersion`.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
@@ -53,27 +55,19 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const latest = await getVersion(id);
   if (!latest) throw new ApiError(404, 'No such cell.');
   const stale = (latestVersion: number) =>
-    Response.json(
-      { error: `The cell was saved as version ${latestVersion} after the version you started from; nothing was imported. Reload and import again.`, latestVersion },
-      { status: 409, headers: { 'cache-control': 'no-store' } },
-    );
-  if (latest.version !== body.baseVersion) return stale(latest.version);
+    new ApiError(409, `The cell was saved as version ${latestVersion} after the version you started from; nothing was imported. Reload and import again.`, undefined, { body: { latestVersion } });
+  if (latest.version !== body.baseVersion) throw stale(latest.version);
 
   const result = importCsvIntoDocument(kind, body.csv, latest.document);
   if (!result.ok) {
+    const { shown, total } = firstProblems(result.errors);
     const n = new Set(result.errors.map((e) => e.row)).size;
-    return Response.json(
-      {
-        error: `${n === 1 ? 'One row has' : `${n} rows have`} problems; nothing was imported.`,
-        fields: rowErrorsToFields(result.errors),
-        rowErrors: result.errors,
-      },
-      { status: 422, headers: { 'cache-control': 'no-store' } },
-    );
+    const listed = total > MAX_REPORTED_PROBLEMS ? ` The first ${MAX_REPORTED_PROBLEMS} of ${total} problems are listed.` : '';
+    throw new ApiError(422, `${n === 1 ? 'One row has' : `${n} rows have`} problems; nothing was imported.${listed}`, rowErrorsToFields(shown), { body: { rowErrors: shown, problemCount: total } });
   }
   const message = body.message || (kind === 'point-map' ? `Imported ${result.count} point-map rows (staged)` : `Imported ${result.count} I/O-list rows`);
   const saved = await saveVersion(id, user.id, body.baseVersion, result.document, message);
   if (!saved.ok && saved.reason === 'missing') throw new ApiError(404, 'No such cell.');
-  if (!saved.ok) return stale(saved.latestVersion);
+  if (!saved.ok) throw stale(saved.latestVersion);
   return Response.json({ version: saved.version, count: result.count, problems: result.problems }, { status: 201 });
 });
