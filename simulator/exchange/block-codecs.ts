@@ -131,7 +131,8 @@ export function presetMembers(type: BlockType): readonly Member[] {
 
 const blockMeta = (b: SheetBlock): ElementMeta => (b.label === undefined ? { kind: 'block', id: b.id, type: b.type } : { kind: 'block', id: b.id, type: b.type, label: b.label });
 const partMeta = (b: SheetBlock, role: string): ElementMeta => ({ kind: 'part', of: b.id, role });
-const at = (b: SheetBlock, dx = 0) => ({ x: b.position.x + dx, y: b.position.y });
+// The block's own element keeps its position exactly (adding 0 would turn -0 into 0).
+const at = (b: SheetBlock, dx = 0) => ({ x: dx === 0 ? b.position.x : b.position.x + dx, y: b.position.y });
 const link = (el: FbdElement, pin: string | null = null): FbdConnection => ({ ref: el.localId, pin });
 
 function inVar(ctx: EncodeContext, b: SheetBlock, expression: string, negated: boolean, meta: ElementMeta, dx = 0): FbdInVariable {
