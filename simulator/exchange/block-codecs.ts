@@ -57,6 +57,8 @@ export type DecodeContext = {
   variable(name: string): InterfaceVariable | undefined;
   report(path: (string | number)[], code: string, message: string): void;
   pathOf(el: FbdElement): (string | number)[];
+  /** Document path of a declared variable of the program's interface. */
+  pathOfVariable(v: InterfaceVariable): (string | number)[];
 };
 
 /** Parameters of a decoded block and the meaning of its elements' pins (keys from {@link pinKey}). */
@@ -238,7 +240,7 @@ function standardFb(typeName: string): Codec {
           const text = byUpper.get(m.member);
           const value = text === undefined ? m.dflt : parseMember(m.kind, text);
           if (value === undefined) {
-            ctx.report(['interface', instance.name, 'initialValue', m.member], 'invalid_value', `${m.member} := ${text} is not a ${m.kind === 'time' ? 'TIME' : m.kind === 'bool' ? 'BOOL' : 'number'} literal`);
+            ctx.report([...ctx.pathOfVariable(instance), 'initialValue', m.member], 'invalid_value', `${m.member} := ${text} is not a ${m.kind === 'time' ? 'TIME' : m.kind === 'bool' ? 'BOOL' : 'number'} literal`);
             return undefined;
           }
           params[m.param] = value;
@@ -434,7 +436,7 @@ function previous(bool: boolean): Codec {
       const text = variable.initial && 'simple' in variable.initial ? variable.initial.simple : undefined;
       const initial = text === undefined ? (bool ? false : 0) : bool ? parseBool(text) : parseIecNumber(text);
       if (initial === undefined) {
-        ctx.report(['interface', variable.name, 'initialValue'], 'invalid_value', `initial value "${text}" of ${variable.name} is not a ${bool ? 'BOOL' : 'numeric'} literal`);
+        ctx.report([...ctx.pathOfVariable(variable), 'initialValue'], 'invalid_value', `initial value "${text}" of ${variable.name} is not a ${bool ? 'BOOL' : 'numeric'} literal`);
         return undefined;
       }
       const remember = parts.get('remember');
@@ -483,9 +485,12 @@ export function inferBlockType(el: FbdElement): BlockType | undefined {
     if ((STANDARD_FBS as readonly string[]).includes(name) || (STANDARD_FUNCTIONS as readonly string[]).includes(name)) return name as BlockType;
     return name === SCALE_FB ? 'SCALE' : undefined;
   }
-  const address = parseAddress(el.expression);
-  if (el.kind === 'outVariable') return address.ok && address.value.size === 'X' ? 'COIL' : undefined;
-  if (address.ok) return address.value.size === 'X' ? (el.negated ? 'NC_CONTACT' : 'NO_CONTACT') : undefined;
+  // By its form only: an address out of range still reads as one, and the sheet validator
+  // then says what is wrong with it.
+  const address = /^\s*%[IQM]([XBWD])?\d+(\.\d+)?\s*$/i.exec(el.expression);
+  const bit = address !== null && (address[1] ?? (address[2] ? 'X' : '')).toUpperCase() === 'X';
+  if (el.kind === 'outVariable') return bit ? 'COIL' : undefined;
+  if (address) return bit ? (el.negated ? 'NC_CONTACT' : 'NO_CONTACT') : undefined;
   if (parseBool(el.expression) !== undefined && !/^\s*[01]\s*$/.test(el.expression)) return 'CONST_BOOL';
   if (parseIecNumber(el.expression) !== undefined || parseTime(el.expression) !== undefined) return el.negated ? undefined : 'CONST';
   return undefined;

@@ -48,9 +48,11 @@ export type PlcXmlLimits = {
 
 /**
  * Default import limits, sized for the largest sheet the schema allows: a block is at most
- * four FBD elements (SET_COIL with an unwired IN), and adds at most three wires of its own.
- * A full-size export measured about 25 characters and 0.6 tags per wire-and-block byte of
- * JSON; 64 Mi characters and 4 Mi tags leave room for indentation and long labels.
+ * four FBD elements (SET_COIL with an unwired IN) with at most three wires of its own.
+ * Measured exports of full-size sheets: 20,000 blocks and 80,000 wires, 51 M characters and
+ * 1.1 M tags; 20,000 SET_COILs with 200-character labels, 56 M characters and 1.2 M tags.
+ * Cost on a shared 2-core machine: about 27 s to export and 20 s to import the first, so
+ * big sheets belong in a worker; a 200-block sheet takes a fraction of a second.
  */
 export const PLC_XML_LIMITS: Readonly<PlcXmlLimits> = Object.freeze({
   maxChars: 64 * 1024 * 1024,
@@ -152,7 +154,9 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
   const read = readProgram(dom.value, limits, options.programName);
   if (!read.ok) return read;
   const { program, paths } = read.value;
-  const problems: Problem[] = [];
+  const problems: Problem[] = [...read.value.problems];
+  // Elements that could not be read or decoded: their wires are not reported again.
+  const failed = new Set(read.value.skipped);
   const report = (path: Path, code: string, message: string) => problems.push({ path, code, message });
   const pathOf = (el: FbdElement): Path => paths.get(el.localId) ?? [];
   const fbdPath = ['project', 'types', 'pous', 'pou', program.name, 'body', 'FBD'];
@@ -178,7 +182,12 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
   }
 
   const variables = new Map(program.variables.map((v) => [v.name.toUpperCase(), v]));
-  const ctx: DecodeContext = { variable: (name) => variables.get(name.trim().toUpperCase()), report, pathOf };
+  const ctx: DecodeContext = {
+    variable: (name) => variables.get(name.trim().toUpperCase()),
+    report,
+    pathOf,
+    pathOfVariable: (v) => ['project', 'types', 'pous', 'pou', program.name, 'interface', 'variable', v.name],
+  };
   const ids = uniqueIds(owners.flatMap((el) => (el.meta?.kind === 'block' ? [el.meta.id] : [])));
   const blocks: SheetBlock[] = [];
   const blockPaths: Path[] = [];
@@ -190,6 +199,7 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
     const meta = el.meta?.kind === 'block' ? el.meta : undefined;
     const type: BlockType | undefined = meta ? (isBlockType(meta.type) ? meta.type : undefined) : inferBlockType(el);
     if (!type) {
+      failed.add(el.localId);
       const what = meta ? `block type "${meta.type}"` : el.kind === 'block' ? `block type "${el.typeName}"` : `${el.kind} "${el.expression}"`;
       report([...pathOf(el), meta ? 'type' : el.kind === 'block' ? 'typeName' : 'expression'], 'unknown_block_type', `${what} has no Cellwright block (the catalogue lacks it)`);
       continue;
@@ -197,7 +207,11 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
     const id = meta ? meta.id : ids.fresh(el.kind === 'block' && el.instanceName ? el.instanceName : `${el.kind === 'block' ? 'block' : el.kind === 'inVariable' ? 'in' : 'out'}${el.localId}`);
     owned.add(id);
     const d = codecFor(type).decode(el, parts.get(id) ?? new Map(), ctx, type);
-    if (!d) continue;
+    if (!d) {
+      failed.add(el.localId);
+      for (const part of parts.get(id)?.values() ?? []) failed.add(part.localId);
+      continue;
+    }
     const block = { id, type, position: el.position, params: d.params } as SheetBlock;
     if (meta?.label !== undefined) block.label = meta.label;
     blocks.push(block);
@@ -218,7 +232,7 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
     for (const input of elementInputs(el)) {
       const c = input.connection;
       const key = pinKey(el.localId, input.pin);
-      if (!c || internal.has(key)) continue;
+      if (!c || internal.has(key) || failed.has(el.localId) || failed.has(c.ref)) continue;
       const path: Path = [...pathOf(el), ...(el.kind === 'block' ? ['inputVariables', input.pin ?? ''] : ['connectionPointIn']), 'connection'];
       const to = inputs.get(key);
       if (!to) {

@@ -66,7 +66,10 @@ export function parseXml(xml: unknown, limits: XmlLimits): Result<XmlNode, Probl
     });
     raw = parser.parse(xml) as unknown[];
   } catch (e) {
-    return fail('malformed_xml', `the document cannot be read: ${e instanceof Error ? e.message : String(e)}`);
+    const message = e instanceof Error ? e.message : String(e);
+    // The parser enforces the depth cap by throwing; report it as the limit it is.
+    if (/nested/i.test(message)) return fail('too_large', `elements are nested deeper than ${limits.maxDepth} levels`);
+    return fail('malformed_xml', `the document cannot be read: ${message}`);
   }
   const roots = raw.filter((r) => elementName(r as Raw) !== undefined);
   if (roots.length !== 1) return fail('malformed_xml', `a document has exactly one root element, not ${roots.length}`);

@@ -12,14 +12,18 @@ import { child, childrenNamed, type XmlNode } from './xml-dom';
 /** Element and connection counts an import accepts. */
 export type ProgramLimits = { maxElements: number; maxConnections: number };
 
-/** The program, and the document path of each FBD element by localId. */
-export type ReadProgram = { program: FbdProgram; paths: Map<number, (string | number)[]> };
+/**
+ * The program, the document path of each FBD element by localId, and the problems of
+ * single elements (which do not stop the import, so every problem can be reported):
+ * `skipped` holds the localIds of elements that exist but could not be read.
+ */
+export type ReadProgram = { program: FbdProgram; paths: Map<number, (string | number)[]>; problems: Problem[]; skipped: Set<number> };
 
 type Path = (string | number)[];
 
 const isTrue = (v: string | undefined) => v === 'true' || v === '1';
 
-/** Finds the program POU (the first, or the one named) and reads it. */
+/** Finds the program POU (the first, or the one named) and reads it; fails only when there is no program to read. */
 export function readProgram(root: XmlNode, limits: ProgramLimits, programName?: string): Result<ReadProgram, Problem> {
   const problems: Problem[] = [];
   const report = (path: Path, code: string, message: string) => problems.push({ path, code, message });
@@ -52,6 +56,7 @@ export function readProgram(root: XmlNode, limits: ProgramLimits, programName?: 
   }
   const elements: FbdElement[] = [];
   const paths = new Map<number, Path>();
+  const skipped = new Set<number>();
   let connections = 0;
   nodes.forEach((node, index) => {
     const idText = node.attrs.localId;
@@ -59,6 +64,7 @@ export function readProgram(root: XmlNode, limits: ProgramLimits, programName?: 
     const path: Path = [...fbdPath, node.name, localId ?? index];
     if (node.ns !== fbd.ns || !['block', 'inVariable', 'outVariable'].includes(node.name)) {
       report(path, 'unsupported_element', `<${node.name}> is not imported; a Cellwright sheet holds blocks, inVariables and outVariables`);
+      if (localId !== undefined) skipped.add(localId);
       return;
     }
     if (localId === undefined) {
@@ -71,16 +77,21 @@ export function readProgram(root: XmlNode, limits: ProgramLimits, programName?: 
     }
     paths.set(localId, path);
     const el = readElement(node, localId, path, report);
-    if (!el) return;
+    if (!el) {
+      skipped.add(localId);
+      return;
+    }
     if (el.kind !== 'inVariable') connections += (el.kind === 'block' ? el.inputs : [el.input]).filter((p) => p.connection).length;
     elements.push(el);
   });
-  if (connections > limits.maxConnections) report(fbdPath, 'too_large', `the FBD body has ${connections} connections; at most ${limits.maxConnections} are accepted`);
-  if (problems.length > 0) return failed();
+  if (connections > limits.maxConnections) {
+    report(fbdPath, 'too_large', `the FBD body has ${connections} connections; at most ${limits.maxConnections} are accepted`);
+    return failed();
+  }
   const program: FbdProgram = { name, variables, elements };
   const interval = taskInterval(root, name);
   if (interval !== undefined) program.taskInterval = interval;
-  return { ok: true, value: { program, paths } };
+  return { ok: true, value: { program, paths, problems, skipped } };
 }
 
 function readInterface(node: XmlNode | undefined, path: Path, report: (p: Path, c: string, m: string) => void): InterfaceVariable[] {
