@@ -8,6 +8,7 @@ import * as m201 from './20261201_201_drills_and_runs';
 import * as m301 from './20261202_001_session_generation';
 import * as m402 from './20261204_201_auth_throttles';
 import * as mChangeovers from './20261204_401_changeovers';
+import * as mEvidence from './20261204_402_changeover_evidence';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -29,6 +30,7 @@ const migrations: ReadonlyArray<readonly [string, Migration]> = [
   ['20261202_001_session_generation', m301],
   ['20261204_201_auth_throttles', m402],
   ['20261204_401_changeovers', mChangeovers],
+  ['20261204_402_changeover_evidence', mEvidence],
 ];
 
 export const migrationSource: Knex.MigrationSource<readonly [string, Migration]> = {
