@@ -44,3 +44,50 @@ export async function completePasswordReset(
     return { ok: true, userId: row.user_id };
   });
 }
+
+export type ResetAdmission =
+  | { admitted: true }
+  /** The client address had its share of requests in the window; the limit lifts when its oldest leaves. */
+  | { admitted: false; limit: 'address'; oldestRequest: Date | null }
+  /** The e-mail address had its share of requests in the window. */
+  | { admitted: false; limit: 'email' };
+
+/**
+ * Admit a reset request (known account or not: the same work either way) under the
+ * per-address and per-e-mail limits, or refuse it. Counting and recording happen under
+ * advisory locks on the e-mail and the address (e-mail first, always, so two requests cannot
+ * deadlock), so a parallel burst is decided one request at a time and cannot pass a limit.
+ * A request refused by the address limit is not recorded, so hammering does not stretch that
+ * window; one held by the e-mail limit is recorded as not mailed (it counts against its address,
+ * not against the e-mail). Kept in PostgreSQL so the limits hold across app processes and
+ * restarts. A null address (not known) limits nothing.
+ */
+export async function admitResetRequest(
+  email: string,
+  address: string | null,
+  { maxPerEmail, maxPerAddress, windowMinutes }: { maxPerEmail: number; maxPerAddress: number; windowMinutes: number },
+): Promise<ResetAdmission> {
+  const normalized = email.trim().toLowerCase();
+  return db().transaction(async (trx) => {
+    await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [`reset:email:${normalized}`]);
+    if (address) await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [`reset:address:${address}`]);
+    const since = trx.raw(`now() - make_interval(mins => ?)`, [windowMinutes]);
+    if (address) {
+      const [byAddress] = (await trx('password_reset_requests')
+        .where({ address })
+        .andWhere('created_at', '>', since)
+        .select(trx.raw('count(*)::int as count, min(created_at) as oldest'))) as { count: number; oldest: Date | null }[];
+      if (Number(byAddress.count) >= maxPerAddress) {
+        return { admitted: false, limit: 'address', oldestRequest: byAddress.oldest ? new Date(byAddress.oldest) : null };
+      }
+    }
+    const [byEmail] = (await trx('password_reset_requests')
+      .where({ email: normalized, mailed: true })
+      .andWhere('created_at', '>', since)
+      .select(trx.raw('count(*)::int as count'))) as { count: number }[];
+    const mailed = Number(byEmail.count) < maxPerEmail;
+    // Recorded either way, so it counts against the address; only mailed ones count against the e-mail.
+    await trx('password_reset_requests').insert({ email: normalized, address, mailed });
+    return mailed ? { admitted: true } : { admitted: false, limit: 'email' };
+  });
+}

@@ -53,6 +53,7 @@ export function authOptions(): NextAuthOptions {
           // Thrown messages reach the form as `error`; null gives next-auth's generic code.
           if (result.reason === 'rate-limited') throw new Error(SIGN_IN_MESSAGES.rateLimited(result.retryAfterMinutes));
           if (result.reason === 'disabled') throw new Error(SIGN_IN_MESSAGES.disabled);
+          if (result.reason === 'busy') throw new Error(SIGN_IN_MESSAGES.unavailable);
           return null;
         },
       }),
