@@ -2,6 +2,16 @@ import 'server-only';
 import type { Knex } from 'knex';
 import type { CellDocument } from '@/simulator';
 import type { Role } from '@/lib/roles';
+import type {
+  Changeover,
+  ChangeoverEvent,
+  ChangeoverEventKind,
+  ChangeoverState,
+  CountersignerCandidate,
+  PersonRef,
+  RecordContent,
+  SignedRecord,
+} from '@/lib/changeovers/types';
 import { db } from './knex';
 import { isUuid } from './users';
 
@@ -10,44 +20,8 @@ import { isUuid } from './users';
  * 20261204_401_changeovers for the tables and the state machine; the rules of who may do what
  * live in lib/changeovers/ (access, sign-off), these functions only read and write.
  */
-export const CHANGEOVER_STATES = ['drafting', 'checked', 'signed-off', 'rolled-back', 'withdrawn'] as const;
-export type ChangeoverState = (typeof CHANGEOVER_STATES)[number];
-
-export interface PersonRef {
-  id: string;
-  name: string;
-}
-
-export interface Changeover {
-  id: string;
-  cellId: string;
-  cellName: string;
-  cellOwnerId: string;
-  /** False once the cell has been deleted (soft): the changeover and its record stay readable. */
-  cellActive: boolean;
-  title: string;
-  description: string;
-  openedBy: PersonRef;
-  baseVersion: number;
-  /** The pinned proposal; null while drafting (the proposal is the cell's latest version). */
-  pinnedVersion: number | null;
-  pinnedAt: string | null;
-  /** The cell's latest version now. */
-  latestVersion: number;
-  /** What the proposal is right now: the pinned version, or the latest while drafting. */
-  proposedVersion: number;
-  state: ChangeoverState;
-  countersigner: PersonRef | null;
-  /** The opener's signature, waiting for a countersignature. */
-  signedBy: PersonRef | null;
-  signedAt: string | null;
-  rolledBackBy: PersonRef | null;
-  rolledBackAt: string | null;
-  rollbackVersion: number | null;
-  createdAt: string;
-  updatedAt: string;
-}
-
+export type { Changeover, ChangeoverEvent, ChangeoverEventKind, ChangeoverState, PersonRef, RecordContent, SignedRecord };
+export { CHANGEOVER_STATES } from '@/lib/changeovers/types';
 const iso = (d: Date | string | null) => (d === null ? null : new Date(d).toISOString());
 
 function baseQuery(k: Knex = db()) {
@@ -123,26 +97,6 @@ export async function listChangeoversFor(user: { id: string; role: Role }): Prom
 export async function listChangeoversOfCell(cellId: string): Promise<Changeover[]> {
   if (!isUuid(cellId)) return [];
   return (await baseQuery().where('co.cell_id', cellId).orderBy('co.created_at', 'desc')).map(toChangeover);
-}
-
-export type ChangeoverEventKind =
-  | 'opened'
-  | 'edited'
-  | 'countersigner'
-  | 'pinned'
-  | 'unpinned'
-  | 'signed'
-  | 'signature-withdrawn'
-  | 'countersigned'
-  | 'rolled-back'
-  | 'withdrawn';
-
-export interface ChangeoverEvent {
-  id: string;
-  kind: ChangeoverEventKind;
-  actor: PersonRef;
-  detail: Record<string, unknown>;
-  createdAt: string;
 }
 
 async function addEvent(trx: Knex, changeoverId: string, kind: ChangeoverEventKind, actorId: string, detail: Record<string, unknown> = {}): Promise<void> {
@@ -281,29 +235,6 @@ export async function withdrawSignature(id: string, actorId: string): Promise<{ 
   });
 }
 
-/** The content of a signed record, as lib/changeovers/sign-off.ts assembles it. */
-export interface RecordContent {
-  cellName: string;
-  title: string;
-  description: string;
-  baseVersion: number;
-  proposedVersion: number;
-  baseSha256: string;
-  proposedSha256: string;
-  diffSummary: unknown;
-  evidence: unknown;
-}
-
-export interface SignedRecord extends RecordContent {
-  changeoverId: string;
-  cellId: string;
-  signedBy: PersonRef;
-  signedAt: string;
-  countersignedBy: PersonRef & { role: Role };
-  countersignedAt: string;
-  createdAt: string;
-}
-
 export type CountersignResult =
   | { ok: true; record: SignedRecord }
   | StateConflict
@@ -405,17 +336,21 @@ export async function rollBackChangeover(id: string, actorId: string): Promise<R
     if (!cell) return { ok: false, reason: 'cell-gone' } as const;
     const base = await trx('cell_versions').where({ cell_id: row.cell_id, version: row.base_version }).first('document');
     const latest = await trx('cell_versions').where({ cell_id: row.cell_id }).max<{ v: number }[]>({ v: 'version' }).first();
-    const version = (latest?.v ?? 0) + 1;
     const next: 'rolled-back' | 'withdrawn' = row.state === 'signed-off' ? 'rolled-back' : 'withdrawn';
-    const verb = next === 'rolled-back' ? 'Rolled back' : 'Abandoned';
-    await trx('cell_versions').insert({
-      cell_id: row.cell_id,
-      version,
-      document: JSON.stringify(base.document as CellDocument),
-      author_id: actorId,
-      message: `${verb} changeover "${row.title}": version ${row.base_version} restored`,
-    });
-    await trx('cells').where({ id: row.cell_id }).update({ updated_at: trx.fn.now() });
+    // A proposal abandoned before anyone edited the cell leaves the base as it is: no empty version.
+    let version: number = row.base_version;
+    if ((latest?.v ?? 0) !== row.base_version) {
+      version = (latest?.v ?? 0) + 1;
+      const verb = next === 'rolled-back' ? 'Rolled back' : 'Abandoned';
+      await trx('cell_versions').insert({
+        cell_id: row.cell_id,
+        version,
+        document: JSON.stringify(base.document as CellDocument),
+        author_id: actorId,
+        message: `${verb} changeover "${row.title}": version ${row.base_version} restored`,
+      });
+      await trx('cells').where({ id: row.cell_id }).update({ updated_at: trx.fn.now() });
+    }
     await trx('changeovers')
       .where({ id })
       .update({ state: next, rolled_back_by: actorId, rolled_back_at: trx.fn.now(), rollback_version: version });
@@ -431,7 +366,7 @@ export async function versionDocuments(cellId: string, versions: number[]): Prom
 }
 
 /** People who may be asked to countersign: active leads, trainers and admins other than `exceptId`. */
-export async function listCountersignerCandidates(exceptId: string): Promise<(PersonRef & { role: Role; organization: string | null })[]> {
+export async function listCountersignerCandidates(exceptId: string): Promise<CountersignerCandidate[]> {
   const rows = await db()('users')
     .whereIn('role', ['lead', 'trainer', 'admin'])
     .where('disabled', false)

@@ -4,6 +4,7 @@ import type { Role } from '@/lib/roles';
 import { seedDemoCells } from './demo-cells';
 import { seedDemoDrills } from './demo-drills';
 import { seedDemoRuns } from './demo-runs';
+import { seedDemoChangeovers } from './demo-changeovers';
 
 /** The invented demo scenario: a technical college's robot-cell class and a plant's maintenance lead. */
 export const DEMO_COLLEGE = 'Kestrel Vale Technical College';
@@ -36,6 +37,7 @@ export async function seedDemo(knex: Knex): Promise<boolean> {
   await seedDemoCells(knex);
   await seedDemoDrills(knex, DEMO_COHORT);
   await seedDemoRuns(knex, DEMO_COHORT);
+  await seedDemoChangeovers(knex);
   return seeded;
 }
 
