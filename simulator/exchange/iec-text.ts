@@ -181,9 +181,13 @@ export function createNamer(taken: Iterable<string> = []): Namer {
   };
 }
 
-/** Text safe inside an ST comment `(* … *)`: one line, no comment delimiters, no control characters. */
+/**
+ * Text safe inside an ST comment `(* … *)`: one line, no comment delimiters, no control
+ * characters, and no lone surrogate (it could not be saved as UTF-8; U+FFFD stands in).
+ */
 export function commentText(text: string): string {
   return text
+    .replace(/[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/g, '\ufffd')
     .replace(/[\u0000-\u001f\u007f]+/g, ' ')
     .replace(/\(\*/g, '( *')
     .replace(/\*\)/g, '* )')

@@ -24,7 +24,7 @@ import type { LogicSheetInput, SheetBlock } from '@/simulator/plc/sheet-schema';
 import { analyseSheet, type AnalysedSheet } from '@/simulator/plc/validate';
 import type { Problem, Result } from '@/simulator/shared/result';
 import { formatMember, presetMembers } from './block-codecs';
-import { commentText, createNamer, formatTime, iecNumber, iecReal, type Namer } from './iec-text';
+import { commentText, createNamer, formatTime, iecNumber, iecReal, plainDecimal, type Namer } from './iec-text';
 
 /** Options of {@link sheetToStructuredText}. */
 export type StructuredTextOptions = {
@@ -94,7 +94,8 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
     if (address === undefined) continue;
     const key = canonical(address);
     const entry = addressVars.get(key) ?? { name: namer.name(key.slice(1).replace('.', '_')), type: ADDRESS_TYPE[key[2] as Size], users: [] };
-    entry.users.push(b.id);
+    // Contacts on %I are written inline, so this comment is where their labels show.
+    entry.users.push(b.label === undefined ? b.id : `${b.id} (${b.label})`);
     addressVars.set(key, entry);
   }
   const addressVar = (b: SheetBlock) => (addressVars.get(canonical(addressOf(b) as string)) as { name: string }).name;
@@ -154,7 +155,9 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
 
   const trailing = (b: SheetBlock, name: string, extra?: string): string => {
     // The block id, whenever the statement does not already show it, leads back to the canvas.
-    const bits = [name !== b.id ? `block ${b.id}` : '', b.label ?? '', extra ?? ''].map(commentText).filter((s) => s !== '');
+    const id = name !== b.id ? commentText(b.id) : '';
+    const label = commentText(b.label ?? '');
+    const bits = [id && label ? `${id}: ${label}` : id || label, commentText(extra ?? '')].filter((t) => t !== '');
     return bits.length > 0 ? ` (* ${bits.join('; ')} *)` : '';
   };
 
@@ -229,8 +232,9 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
       }
       case 'WORD_OUT': {
         const bits = ADDRESS_TYPE[canonical(b.params.address)[2] as Size];
-        notes.add('word');
-        say(`${addressVar(b)} := LINT_TO_${bits}(${input(i, 'IN', 'LINT').text});`, 'WORD_OUT: rounded, low bits kept');
+        const value = input(i, 'IN', 'LINT').text;
+        if (value.startsWith('LREAL_TO_LINT(')) notes.add('word');
+        say(`${addressVar(b)} := LINT_TO_${bits}(${value});`, `WORD_OUT: low ${bits === 'BYTE' ? 8 : bits === 'WORD' ? 16 : 32} bits of the whole number`);
         break;
       }
       case 'CONST':
@@ -308,7 +312,7 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
   const header = [
     options.title ? commentText(options.title) : 'Cellwright logic sheet',
     'Exported from Cellwright as IEC 61131-3 Structured Text.',
-    `Run ${programName} from a cyclic task every ${formatTime(a.sheet.scanPeriodMs).slice(2)} (the sheet's scan period).`,
+    `Run ${programName} from a cyclic task every ${plainDecimal(a.sheet.scanPeriodMs)} ms (the sheet's scan period).`,
     'Statements follow the order in which Cellwright solves the sheet.',
     ...(notes.has('time') ? ['Cellwright counts a TIME as milliseconds: check that TIME_TO_LREAL / LREAL_TO_TIME do so on your PLC.'] : []),
     ...(notes.has('counter') ? ['Counter presets and counts are INT; a number wired into PV is rounded to INT.'] : []),
