@@ -18,9 +18,9 @@ export function workerBundlePath(cwd = process.cwd()): string {
 /** Builds the worker bundle (about 0.1 s); returns its path. */
 export function buildWorkerBundle(cwd = process.cwd()): string {
   const out = workerBundlePath(cwd);
-  mkdirSync(path.dirname(out), { recursive: true });
+  mkdirSync(/*turbopackIgnore: true*/ path.dirname(out), { recursive: true });
   execFileSync(
-    path.join(cwd, 'node_modules', 'esbuild', 'bin', 'esbuild'),
+    /*turbopackIgnore: true*/ path.join(cwd, 'node_modules', 'esbuild', 'bin', 'esbuild'),
     [
       path.join(cwd, 'lib', 'runs', 'engine-worker.ts'),
       '--bundle',
@@ -39,5 +39,5 @@ export function buildWorkerBundle(cwd = process.cwd()): string {
 /** The bundle's path, building it first when it is missing. */
 export function ensureWorkerBundle(cwd = process.cwd()): string {
   const out = workerBundlePath(cwd);
-  return existsSync(out) ? out : buildWorkerBundle(cwd);
+  return existsSync(/*turbopackIgnore: true*/ out) ? out : buildWorkerBundle(cwd);
 }

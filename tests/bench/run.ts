@@ -86,6 +86,7 @@ export const MEASUREMENTS: Measurement[] = [
   { name: 'demo cell', describe: 'pick-and-place demo, one hour of cell time', run: cellRealtime },
   { name: 'workspace', describe: 'first-load JS (gzip KiB) and 500-block canvas fps in Chromium; needs BENCH_BASE_URL', run: workspaceBench },
   { name: 'drills', describe: 'server regrade of a 10-minute run; batch POST p95 with 50 clients (autocannon), needs BENCH_BASE_URL', run: drillsBench },
+  { name: 'abuse', describe: 'worst /api/health latency while 10 students ask for far-ahead views; needs BENCH_BASE_URL', run: async () => (await import('./abuse-bench')).abuseBench() },
   { name: 'changeover diff', describe: 'diffCells on two 10,000-block cells differing in 1 % of blocks (median ms, target ≤ 200)', run: async () => (await import('./diff-bench')).diffBench() },
 ];
 
@@ -125,6 +126,9 @@ async function main(): Promise<void> {
     ['canvas_fps_500_blocks', 50, 'min'],
     ['regrade_10min_ms', 500, 'max'],
     ['batch_p95_ms_50_clients', 100, 'max'],
+    ['health_worst_ms_under_abuse', 250, 'max'],
+    ['diff_ms_10000_blocks', 200, 'max'],
+    ['proof_ms_20_rules_32_inputs', 1000, 'max'],
   ] as const;
   process.stdout.write('\ntargets:\n');
   for (const [k, t, dir] of targets) {
