@@ -232,3 +232,26 @@ export {
   counterexampleFailsAtMs,
 } from './prove';
 // ---- end proofs
+
+// ---- logic exchange (a logic sheet leaves and re-enters Cellwright: simulator/exchange/)
+/**
+ * Export and import of a logic sheet in open IEC formats (docs/engine.md, "Logic exchange").
+ *
+ * - `sheetToStructuredText(sheet, { programName?, title? })` → `Result<string>`: an IEC 61131-3
+ *   Structured Text PROGRAM (located variables for %I/%Q/%M, FB instances with presets,
+ *   statements in the engine's evaluation order; SCALE, WORD_OUT, set/reset coils and PREV
+ *   blocks as commented expressions). Offer it as a `.st` download.
+ * - `sheetToPlcXml(sheet, { programName?, projectName?, createdAt? })` → `Result<string>`: an
+ *   IEC 61131-10 XML exchange document with an FBD body (`.xml`); pass `createdAt` (ISO 8601)
+ *   as the export time, the engine has no clock. Element structure from memory of the standard.
+ * - `plcXmlToSheet(xml, { programName?, defaultScanPeriodMs?, limits? })` → `Result<LogicSheet>`:
+ *   the sheet back, validated, or every problem with a path into the document
+ *   (`['project', 'types', 'pous', 'pou', <name>, 'body', 'FBD', 'block', <localId>, …]`).
+ *   Guarded: size, tag, depth, element and connection caps (`PLC_XML_LIMITS`), no DOCTYPE,
+ *   no entity expansion. Our own exports round-trip exactly (every block, parameter, label,
+ *   position and wire).
+ * Both exporters fail with the sheet's own problems when the sheet does not validate.
+ */
+export type { StructuredTextOptions, PlcXmlExportOptions, PlcXmlImportOptions, PlcXmlLimits } from './exchange';
+export { sheetToStructuredText, sheetToPlcXml, plcXmlToSheet, PLC_XML_LIMITS, IEC_61131_10_NS, CELLWRIGHT_NS } from './exchange';
+// ---- end logic exchange
