@@ -11,7 +11,8 @@
 
 /**
  * Namespace of the exchange document's own elements — from memory of IEC 61131-10; not
- * checked against the published schema.
+ * checked against the published schema, which is also recalled as using some capitalised
+ * element names (`Project`, `FbdObject`) where this layout uses the older lower-case ones.
  */
 export const IEC_61131_10_NS = 'www.iec.ch/public/TC65SC65BWG7TF10';
 /** Namespace of Cellwright's vendor data inside `addData/data` (our own name). */

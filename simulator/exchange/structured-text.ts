@@ -138,6 +138,7 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
       if (to === 'LREAL') return iecReal(x);
       if (range && Number.isInteger(x) && x >= range[0] && x <= range[1]) return iecNumber(x);
       if (to === 'TIME' && x >= 0) return formatTime(x);
+      if (to === 'TIME') notes.add('time');
       return `LREAL_TO_${to}(${iecReal(x)})`;
     }
     if (v.type === 'TIME' || to === 'TIME') notes.add('time');
