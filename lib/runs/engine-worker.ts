@@ -15,6 +15,7 @@
  * goes on from there), so a far-ahead view or a long replay is spread over several requests
  * instead of holding the thread.
  */
+import { setPriority } from 'node:os';
 import type { CellSnapshot, LoggedEvent, Problem, Result, Trace } from '@/simulator';
 import { hashTrace, type Cell } from '@/simulator';
 import { STOPPED, advanceTo, applyLog, buildCell, gradeSignals, replayRun, type RunContext } from './engine';
@@ -191,8 +192,27 @@ function runLive(task: LiveTask, stop: () => boolean): LiveOutcome {
   return { kind: 'ok', timeMs: e.cell.timeMs };
 }
 
+let niced = false;
+
+/**
+ * Lowers this thread's scheduling priority once (Linux: setpriority on the calling thread, which
+ * Node's os.setPriority(0, …) is), so on a busy machine the app's request loop (health checks,
+ * sign-ins, pages) is scheduled before the simulation threads. Where it is not allowed, nothing
+ * changes: budgets still bound the work.
+ */
+function yieldToRequests(): void {
+  if (niced) return;
+  niced = true;
+  try {
+    setPriority(0, 10);
+  } catch {
+    // Not permitted here: keep the default priority.
+  }
+}
+
 /** Piscina task: one operation on a live run. */
 export function live(task: LiveTask): LiveReply {
+  yieldToRequests();
   const started = performance.now();
   const budget = 'budgetMs' in task ? task.budgetMs : Infinity;
   const stop = () => performance.now() - started > budget;
@@ -211,6 +231,7 @@ export type GradeTaskResult = GradeResult | { grade: null; breakdown: null; trac
 
 /** Piscina task: a run's grade (or a practice run's trace hash) from its whole log (lib/runs/grade.ts). */
 export function grade(task: GradeTask): Result<GradeTaskResult, Problem> {
+  yieldToRequests();
   if (task.kind === 'drill') return gradeRun(task.input);
   const made = replayRun({ ...task.context, trace: gradeSignals([]) }, task.events, task.endedMs);
   if (!made.ok) return made;
@@ -227,6 +248,7 @@ export function grade(task: GradeTask): Result<GradeTaskResult, Problem> {
  * sanitised when not.
  */
 export function displayTrace(input: { context: Omit<RunContext, 'trace'>; events: LoggedEvent[]; untilMs: number; hidden: string[]; includeHidden: boolean }): Result<Trace, Problem> {
+  yieldToRequests();
   const probe = buildCell({ ...input.context, trace: [] });
   if (!probe.ok) return probe;
   const names = probe.value.signalNames();
@@ -243,6 +265,7 @@ export function displayTrace(input: { context: Omit<RunContext, 'trace'>; events
 
 /** Piscina task: the snapshot after replaying a whole log to `untilMs` (no cache involved). */
 export function snapshotAt(input: { context: RunContext; events: LoggedEvent[]; untilMs: number }): Result<CellSnapshot, Problem> {
+  yieldToRequests();
   const made = replayRun(input.context, input.events, input.untilMs);
   if (!made.ok) return made;
   try {

@@ -26,6 +26,8 @@ import {
   validateCellDocument,
   type Problem,
 } from '@/simulator/index';
+import { proveCommand } from '@/simulator/prove/cli';
+import { diffCommand } from '@/simulator/diff/cli';
 
 type Exit = 0 | 1 | 2;
 
@@ -34,6 +36,8 @@ const USAGE = `usage:
   npm run cell -- run <cell.json> --events <events.json> --for <duration> [--trace <sig,sig>] [--rules <rules.json>] [--faults <faults.json>] [--seed <n>]
   npm run cell -- signals <cell.json>
   npm run cell -- schema [<out-dir>]
+  npm run cell -- prove <cell.json> <rules.json>        (interlock rules → verdicts; exit 1 on a violation)
+  npm run cell -- diff <base.json> <proposed.json> [--io-sheet]
 durations: 500ms, 30s, 2m, 1h (a bare number is milliseconds)`;
 
 function print(value: unknown): void {
@@ -180,6 +184,11 @@ function schema(dir: string | undefined): Exit {
 
 function main(argv: string[]): Exit {
   const [cmd, ...rest] = argv;
+  // prove and diff parse their own arguments (simulator/prove/cli.ts, simulator/diff/cli.ts).
+  if (cmd === 'prove') return proveCommand(rest);
+  if (cmd === 'diff') {
+    return diffCommand(rest, { readText: (p) => readFileSync(p, 'utf8'), stdout: (t) => void process.stdout.write(t), stderr: (t) => void process.stderr.write(t) });
+  }
   const parsed = options(rest);
   if (typeof parsed === 'string') {
     process.stderr.write(`${parsed}\n${USAGE}\n`);
