@@ -185,9 +185,10 @@ export async function setEvidenceRunJob(id: string, jobId: string | null): Promi
 /**
  * Starts (or, after a worker restart, restarts) a run: results of an interrupted attempt are
  * dropped and its progress reset. Returns null when the run is already finished, so a job
- * delivered twice does nothing the second time.
+ * delivered twice does nothing the second time. `inputsSha256` is what the job actually
+ * read (the rules or scenarios may have changed since the run was requested).
  */
-export async function beginEvidenceRun(id: string, total: number): Promise<EvidenceRun | null> {
+export async function beginEvidenceRun(id: string, total: number, inputsSha256: string): Promise<EvidenceRun | null> {
   return db().transaction(async (trx) => {
     const row = await trx('changeover_evidence_runs').where({ id }).forUpdate().first();
     if (!row || (row.status !== 'queued' && row.status !== 'running')) return null;
@@ -195,7 +196,7 @@ export async function beginEvidenceRun(id: string, total: number): Promise<Evide
     await trx('changeover_checks').where({ run_id: id }).delete();
     await trx('changeover_evidence_runs')
       .where({ id })
-      .update({ status: 'running', total, done: 0, current: '', started_at: trx.fn.now(), updated_at: trx.fn.now() });
+      .update({ status: 'running', total, done: 0, current: '', inputs_sha256: inputsSha256, started_at: trx.fn.now(), updated_at: trx.fn.now() });
     return toRun(await runQuery(trx).where('r.id', id).first());
   });
 }

@@ -6,7 +6,7 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useFieldArray, useForm, useWatch, type Control, type FieldPath, type UseFormRegister } from 'react-hook-form';
+import { Controller, useFieldArray, useForm, useWatch, type Control, type FieldPath, type UseFormRegister } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
 import { ImagePlus, Plus, Trash2 } from 'lucide-react';
@@ -15,37 +15,17 @@ import { Notice } from '@/components/ui/notice';
 import { cn } from '@/components/ui/cn';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import { humanise } from '@/components/workspace/format';
-import { createCell, FAULT_KINDS, FAULT_SYMPTOMS, type CellDocument } from '@/simulator';
+import { engineTraceOptions } from '@/components/rules/signal-catalogue';
+import type { CellDocument } from '@/simulator';
 import { DIAGNOSIS_KINDS, EDITABLE_AREAS, MAX_ASSET_BYTES, ASSET_TYPES, type DrillInput } from '@/lib/schemas/drills';
 import { Markdown } from './markdown';
-import { locationOptions } from './locations';
-import { FAULT_FIELDS, OPS, RULE_KINDS, drillFormSchema, formPath, newFault, newRule, toDrillInput, toFormValues, type DrillFormValues } from './drill-form';
+import { drillFormSchemaChecked, formPath, newFault, newRule, toDrillInput, toFormValues, type DrillFormValues } from './drill-form';
+import { AnswerPlaces } from './answer-places';
+import { DrillRuleEditor } from './drill-rule-editor';
+import { FaultCardEditor } from './fault-card-editor';
+import { FieldError, inputCls as input, Labelled } from './form-bits';
 
 export type CellChoice = { id: string; name: string; versionCount: number };
-
-const input = 'block w-full rounded-md border border-slate-300 bg-white px-2 py-1.5 text-sm focus:border-accent-600 focus:outline-none focus:ring-2 focus:ring-accent-600/30 aria-[invalid=true]:border-red-500';
-const labelCls = 'block text-xs font-medium text-slate-600';
-
-function FieldError({ message }: { message?: string }) {
-  return message ? (
-    <p role="alert" className="text-xs text-red-700">
-      {message}
-    </p>
-  ) : null;
-}
-
-/** One labelled control of the editor, with the control's error under it when it reports one. */
-function Labelled({ id, label, error, className, children }: { id: string; label: React.ReactNode; error?: string; className?: string; children: React.ReactNode }) {
-  return (
-    <div className={cn('space-y-1', className)}>
-      <label htmlFor={id} className={labelCls}>
-        {label}
-      </label>
-      {children}
-      <FieldError message={error} />
-    </div>
-  );
-}
 
 type Props = {
   drillId: string | null;
@@ -58,7 +38,7 @@ type Props = {
 export function DrillEditor({ drillId, initial, cells, locked }: Props) {
   const router = useRouter();
   const defaults = useMemo(() => toFormValues(initial, { cellId: cells[0]?.id ?? '', cellVersion: cells[0]?.versionCount ?? 1 }), [initial, cells]);
-  const form = useForm<DrillFormValues>({ resolver: zodResolver(drillFormSchema), defaultValues: defaults, mode: 'onBlur' });
+  const form = useForm<DrillFormValues>({ resolver: zodResolver(drillFormSchemaChecked), defaultValues: defaults, mode: 'onBlur' });
   const { register, control, handleSubmit, formState, setError, setValue } = form;
   const faults = useFieldArray({ control, name: 'faults' });
   const objectives = useFieldArray({ control, name: 'objectives' });
@@ -79,11 +59,11 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
     enabled: Boolean(cellId && cellVersion),
   });
   const document = doc.data?.version.document ?? null;
-  const places = useMemo(() => (document ? locationOptions(document) : []), [document]);
-  const devices = places.filter((p) => p.group === 'device');
-  const rows = places.filter((p) => p.group === 'wire');
-  const modules = places.filter((p) => p.group === 'module');
-  const signals = useMemo(() => (document ? signalHints(document) : []), [document]);
+  // The drill's own fault cards are signals too (`fault.<card>`), for rules and triggers.
+  const faultIds = (useWatch({ control, name: 'faults' }) ?? []).map((f) => f.id).filter(Boolean);
+  const faultKey = faultIds.join('|');
+  const signals = useMemo(() => (document ? engineTraceOptions(document, faultKey ? faultKey.split('|').map((id) => `fault.${id}`) : []) : []), [document, faultKey]);
+  const answerKind = useWatch({ control, name: 'answerKind' });
 
   const onSubmit = handleSubmit(async (values) => {
     setServerError(null);
@@ -163,13 +143,9 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
       </Section>
 
       <Section title="Hidden fault cards" hint="Students never see these: they are armed on the server only.">
-        <datalist id="dl-devices">{devices.map((d) => <option key={d.id} value={d.id} label={d.label} />)}</datalist>
-        <datalist id="dl-rows">{rows.map((d) => <option key={d.id} value={d.id} label={d.label} />)}</datalist>
-        <datalist id="dl-modules">{modules.map((d) => <option key={d.id} value={d.id} label={d.label} />)}</datalist>
-        <datalist id="dl-places">{places.map((d) => <option key={`${d.group}-${d.id}`} value={d.id} label={`${d.group}: ${d.label}`} />)}</datalist>
         <div className="space-y-3">
           {faults.fields.map((f, i) => (
-            <FaultCardEditor key={f.id} index={i} control={control} register={register} err={err} onRemove={() => faults.remove(i)} />
+            <FaultCardEditor key={f.id} index={i} control={control} register={register} err={err} document={document} signals={signals} onRemove={() => faults.remove(i)} />
           ))}
           <Button variant="secondary" onClick={() => faults.append(newFault(faults.fields.length))} data-testid="add-fault">
             <Plus aria-hidden className="h-4 w-4" /> Add fault card
@@ -193,11 +169,10 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
         </div>
       </Section>
 
-      <Section title="Grading rules" hint="Checked by the server on its own replay of the run; each passing rule earns its weight.">
-        <datalist id="dl-signals">{signals.map((s) => <option key={s} value={s} />)}</datalist>
+      <Section title="Grading rules" hint="Checked by the server on its own replay of the run; each passing rule earns its weight. Pick signals by name, address or wire.">
         <div className="space-y-3">
           {rules.fields.map((r, i) => (
-            <RuleEditor key={r.id} index={i} control={control} register={register} err={err} onRemove={() => rules.remove(i)} />
+            <DrillRuleEditor key={r.id} index={i} control={control} register={register} err={err} signals={signals} onRemove={() => rules.remove(i)} />
           ))}
           <Button variant="secondary" onClick={() => rules.append(newRule(rules.fields.length))}>
             <Plus aria-hidden className="h-4 w-4" /> Add rule
@@ -216,9 +191,15 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
               ))}
             </select>
           </Labelled>
-          <Labelled id="answerLocation" label="Where (id; alternatives with |)" error={err('answerLocation')}>
-            <input id="answerLocation" list="dl-places" className={cn(input, 'font-mono')} aria-invalid={Boolean(err('answerLocation'))} {...register('answerLocation')} />
-          </Labelled>
+          <div className="space-y-1 md:col-span-4 md:row-start-2">
+            <span className="block text-xs font-medium text-slate-600">Where the fault is (any one of these answers counts)</span>
+            <Controller
+              control={control}
+              name="answerLocation"
+              render={({ field }) => <AnswerPlaces value={field.value} onChange={field.onChange} document={document} pair={answerKind === 'swapped-wires'} invalid={Boolean(err('answerLocation'))} />}
+            />
+            <FieldError message={err('answerLocation')} />
+          </div>
           <Labelled id="diagnosisWeight" label="Diagnosis weight" error={err('diagnosisWeight')}>
             <input id="diagnosisWeight" type="number" min={0} max={1000} className={input} {...register('diagnosisWeight', { valueAsNumber: true })} />
           </Labelled>
@@ -262,15 +243,6 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
       </div>
     </form>
   );
-}
-
-/** Every signal the base cell exposes (the engine's own list), for the rule and trigger pickers. */
-function signalHints(doc: CellDocument): string[] {
-  const made = createCell(doc);
-  if (!made.ok) return [];
-  const names = made.value.signalNames().filter((n) => n !== 'time');
-  made.value.dispose();
-  return names;
 }
 
 function Section({ title, hint, children }: { title: string; hint?: string; children: React.ReactNode }) {
@@ -348,159 +320,5 @@ function BriefEditor({ drillId, register, control, setValue, error }: { drillId:
       {!drillId ? <p className="text-xs text-slate-500">Images can be added once the drill is created.</p> : null}
       <FieldError message={upload.error ?? error} />
     </div>
-  );
-}
-
-type ErrFn = (path: string) => string | undefined;
-
-function FaultCardEditor({ index, control, register, err, onRemove }: { index: number; control: Control<DrillFormValues>; register: UseFormRegister<DrillFormValues>; err: ErrFn; onRemove: () => void }) {
-  const kind = useWatch({ control, name: `faults.${index}.kind` }) as keyof typeof FAULT_FIELDS;
-  const trigger = useWatch({ control, name: `faults.${index}.trigger` });
-  const need = FAULT_FIELDS[kind] ?? [];
-  const p = `faults.${index}` as const;
-  const small = (name: 'periodMs' | 'probability' | 'factor' | 'ratePerS', label: string, step: string) => (
-    <Labelled id={`${p}.${name}`} label={label} error={err(`${p}.${name}`)}>
-      <input id={`${p}.${name}`} type="number" step={step} className={input} {...register(`${p}.${name}`, { valueAsNumber: true })} />
-    </Labelled>
-  );
-  return (
-    <fieldset className="rounded-md border border-amber-200 bg-amber-50/40 p-3" data-testid={`fault-${index}`}>
-      <legend className="px-1 text-xs font-semibold text-amber-900">Fault card {index + 1}</legend>
-      <div className="grid gap-3 md:grid-cols-4">
-        <Labelled id={`${p}.id`} label="Card id" error={err(`${p}.id`)}>
-          <input id={`${p}.id`} className={cn(input, 'font-mono')} {...register(`${p}.id`)} />
-        </Labelled>
-        <Labelled id={`${p}.kind`} label="Kind">
-          <select id={`${p}.kind`} className={input} {...register(`${p}.kind`)}>
-            {FAULT_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {humanise(k)}
-              </option>
-            ))}
-          </select>
-        </Labelled>
-        <Labelled id={`${p}.label`} label="Note for trainers" className="md:col-span-2">
-          <input id={`${p}.label`} className={input} {...register(`${p}.label`)} />
-        </Labelled>
-        {need.includes('device') ? (
-          <Labelled id={`${p}.device`} label="Device" error={err(`${p}.device`)}>
-            <input id={`${p}.device`} list="dl-devices" className={cn(input, 'font-mono')} {...register(`${p}.device`)} />
-          </Labelled>
-        ) : null}
-        {need.includes('row') || need.includes('rows') ? (
-          <Labelled id={`${p}.row`} label={need.includes('rows') ? 'First wire (row)' : 'Wire (row)'} error={err(`${p}.row`)}>
-            <input id={`${p}.row`} list="dl-rows" className={cn(input, 'font-mono')} {...register(`${p}.row`)} />
-          </Labelled>
-        ) : null}
-        {need.includes('rows') ? (
-          <Labelled id={`${p}.row2`} label="Second wire (row)" error={err(`${p}.row2`)}>
-            <input id={`${p}.row2`} list="dl-rows" className={cn(input, 'font-mono')} {...register(`${p}.row2`)} />
-          </Labelled>
-        ) : null}
-        {need.includes('module') ? (
-          <Labelled id={`${p}.module`} label="Module" error={err(`${p}.module`)}>
-            <input id={`${p}.module`} list="dl-modules" className={cn(input, 'font-mono')} {...register(`${p}.module`)} />
-          </Labelled>
-        ) : null}
-        {need.includes('periodMs') ? small('periodMs', 'Window (ms)', '1') : null}
-        {need.includes('probability') ? small('probability', 'Open probability (0–1)', '0.05') : null}
-        {need.includes('factor') ? small('factor', 'Slower by factor', '0.5') : null}
-        {need.includes('ratePerS') ? small('ratePerS', 'Drift (V or mA per s)', '0.1') : null}
-        <Labelled id={`${p}.trigger`} label="Appears">
-          <select id={`${p}.trigger`} className={input} {...register(`${p}.trigger`)}>
-            <option value="now">from the start</option>
-            <option value="at">at a cell time</option>
-            <option value="when">when a condition holds</option>
-          </select>
-        </Labelled>
-        {trigger === 'at' ? (
-          <Labelled id={`${p}.atMs`} label="At (ms of cell time)" error={err(`${p}.atMs`)}>
-            <input id={`${p}.atMs`} type="number" min={0} className={input} {...register(`${p}.atMs`, { valueAsNumber: true })} />
-          </Labelled>
-        ) : null}
-      </div>
-      {trigger === 'when' ? <ConditionEditor prefix={`${p}.when`} label="Trigger condition" control={control} register={register} err={err} /> : null}
-      <div className="mt-2 flex items-center justify-between gap-2">
-        <p className="text-xs text-slate-600">Symptom: {FAULT_SYMPTOMS[kind as keyof typeof FAULT_SYMPTOMS] ?? ''}</p>
-        <Button variant="ghost" onClick={onRemove} aria-label={`Remove fault card ${index + 1}`}>
-          <Trash2 aria-hidden className="h-4 w-4" /> Remove
-        </Button>
-      </div>
-    </fieldset>
-  );
-}
-
-function ConditionEditor({ prefix, label, control, register, err }: { prefix: `faults.${number}.when` | `rules.${number}.p` | `rules.${number}.event`; label: string; control: Control<DrillFormValues>; register: UseFormRegister<DrillFormValues>; err: ErrFn }) {
-  const mode = useWatch({ control, name: `${prefix}.mode` });
-  return (
-    <div className="mt-2 rounded border border-slate-200 bg-white p-2">
-      <div className="mb-1 flex items-center gap-3">
-        <span className="text-xs font-medium text-slate-600">{label}</span>
-        <label className="inline-flex items-center gap-1 text-xs">
-          <input type="radio" value="simple" {...register(`${prefix}.mode`)} /> one comparison
-        </label>
-        <label className="inline-flex items-center gap-1 text-xs">
-          <input type="radio" value="json" {...register(`${prefix}.mode`)} /> compound (JSON: all / any / not)
-        </label>
-      </div>
-      {mode === 'json' ? (
-        <textarea aria-label={`${label} (JSON)`} rows={4} className={cn(input, 'font-mono text-xs')} {...register(`${prefix}.json`)} />
-      ) : (
-        <div className="grid grid-cols-[2fr_auto_1fr] gap-2">
-          <input aria-label={`${label} signal`} list="dl-signals" placeholder="plc.%IX0.1" className={cn(input, 'font-mono')} {...register(`${prefix}.signal`)} />
-          <select aria-label={`${label} comparison`} className={input} {...register(`${prefix}.op`)}>
-            {OPS.map((o) => (
-              <option key={o} value={o}>
-                {o}
-              </option>
-            ))}
-          </select>
-          <input aria-label={`${label} value`} className={cn(input, 'font-mono')} {...register(`${prefix}.value`)} />
-        </div>
-      )}
-      <FieldError message={err(`${prefix}.signal`) ?? err(prefix)} />
-    </div>
-  );
-}
-
-function RuleEditor({ index, control, register, err, onRemove }: { index: number; control: Control<DrillFormValues>; register: UseFormRegister<DrillFormValues>; err: ErrFn; onRemove: () => void }) {
-  const kind = useWatch({ control, name: `rules.${index}.kind` });
-  const p = `rules.${index}` as const;
-  return (
-    <fieldset className="rounded-md border border-slate-200 p-3" data-testid={`rule-${index}`}>
-      <legend className="px-1 text-xs font-semibold text-slate-700">Rule {index + 1}</legend>
-      <div className="grid gap-3 md:grid-cols-5">
-        <Labelled id={`${p}.id`} label="Rule id" error={err(`${p}.id`)}>
-          <input id={`${p}.id`} className={cn(input, 'font-mono')} {...register(`${p}.id`)} />
-        </Labelled>
-        <Labelled id={`${p}.kind`} label="Kind">
-          <select id={`${p}.kind`} className={input} {...register(`${p}.kind`)}>
-            {RULE_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {k === 'after' ? 'after E, within T: P' : k === 'eventually' ? 'within T, eventually P' : `${k} P`}
-              </option>
-            ))}
-          </select>
-        </Labelled>
-        <Labelled id={`${p}.label`} label="Shown as" className="md:col-span-2">
-          <input id={`${p}.label`} className={input} {...register(`${p}.label`)} />
-        </Labelled>
-        <Labelled id={`${p}.weight`} label="Weight" error={err(`${p}.weight`)}>
-          <input id={`${p}.weight`} type="number" min={0} max={1000} className={input} {...register(`${p}.weight`, { valueAsNumber: true })} />
-        </Labelled>
-        {kind === 'after' || kind === 'eventually' ? (
-          <Labelled id={`${p}.withinMs`} label="Within T (ms)" error={err(`${p}.withinMs`)}>
-            <input id={`${p}.withinMs`} type="number" min={0} className={input} {...register(`${p}.withinMs`, { valueAsNumber: true })} />
-          </Labelled>
-        ) : null}
-      </div>
-      {kind === 'after' ? <ConditionEditor prefix={`${p}.event`} label="Event E" control={control} register={register} err={err} /> : null}
-      <ConditionEditor prefix={`${p}.p`} label="Condition P" control={control} register={register} err={err} />
-      <div className="mt-2 flex justify-end">
-        <Button variant="ghost" onClick={onRemove} aria-label={`Remove rule ${index + 1}`}>
-          <Trash2 aria-hidden className="h-4 w-4" /> Remove
-        </Button>
-      </div>
-    </fieldset>
   );
 }

@@ -1,12 +1,14 @@
 /**
  * The drill editor's form values and their conversion to and from the drills API's input
- * (lib/schemas/drills.ts). The form keeps a condition either as one comparison (signal, op,
- * value), which covers most drills, or as the engine's JSON predicate for compound ones
- * (all / any / not), so a library drill round-trips without loss.
+ * (lib/schemas/drills.ts). A condition is kept as the engine's own predicate tree (a signal
+ * compared with a value, combined with all / any / not), which the rule builder edits in
+ * place (components/rules/), so every stored drill round-trips without loss.
  */
 import { z } from 'zod';
 import { FAULT_KINDS, type FaultCard, type SignalPredicate } from '@/simulator';
 import { DIAGNOSIS_KINDS, EDITABLE_AREAS, type DrillInput } from '@/lib/schemas/drills';
+import { leaves, type Tree } from '@/components/rules/condition-tree';
+import { newTraceLeaf, type TraceLeaf } from '@/components/rules/leaf-editors';
 
 export const OPS = ['==', '!=', '>', '>=', '<', '<='] as const;
 export const RULE_KINDS = ['never', 'always', 'after', 'eventually'] as const;
@@ -28,14 +30,16 @@ export const FAULT_FIELDS: Record<(typeof FAULT_KINDS)[number], ('device' | 'row
   'sensor-type-mismatch': ['device'],
 };
 
-const conditionSchema = z.object({
-  mode: z.enum(['simple', 'json']),
-  signal: z.string(),
-  op: z.enum(OPS),
-  value: z.string(),
-  json: z.string(),
+/** A condition as the builder edits it: the engine's predicate tree. */
+export type ConditionValue = Tree<TraceLeaf>;
+
+/** A condition every row of which names a signal (the builder's blank rows say what is missing). */
+const conditionSchema = z.custom<ConditionValue>((v) => typeof v === 'object' && v !== null).superRefine((c, ctx) => {
+  const blank = leaves(c).filter((l) => !l.leaf.signal.trim()).length;
+  if (blank > 0) ctx.addIssue({ code: 'custom', message: blank === 1 ? 'Choose a signal for every condition.' : `Choose a signal for each of the ${blank} conditions without one.` });
 });
-export type ConditionValue = z.infer<typeof conditionSchema>;
+/** A condition the form may leave blank (a rule kind that does not use it). */
+const optionalCondition = z.custom<ConditionValue>((v) => typeof v === 'object' && v !== null);
 
 const idText = z.string().trim().regex(/^[A-Za-z][A-Za-z0-9_.-]*$/, { message: 'Letters, digits and _ . - (start with a letter).' });
 
@@ -59,7 +63,7 @@ export const drillFormSchema = z.object({
       ratePerS: z.number().min(-100).max(100),
       trigger: z.enum(['now', 'at', 'when']),
       atMs: z.number().int().min(0),
-      when: conditionSchema,
+      when: optionalCondition,
     }),
   ),
   objectives: z.array(z.object({ text: z.string().trim().min(1, { message: 'Write the objective or remove it.' }).max(300) })),
@@ -69,7 +73,7 @@ export const drillFormSchema = z.object({
       label: z.string().max(200),
       kind: z.enum(RULE_KINDS),
       p: conditionSchema,
-      event: conditionSchema,
+      event: optionalCondition,
       withinMs: z.number().int().min(0),
       weight: z.number().int().min(0).max(1000),
     }),
@@ -83,7 +87,17 @@ export const drillFormSchema = z.object({
 });
 export type DrillFormValues = z.infer<typeof drillFormSchema>;
 
-export const emptyCondition = (): ConditionValue => ({ mode: 'simple', signal: '', op: '==', value: '1', json: '' });
+/** Conditions a rule kind or trigger does not use are not checked; the ones it uses must be complete. */
+export const drillFormSchemaChecked = drillFormSchema.superRefine((v, ctx) => {
+  const complete = (c: ConditionValue, path: (string | number)[]) => {
+    const r = conditionSchema.safeParse(c);
+    if (!r.success) for (const i of r.error.issues) ctx.addIssue({ code: 'custom', path, message: i.message });
+  };
+  v.faults.forEach((f, i) => f.trigger === 'when' && complete(f.when, ['faults', i, 'when']));
+  v.rules.forEach((r, i) => r.kind === 'after' && complete(r.event, ['rules', i, 'event']));
+});
+
+export const emptyCondition = (): ConditionValue => newTraceLeaf();
 
 export function newFault(index: number): DrillFormValues['faults'][number] {
   return { id: `f${index + 1}`, label: '', kind: 'open-wire', device: '', row: '', row2: '', module: '', periodMs: 200, probability: 0.3, factor: 4, ratePerS: 0.5, trigger: 'now', atMs: 0, when: emptyCondition() };
@@ -102,22 +116,20 @@ export function parseValue(text: string): number | string | boolean {
   return t;
 }
 
+/** A stored predicate as the builder's tree (a copy, so edits never reach the stored drill). */
 export function toCondition(p: SignalPredicate | undefined): ConditionValue {
-  if (!p) return emptyCondition();
-  if ('signal' in p) return { mode: 'simple', signal: p.signal, op: p.op, value: String(p.value), json: '' };
-  return { mode: 'json', signal: '', op: '==', value: '1', json: JSON.stringify(p, null, 1) };
+  return p ? (structuredClone(p) as ConditionValue) : emptyCondition();
 }
 
-/** The predicate of a condition; throws with a readable message on bad JSON. */
+/** The predicate of a condition, signal names trimmed. */
 export function fromCondition(c: ConditionValue): SignalPredicate {
-  if (c.mode === 'json') {
-    try {
-      return JSON.parse(c.json) as SignalPredicate;
-    } catch {
-      throw new Error('The condition is not valid JSON.');
-    }
-  }
-  return { signal: c.signal.trim(), op: c.op, value: parseValue(c.value) };
+  const walk = (t: ConditionValue): SignalPredicate => {
+    if ('all' in t) return { all: t.all.map(walk) };
+    if ('any' in t) return { any: t.any.map(walk) };
+    if ('not' in t) return { not: walk(t.not) };
+    return { signal: t.signal.trim(), op: t.op, value: t.value };
+  };
+  return walk(c);
 }
 
 /** A stored drill (or nothing: a new one) as form values. */
@@ -236,5 +248,8 @@ export function formPath(serverPath: string): string {
     .replace(/^answer\.kind$/, 'answerKind')
     .replace(/^answer\.location$/, 'answerLocation')
     .replace(/^timeLimitMs$/, 'timeLimitMin')
-    .replace(/^objectives\.(\d+)$/, 'objectives.$1.text');
+    .replace(/^objectives\.(\d+)$/, 'objectives.$1.text')
+    // A problem inside a condition is shown on the condition's builder as a whole.
+    .replace(/^(rules\.\d+\.(?:p|event))\..*$/, '$1')
+    .replace(/^(faults\.\d+\.when)\..*$/, '$1');
 }

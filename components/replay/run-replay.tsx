@@ -12,7 +12,7 @@ import { cn } from '@/components/ui/cn';
 import { fetchJson } from '@/lib/api/client';
 import { PanelArea } from '@/components/panel/panel-area';
 import { MonitorArea } from '@/components/monitor/monitor-area';
-import { ScopeArea } from '@/components/scope/scope-area';
+import { ScopeArea, type ScopeMark } from '@/components/scope/scope-area';
 import { ScopeRecorderProvider } from '@/components/scope/scope-context';
 import { ArmView } from '@/components/controller/arm-view';
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
@@ -78,7 +78,18 @@ export function RunReplay(props: ReplayProps) {
   return <ReplayPlayer {...props} events={data.events} endMs={data.endMs} faultTimes={data.faultTimes} />;
 }
 
-function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, violation, events, endMs, faultTimes }: ReplayProps & { events: LoggedEvent[]; endMs: number; faultTimes: { id: string; t: number }[] }) {
+/** The player itself, for any event log (a stored run's, or a counterexample's input sequence). */
+export type ReplayPlayerProps = Omit<ReplayProps, 'runId'> & {
+  events: LoggedEvent[];
+  endMs: number;
+  faultTimes: { id: string; t: number }[];
+  /** What the scope shows first and marks (default: its own choice of signals, no marks). */
+  scope?: { initialSignals?: string[]; marks?: ScopeMark[]; windows?: number[] };
+  /** Cell time the player opens at (default 0). */
+  startAtMs?: number;
+};
+
+export function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, violation, events, endMs, faultTimes, scope, startAtMs = 0 }: ReplayPlayerProps) {
   // Built in an effect, so the cell it owns is disposed exactly when it is replaced (React's
   // development double mount would otherwise dispose a memoised one that is still in use).
   const [built, setBuilt] = useState<ReturnType<typeof createReplay> | null>(null);
@@ -112,7 +123,7 @@ function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, violation, 
       return {
         load: () => {
           sink.patch({ status: 'ready', problems: [], signalNames: [] });
-          queueMicrotask(() => show(0));
+          queueMicrotask(() => show(startAtMs));
         },
         send: (event) => sink.patch({ lastRejection: { event, problems: [{ path: [], code: 'replay', message: 'A replay is read-only.' }] } }),
         run: () => undefined,
@@ -124,7 +135,7 @@ function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, violation, 
         },
       };
     },
-    [events, show],
+    [events, show, startAtMs],
   );
 
   // Playback: advance by wall time × speed once per frame.
@@ -245,7 +256,7 @@ function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, violation, 
           </div>
           <section aria-label="Scope" className="rounded-md border border-slate-200 bg-white p-3">
             <h2 className="mb-2 text-sm font-semibold text-slate-700">Scope</h2>
-            <ScopeArea />
+            <ScopeArea {...scope} />
           </section>
           <details className="rounded-md border border-slate-200 bg-white p-3">
             <summary className="cursor-pointer text-sm font-semibold text-slate-700">Monitor</summary>

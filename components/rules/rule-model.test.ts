@@ -3,6 +3,7 @@ import { cellDocumentSchema, createCell, interlockRuleSchema, pickAndPlaceCell, 
 import { addCondition, depth, leaves, nodeAt, pathKey, removeAt, setGroupOp, toggleNot, unwrapSingle, updateAt, wrapInGroup, type Tree } from './condition-tree';
 import { CHOOSE_SIGNAL, describePredicate, interlockSentence, traceRuleSentence } from './sentences';
 import { bitSignalOptions, bitValues, optionLabels, searchSignals, shortLabel, traceSignalOptions } from './signal-catalogue';
+import { emptyInterlockForm, interlockFormProblems, switchKind, toInterlockBody, toInterlockForm } from './interlock-form-model';
 
 type Bit = { signal: string; value: 'on' | 'off' };
 const bit = (signal: string, value: 'on' | 'off' = 'on'): Bit => ({ signal, value });
@@ -154,5 +155,34 @@ describe('signal catalogue', () => {
   it('short labels drop the terminal in brackets', () => {
     expect(shortLabel('Cycle start (start:contact)')).toBe('Cycle start');
     expect(shortLabel('DI1 Start (R0.S1.C0), Lamp (lamp:lamp)')).toBe('DI1 Start, Lamp');
+  });
+});
+
+describe('the interlock rule form', () => {
+  it('round-trips every demo rule between the stored body and the form', async () => {
+    const { DEMO_INTERLOCK_RULES } = await import('@/db/seeds/demo-evidence');
+    for (const r of DEMO_INTERLOCK_RULES) {
+      const form = toInterlockForm(r.title, r.body);
+      expect(interlockFormProblems(form)).toEqual([]);
+      expect(toInterlockBody(form)).toEqual(r.body.kind === 'within' ? { trigger: 'rises', ...r.body } : r.body);
+    }
+  });
+
+  it('switching the kind carries the main condition across and back', () => {
+    const never = { ...emptyInterlockForm(), title: 't', what: bit('%QX0.0'), while: bit('%IX0.4', 'off') };
+    const within = switchKind(never, 'within');
+    expect(within.after).toEqual(bit('%QX0.0'));
+    const onlyIf = switchKind(within, 'only-if');
+    expect(onlyIf.what).toEqual(bit('%QX0.0'));
+    expect(switchKind(onlyIf, 'never').while).toEqual(bit('%IX0.4', 'off'));
+  });
+
+  it('says what is missing before a rule can be saved', () => {
+    const blank = emptyInterlockForm();
+    expect(interlockFormProblems(blank)).toEqual(['Give the rule a short title.', '2 conditions have no signal yet: choose them.']);
+    const word = { ...emptyInterlockForm(), title: 'Word', what: bit('%QW2'), while: bit('%IX0.1') };
+    expect(interlockFormProblems(word).join(' ')).toMatch(/bits such as %QX0.1/);
+    const window = { ...emptyInterlockForm(), title: 'w', kind: 'within' as const, after: bit('%IX0.1'), expect: bit('%QX0.1'), scans: 20_000 };
+    expect(interlockFormProblems(window)).toEqual(['The window is a whole number of scans from 0 to 10,000.']);
   });
 });

@@ -5,7 +5,7 @@
  * the cell document (and, for trace rules, the engine's list of signal names), memoised by
  * the caller.
  */
-import { blockPorts, formatAddress, parseAddress, type CellDocument } from '@/simulator';
+import { blockPorts, createCell, formatAddress, parseAddress, type CellDocument } from '@/simulator';
 import { signalLabels as wiredLabels } from '@/components/workspace/signal-labels';
 import { endpointText } from '@/components/field/endpoint-text';
 import { humanise } from '@/components/workspace/format';
@@ -254,4 +254,13 @@ export function optionLabels(options: readonly SignalOption[]): Record<string, s
 /** The values of the bit options (for on/off wording of trace rules). */
 export function bitValues(options: readonly SignalOption[]): Set<string> {
   return new Set(options.filter((o) => o.bit).map((o) => o.value));
+}
+
+/** Trace options of a document from the engine's own signal list (plus `extra` names, such as a drill's `fault.<card>`). */
+export function engineTraceOptions(doc: CellDocument, extra: readonly string[] = []): SignalOption[] {
+  const made = createCell(doc);
+  if (!made.ok) return traceSignalOptions(doc, [], extra);
+  const names = made.value.signalNames();
+  made.value.dispose();
+  return traceSignalOptions(doc, names, extra);
 }

@@ -20,15 +20,27 @@ const SNAP_PX = 8;
 
 const isBitKey = (k: string) => /^%[IQM]X/.test(k) || /^(DI|DO|TI|TO)\d/.test(k);
 
+/** A labelled instant drawn across the plot (a counterexample's failing scan, say). */
+export type ScopeMark = { timeMs: number; label: string };
+
+type ScopeProps = {
+  /** Signals shown until the user picks others (default: the first six bits). */
+  initialSignals?: string[];
+  /** Instants marked across every lane. */
+  marks?: ScopeMark[];
+  /** Window lengths offered, in ms (default 2 s, 10 s, 30 s); the first is the initial one. */
+  windows?: number[];
+};
+
 /** Timing diagram of chosen signals over a rolling window, with two cursors and the time between them. */
-export function ScopeArea() {
+export function ScopeArea({ initialSignals, marks = [], windows = WINDOWS }: ScopeProps = {}) {
   const [frozen, setFrozen] = useState(false);
   const data = useScopeData(frozen);
   const labels = useSignalLabels();
   const keys = useMemo(() => [...data.signals].sort(), [data.signals]);
-  const [chosen, setChosen] = useState<string[] | null>(null);
+  const [chosen, setChosen] = useState<string[] | null>(initialSignals ?? null);
   const shown = (chosen ?? keys.filter(isBitKey).slice(0, 6)).filter((k) => keys.includes(k));
-  const [windowMs, setWindowMs] = useState(10_000);
+  const [windowMs, setWindowMs] = useState(windows === WINDOWS ? 10_000 : windows[0]);
   const [cursors, setCursors] = useState<{ a: number | null; b: number | null }>({ a: null, b: null });
   const [next, setNext] = useState<'a' | 'b'>('a');
 
@@ -78,9 +90,9 @@ export function ScopeArea() {
           <label className="flex items-center gap-1">
             Window
             <select value={windowMs} onChange={(e) => setWindowMs(Number(e.target.value))} className="rounded border border-slate-300 px-1 py-0.5">
-              {WINDOWS.map((w) => (
+              {windows.map((w) => (
                 <option key={w} value={w}>
-                  {w / 1000} s
+                  {w < 1000 ? `${w} ms` : `${w / 1000} s`}
                 </option>
               ))}
             </select>
@@ -106,6 +118,16 @@ export function ScopeArea() {
             {shown.map((k, i) => (
               <Lane key={k} name={k} label={labels[k]} history={historyOf(k)} top={AXIS_H + i * LANE_H} x={x} start={start} end={end} />
             ))}
+            {marks.map((m) =>
+              m.timeMs >= start && m.timeMs <= end ? (
+                <g key={`${m.timeMs}-${m.label}`} data-testid="scope-mark">
+                  <line x1={x(m.timeMs)} x2={x(m.timeMs)} y1={AXIS_H - 4} y2={height} stroke="#ef4444" strokeWidth={2} />
+                  <text x={x(m.timeMs) - 3} y={AXIS_H - 6} fontSize={10} fill="#fca5a5" textAnchor="end" fontWeight={700}>
+                    {m.label}
+                  </text>
+                </g>
+              ) : null,
+            )}
             {(['a', 'b'] as const).map((c) =>
               cursors[c] !== null && cursors[c]! >= start ? (
                 <g key={c}>

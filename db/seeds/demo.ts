@@ -4,6 +4,7 @@ import type { Role } from '@/lib/roles';
 import { seedDemoCells } from './demo-cells';
 import { seedDemoDrills } from './demo-drills';
 import { seedDemoRuns } from './demo-runs';
+import { seedDemoEvidence } from './demo-evidence';
 import { seedDemoChangeovers } from './demo-changeovers';
 
 /** The invented demo scenario: a technical college's robot-cell class and a plant's maintenance lead. */
@@ -38,6 +39,7 @@ export async function seedDemo(knex: Knex): Promise<boolean> {
   await seedDemoDrills(knex, DEMO_COHORT);
   await seedDemoRuns(knex, DEMO_COHORT);
   await seedDemoChangeovers(knex);
+  await seedDemoEvidence(knex);
   return seeded;
 }
 

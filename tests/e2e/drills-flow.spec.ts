@@ -20,10 +20,10 @@ test('a trainer assigns a drill; the student runs it, finds the fault and submit
   await trainer.getByLabel('Base cell').selectOption(base!);
   const fault = trainer.getByTestId('fault-0');
   await fault.getByLabel('Kind').selectOption('open-wire');
-  await fault.getByLabel('Wire (row)').fill('w-stop');
+  await fault.getByLabel('Wire (row)').selectOption('w-stop');
   await fault.getByLabel('Appears').selectOption('now');
   await trainer.getByLabel('Fault kind (the answer)').selectOption('open-wire');
-  await trainer.getByLabel(/^Where/).fill('w-stop');
+  await trainer.getByLabel('Where (the answer)').selectOption('w-stop');
   await trainer.getByTestId('save-drill').click();
   await trainer.waitForURL(/\/drills\/[0-9a-f-]{36}$/);
   await expect(trainer.getByRole('heading', { level: 1 })).toHaveText(title);

@@ -12,6 +12,9 @@ import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { runForReader, runView } from '@/lib/runs/access';
 import { runIdParamSchema } from '@/lib/schemas/runs';
 import { findDrill } from '@/db/drills';
+import { findCell } from '@/db/cells';
+import { KeepScenarioButton } from '@/components/changeovers/keep-scenario-button';
+import { EVIDENCE_CELL_ROLES } from '@/lib/schemas/evidence';
 
 export const metadata: Metadata = { title: 'Run · Cellwright' };
 
@@ -24,15 +27,21 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
   const run = runView(found.run, found.hiddenVisible, found.reader) as RunInfo;
   const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
   const title = drill ? drill.title : 'Free practice';
+  // A lead or trainer keeps a finished run of a cell they own as one of its scenarios.
+  const cell = run.status === 'submitted' && EVIDENCE_CELL_ROLES.includes(user.role) ? await findCell(run.cellId) : null;
+  const keep = cell && cell.ownerId === user.id ? cell : null;
   return (
     <>
       <PageHeader
         title={title}
         description={`${run.mode === 'drill' ? 'Drill run' : 'Practice run'} by ${run.userName} · started ${formatDateTime(run.startedAt)}`}
         actions={
-          <Link href={`/runs/${run.id}/replay`} className="inline-flex items-center gap-2 rounded-md bg-accent-700 px-3 py-2 text-sm font-medium text-white hover:bg-accent-800">
-            <PlayCircle aria-hidden className="h-4 w-4" /> Replay
-          </Link>
+          <div className="flex flex-wrap items-start gap-2">
+            {keep ? <KeepScenarioButton runId={run.id} cellName={keep.name} suggestedName={`${title} — ${run.userName}, ${run.startedAt.slice(0, 10)}`} /> : null}
+            <Link href={`/runs/${run.id}/replay`} className="inline-flex items-center gap-2 rounded-md bg-accent-700 px-3 py-2 text-sm font-medium text-white hover:bg-accent-800">
+              <PlayCircle aria-hidden className="h-4 w-4" /> Replay
+            </Link>
+          </div>
         }
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_2fr]">
