@@ -14,6 +14,8 @@ export async function resetTestDatabase(url: string): Promise<string> {
   const knex = knexFactory(knexConfig(url));
   try {
     await knex.raw('drop schema public cascade');
+    // The job queue's deliveries (pg-boss, lib/jobs/boss.ts) live beside public; the first process to use the queue installs it again.
+    await knex.raw('drop schema if exists pgboss cascade');
     await knex.raw('create schema public');
     await knex.migrate.latest();
     await seedDemo(knex);

@@ -288,6 +288,12 @@ export async function listSubmittedRuns(): Promise<Run[]> {
   return (await runQuery().where('r.status', 'submitted').orderBy('r.submitted_at')).map(toRun);
 }
 
+/** Every submitted run of a drill, oldest submission first (the drill regrade job). */
+export async function listSubmittedRunsOfDrill(drillId: string): Promise<Run[]> {
+  if (!isUuid(drillId)) return [];
+  return (await runQuery().where({ 'r.drill_id': drillId, 'r.status': 'submitted' }).orderBy([{ column: 'r.submitted_at' }, { column: 'r.id' }])).map(toRun);
+}
+
 /** A student's run on an assignment, if any. */
 export async function findRunOfAssignment(assignmentId: string, userId: string): Promise<Run | null> {
   const row = await runQuery().where({ 'r.assignment_id': assignmentId, 'r.user_id': userId }).first();

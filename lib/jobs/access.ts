@@ -1,0 +1,55 @@
+import 'server-only';
+import { ApiError } from '@/lib/api/errors';
+import type { Role } from '@/lib/roles';
+import type { User } from '@/db/users';
+import { findDrill } from '@/db/drills';
+import { DRILL_ROLES } from '@/lib/drills/access';
+import { canReadChangeover } from '@/lib/changeovers/access';
+import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
+import { parseSubject } from './types';
+
+/**
+ * Who may read a job: whoever may read its subject. A job's progress and result say as much
+ * as the record they are about, so the rule is the record's own.
+ */
+export interface SubjectReader {
+  /** Roles that may read this kind of subject at all; other roles get 403. */
+  roles: readonly Role[];
+  /** Whether this user may read this record; false answers 404 (ids reveal nothing). */
+  canRead(user: User, id: string): Promise<boolean>;
+}
+
+/** A drill's jobs: its trainer's and the admins'. */
+async function canReadDrill(user: User, id: string): Promise<boolean> {
+  const drill = await findDrill(id);
+  return Boolean(drill && (user.role === 'admin' || drill.trainerId === user.id));
+}
+
+/** Subject kind → who may read it. A new kind of subject is one line here. */
+export const SUBJECT_READERS: Record<string, SubjectReader> = {
+  drill: { roles: DRILL_ROLES, canRead: canReadDrill },
+  changeover: { roles: CHANGEOVER_ROLES, canRead: canReadChangeover },
+};
+
+/**
+ * Throws unless `user` may read `subject`'s jobs: 403 for a role that never may, 404 for a
+ * subject that does not parse, has no reader, does not exist or is not theirs.
+ */
+export async function assertCanReadSubject(user: User, subject: string): Promise<void> {
+  const parsed = parseSubject(subject.toLowerCase());
+  const reader = parsed ? SUBJECT_READERS[parsed.kind] : undefined;
+  if (!parsed || !reader) throw new ApiError(404, 'No such subject.');
+  if (!reader.roles.includes(user.role)) throw new ApiError(403, 'Your role may not see these jobs.');
+  if (!(await reader.canRead(user, parsed.id))) throw new ApiError(404, 'No such subject.');
+}
+
+/** True when `user` may read `subject`'s jobs (the stream's periodic re-check). */
+export async function canReadSubject(user: User, subject: string): Promise<boolean> {
+  try {
+    await assertCanReadSubject(user, subject);
+    return true;
+  } catch (err) {
+    if (err instanceof ApiError) return false;
+    throw err;
+  }
+}

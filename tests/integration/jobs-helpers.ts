@@ -1,0 +1,82 @@
+/** Helpers of the job queue's tests: waiting on a job row, reading a Server-Sent Events stream. */
+import { getJob } from '@/lib/jobs/queue';
+import type { JobRecord, JobState } from '@/lib/jobs/types';
+
+/** Waits until the job is in one of `states` (default: finished), reading its row; throws after `timeoutMs`. */
+export async function waitForJob(id: string, states: readonly JobState[] = ['done', 'failed'], timeoutMs = 20_000): Promise<JobRecord> {
+  const until = Date.now() + timeoutMs;
+  let last: JobRecord | null = null;
+  while (Date.now() < until) {
+    last = await getJob(id);
+    if (last && states.includes(last.state)) return last;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`job ${id} did not reach ${states.join('/')} within ${timeoutMs} ms (last: ${JSON.stringify(last)})`);
+}
+
+/** Waits until `check` holds for the job's row. */
+export async function waitForJobWhere(id: string, check: (j: JobRecord) => boolean, timeoutMs = 20_000): Promise<JobRecord> {
+  const until = Date.now() + timeoutMs;
+  let last: JobRecord | null = null;
+  while (Date.now() < until) {
+    last = await getJob(id);
+    if (last && check(last)) return last;
+    await new Promise((r) => setTimeout(r, 50));
+  }
+  throw new Error(`job ${id} did not get there within ${timeoutMs} ms (last: ${JSON.stringify(last)})`);
+}
+
+export interface SseMessage {
+  event: string;
+  data: unknown;
+}
+
+/** Reads SSE messages from a response body as they arrive (comments and `retry:` lines skipped). */
+export function sseReader(body: ReadableStream<Uint8Array>) {
+  const reader = body.getReader();
+  const decoder = new TextDecoder();
+  let buffer = '';
+  const queue: SseMessage[] = [];
+  async function fill(): Promise<boolean> {
+    const { done, value } = await reader.read();
+    if (done) return false;
+    buffer += decoder.decode(value, { stream: true });
+    let cut: number;
+    while ((cut = buffer.indexOf('\n\n')) >= 0) {
+      const block = buffer.slice(0, cut);
+      buffer = buffer.slice(cut + 2);
+      let event = 'message';
+      const data: string[] = [];
+      for (const line of block.split('\n')) {
+        if (line.startsWith('event: ')) event = line.slice(7);
+        else if (line.startsWith('data: ')) data.push(line.slice(6));
+      }
+      if (data.length > 0) queue.push({ event, data: JSON.parse(data.join('\n')) });
+    }
+    return true;
+  }
+  return {
+    /** The next message, waiting up to `timeoutMs`. */
+    async next(timeoutMs = 20_000): Promise<SseMessage> {
+      const until = Date.now() + timeoutMs;
+      while (queue.length === 0) {
+        const left = until - Date.now();
+        if (left <= 0) throw new Error('no SSE message in time');
+        const more = await Promise.race([fill(), new Promise<'timeout'>((r) => setTimeout(() => r('timeout'), left))]);
+        if (more === false) throw new Error('the SSE stream ended');
+      }
+      return queue.shift()!;
+    },
+    /** Messages until `stop` holds for one (included). */
+    async until(stop: (m: SseMessage) => boolean, timeoutMs = 30_000): Promise<SseMessage[]> {
+      const until = Date.now() + timeoutMs;
+      const out: SseMessage[] = [];
+      for (;;) {
+        const m = await this.next(Math.max(1, until - Date.now()));
+        out.push(m);
+        if (stop(m)) return out;
+      }
+    },
+    cancel: () => reader.cancel().catch(() => undefined),
+  };
+}
