@@ -27,6 +27,9 @@ export function buildWorkerBundle(cwd = process.cwd()): string {
       '--platform=node',
       '--format=esm',
       '--target=node20',
+      // CommonJS dependencies bundled into an ES module still call require() for Node's own
+      // modules (url, path ...): give the bundle a real require.
+      "--banner:js=import { createRequire as __cellwrightRequire } from 'node:module'; const require = __cellwrightRequire(import.meta.url);",
       `--tsconfig=${path.join(cwd, 'tsconfig.json')}`,
       `--outfile=${out}`,
       '--log-level=warning',
