@@ -6,9 +6,9 @@
  *
  * One unrolling serves both questions. Step k's state is a function of step k−1's, its
  * first state is free, and an `init` literal pins it to the initial state when assumed.
- * Permanently required: the encoding's invariants at every step, all states pairwise
- * distinct (a shortest counterexample never repeats a state, so this loses none), and
- * "no violation" at every depth already checked. At depth k:
+ * Required for every query of the check: the encoding's invariants at every step, all
+ * states pairwise distinct (a shortest counterexample never repeats a state, so this
+ * loses none), and "no violation" at every depth already checked. At depth k:
  *   1. init ∧ bad_k satisfiable → the shortest counterexample has k + 1 scans;
  *   2. bad_k unsatisfiable → proved by k-induction;
  *   3. init unsatisfiable → no simple path of k + 1 states exists from the start, so every
@@ -17,7 +17,7 @@
  * solver, so it is deterministic (the caller limits wall time around the whole proof).
  */
 import Logic from 'logic-solver';
-import { nodeOf, type Lit } from './aig';
+import { FALSE, TRUE, nodeOf, type Lit } from './aig';
 import type { TransitionSystem } from './system';
 
 /** Limits of one check. */
@@ -67,27 +67,58 @@ export function coneOfInfluence(ts: TransitionSystem, bad: Lit): Cone {
   return { state: [...state].sort((a, b) => a - b), step: [...step].sort((a, b) => a - b), constraints };
 }
 
-/** Checks that `bad` is false after every scan of every run from the initial state. */
-export function checkSafety(ts: TransitionSystem, bad: Lit, limits: CheckLimits): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
-  const cone = coneOfInfluence(ts, bad);
-  return Logic.disablingAssertions(() => run(ts, bad, cone, limits));
+/**
+ * One SAT solver shared by the checks of one proof run: creating a solver instantiates a
+ * whole MiniSat module (milliseconds each), so the rules of a run share one. Each check
+ * unrolls its own copy of its cone and guards every constraint that is not a definition
+ * with its own activation literal, so no check's constraints can touch another's answers.
+ */
+export type SatSession = { solver: Logic.Solver; falseVar: number; vars: number };
+
+/** A solver for one proof run (see {@link SatSession}). */
+export function createSatSession(): SatSession {
+  const solver = new Logic.Solver();
+  const falseVar = solver.getVarNum('v0');
+  solver.require(Logic.not(falseVar));
+  return { solver, falseVar, vars: 0 };
 }
 
-function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
+/** Checks that `bad` is false after every scan of every run from the initial state. */
+export function checkSafety(
+  ts: TransitionSystem,
+  bad: Lit,
+  limits: CheckLimits,
+  session: () => SatSession = createSatSession,
+): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
+  const cone = coneOfInfluence(ts, bad);
+  const stats: CheckStats = { stateBits: cone.state.length, inputBits: 0, freeBits: 0, clauses: 0, satCalls: 0 };
+  for (const j of cone.step) stats[ts.step[j].kind === 'input' ? 'inputBits' : 'freeBits']++;
+  // A constant needs no solver: never broken, or broken by the very first scan whatever the inputs.
+  if (bad === FALSE) return { outcome: { kind: 'proved', method: 'k-induction', depth: 0 }, stats, cone };
+  if (bad === TRUE) return { outcome: { kind: 'violated', depth: 0, steps: [new Map()] }, stats, cone };
+  return Logic.disablingAssertions(() => run(ts, bad, cone, limits, session()));
+}
+
+function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits, session: SatSession): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
   const g = ts.aig;
-  const solver = new Logic.Solver();
-  let vars = 0;
+  const { solver, falseVar } = session;
   let clauses = 0;
   let satCalls = 0;
-  const fresh = () => solver.getVarNum(`v${++vars}`);
+  const fresh = () => solver.getVarNum(`v${++session.vars}`);
   const clause = (...terms: number[]) => {
     clauses++;
     solver.require(Logic.or(...terms));
   };
-  const falseVar = fresh();
-  clause(-falseVar);
+  // This check's constraints hold only while `active` is assumed.
+  const active = fresh();
+  const guarded = (...terms: number[]) => clause(-active, ...terms);
+  const solveWith = (...terms: number[]) => {
+    satCalls++;
+    const q = fresh();
+    for (const t of [active, ...terms]) clause(-q, t);
+    return solver.solveAssuming(q);
+  };
   const term = (map: Int32Array, lit: Lit) => ((lit & 1) === 1 ? -map[nodeOf(lit)] : map[nodeOf(lit)]);
-
   // The AND nodes of one step's logic, in creation order (children before parents).
   const roots = [bad, ...cone.constraints, ...cone.state.map((j) => ts.state[j].next)];
   const andNodes: number[] = [];
@@ -137,7 +168,7 @@ function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits): {
       clause(x, -a, -b);
       map[n] = x;
     }
-    for (const c of cone.constraints) clause(term(map, c));
+    for (const c of cone.constraints) guarded(term(map, c));
     states.push(cone.state.map((j) => term(map, ts.state[j].next)));
     // ---- simple path: state k differs from every earlier state
     for (let i = 0; i < k; i++) {
@@ -154,12 +185,11 @@ function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits): {
         clause(-d, -a, -b);
         diffs.push(d);
       });
-      clause(...(diffs.length > 0 ? diffs : [falseVar]));
+      guarded(...(diffs.length > 0 ? diffs : [falseVar]));
     }
     const badK = term(map, bad);
     // ---- 1. a counterexample of k + 1 scans from the initial state
-    satCalls++;
-    const cex = solver.solveAssuming(Logic.and(init, badK));
+    const cex = solveWith(init, badK);
     if (cex) {
       const steps = stepTerms.map((terms) => {
         const values = new Map<number, boolean>();
@@ -169,12 +199,10 @@ function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits): {
       return { outcome: { kind: 'violated', depth: k, steps }, stats: stats(), cone };
     }
     // ---- 2. induction step: k good distinct states cannot lead to a bad one
-    satCalls++;
-    if (!solver.solveAssuming(badK)) return { outcome: { kind: 'proved', method: 'k-induction', depth: k }, stats: stats(), cone };
+    if (!solveWith(badK)) return { outcome: { kind: 'proved', method: 'k-induction', depth: k }, stats: stats(), cone };
     // ---- 3. no simple path of k + 1 states from the start: every reachable state was checked
-    satCalls++;
-    if (!solver.solveAssuming(init)) return { outcome: { kind: 'proved', method: 'exhaustive', depth: k }, stats: stats(), cone };
-    clause(-badK);
+    if (!solveWith(init)) return { outcome: { kind: 'proved', method: 'exhaustive', depth: k }, stats: stats(), cone };
+    guarded(-badK);
   }
   return { outcome: { kind: 'undecided', reason: 'max-depth', bound: limits.maxDepth + 1 }, stats: stats(), cone };
 }

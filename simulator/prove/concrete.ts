@@ -4,8 +4,8 @@
  * holds on the engine's own compiled sheet (an abstraction can only add behaviour; a
  * counterexample that needs it does not replay and the verdict stays undecided).
  */
-import { createProcessImage, getBit, setBit } from '@/simulator/address/process-image';
-import { parseAddress } from '@/simulator/address/address';
+import { createProcessImage, getBit, setBit, type ProcessImage } from '@/simulator/address/process-image';
+import { parseAddressCached } from '@/simulator/address/address';
 import type { CompiledSheet } from '@/simulator/plc/api';
 import { canonicalAddress, type InterlockRule, type RuleCondition } from './rules';
 
@@ -13,17 +13,25 @@ import { canonicalAddress, type InterlockRule, type RuleCondition } from './rule
 export type Frame = Record<string, boolean>;
 
 /**
- * Runs `inputs.length` scans from a fresh state: before each, the I area is cleared and
- * the scan's inputs set (as the cell writes its I area before each scan); returns, per
- * scan, the `watch` bits afterwards.
+ * Runs `inputs.length` scans from a fresh state and a zeroed image: before each, the I
+ * area is cleared and the scan's inputs set (as the cell writes its I area before each
+ * scan); returns, per scan, the `watch` bits afterwards.
  */
-export function runScans(compiled: CompiledSheet, inputs: readonly Record<string, boolean>[], watch: readonly string[]): Frame[] {
+export function runScans(
+  compiled: CompiledSheet,
+  inputs: readonly Record<string, boolean>[],
+  watch: readonly string[],
+  image: ProcessImage = createProcessImage(),
+): Frame[] {
   const state = compiled.createState();
-  const image = createProcessImage();
+  // A caller may lend a scratch image (replays run often while simplifying): start it from zero.
+  image.I.fill(0);
+  image.Q.fill(0);
+  image.M.fill(0);
   const bit = (text: string) => {
-    const r = parseAddress(text);
-    if (!r.ok || r.value.size !== 'X') throw new Error(`not a bit address: ${text}`);
-    return r.value;
+    const a = parseAddressCached(text);
+    if (!a || a.size !== 'X') throw new Error(`not a bit address: ${text}`);
+    return a;
   };
   const watched = watch.map((w) => ({ name: w, at: bit(w) }));
   const frames: Frame[] = [];

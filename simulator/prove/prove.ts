@@ -8,11 +8,12 @@
  * every scan, memory starting off. Forces, faults, wiring and the controller are outside
  * the proof (a forced %Q point is the operator's override, not the program's behaviour).
  */
+import { createProcessImage, type ProcessImage } from '@/simulator/address/process-image';
 import { analyseSheet } from '@/simulator/plc/validate';
 import { compileSheet } from '@/simulator/plc/compile';
 import type { Problem, Result } from '@/simulator/shared/result';
 import { issuesToProblems } from '@/simulator/shared/zod-problems';
-import { checkSafety, type CheckStats } from './bmc';
+import { checkSafety, createSatSession, type CheckStats, type SatSession } from './bmc';
 import { firstViolation, runScans, type Frame } from './concrete';
 import { encodeSheet } from './encode';
 import { addMonitor } from './monitor';
@@ -93,16 +94,28 @@ export function proveRules(input: unknown, rules: unknown, options: ProveOptions
   const parsed = interlockRulesSchema.safeParse(rules);
   if (!parsed.success) problems.push(...issuesToProblems(parsed.error.issues, ['rules'], () => undefined));
   if (!analysed.ok || !parsed.success) return { ok: false, errors: problems };
-  const compiled = compileSheet(sheetInput);
-  if (!compiled.ok) return compiled;
+  // Compiled only when a counterexample needs replaying.
+  let compiled: CompiledSheet | null = null;
+  const replayer = (): CompiledSheet => {
+    if (!compiled) {
+      const c = compileSheet(analysed.value.sheet);
+      // The sheet was analysed above, so it compiles; anything else is a bug in the engine.
+      if (!c.ok) throw new Error(`analysed sheet does not compile: ${c.errors.map((e) => e.message).join('; ')}`);
+      compiled = c.value;
+    }
+    return compiled;
+  };
+  const image = createProcessImage();
 
   const labels: SignalLabels | undefined = isCell ? safeLabels(input as CellDocument) : undefined;
   const watch = [...new Set(parsed.data.flatMap((r) => ruleAddresses(r)))];
   const enc = encodeSheet(analysed.value, { timerHorizonScans: opts.timerHorizonScans, watch });
   const ts = enc.system;
+  // Created on first use: a rule whose violation is a constant needs no solver.
+  let session: SatSession | null = null;
   const verdicts = parsed.data.map((rule): Verdict => {
     const bad = addMonitor(enc, rule);
-    const { outcome, stats, cone } = checkSafety(ts, bad, { maxDepth: opts.maxDepth, budget: opts.budget });
+    const { outcome, stats, cone } = checkSafety(ts, bad, { maxDepth: opts.maxDepth, budget: opts.budget }, () => (session ??= createSatSession()));
     const blocks = new Set<number>();
     for (const j of cone.state) if (ts.state[j].block !== undefined) blocks.add(ts.state[j].block as number);
     for (const j of cone.step) if (ts.step[j].block !== undefined) blocks.add(ts.step[j].block as number);
@@ -124,7 +137,7 @@ export function proveRules(input: unknown, rules: unknown, options: ProveOptions
       return v;
     });
     const signals = ruleAddresses(rule);
-    const replayed = concreteCounterexample(compiled.value, rule, vectors, outcome.depth, inputs, signals);
+    const replayed = concreteCounterexample(replayer(), image, rule, vectors, outcome.depth, inputs, signals);
     if (!replayed) {
       return {
         ...head,
@@ -158,6 +171,7 @@ function safeLabels(document: CellDocument): SignalLabels | undefined {
  */
 function concreteCounterexample(
   compiled: CompiledSheet,
+  image: ProcessImage,
   rule: InterlockRule,
   vectors: Record<string, boolean>[],
   depth: number,
@@ -165,7 +179,7 @@ function concreteCounterexample(
   signals: string[],
 ): Counterexample | null {
   const watch = [...new Set([...signals, ...inputs])];
-  const breaks = (vs: Record<string, boolean>[]) => firstViolation(rule, runScans(compiled, vs, watch)) === depth;
+  const breaks = (vs: Record<string, boolean>[]) => firstViolation(rule, runScans(compiled, vs, watch, image)) === depth;
   if (!breaks(vectors)) return null;
   let runs = 0;
   const current = vectors.map((v) => ({ ...v }));
@@ -177,7 +191,7 @@ function concreteCounterexample(
       if (!breaks(current)) current[k][name] = true;
     }
   }
-  const frames: Frame[] = runScans(compiled, current, watch);
+  const frames: Frame[] = runScans(compiled, current, watch, image);
   return {
     scanPeriodMs: compiled.scanPeriodMs,
     inputs,
