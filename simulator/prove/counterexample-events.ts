@@ -8,7 +8,10 @@
  * Scan 0's inputs are all forced at 0 ms (off ones too, so the wiring cannot interfere);
  * later scans force only the points that change. The forces stay on at the end, so the
  * workspace shows the broken state; the rule is broken after the scan at
- * (failsAtScan + 1) · P.
+ * (failsAtScan + 1) · P. On the scope an input changes between scans, as on a real PLC,
+ * and the outputs answer at the next scan: the proof pairs each scan's outputs with the
+ * inputs that scan read, so a trace rule over the same signals may see an input's half of
+ * the break up to one period before that scan.
  */
 import type { LoggedEvent } from '@/simulator/cell/events';
 import type { Counterexample } from './prove';
