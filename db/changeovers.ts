@@ -227,6 +227,7 @@ export async function withdrawSignature(id: string, actorId: string): Promise<{ 
   return db().transaction(async (trx) => {
     const row = await trx('changeovers').where({ id }).forUpdate().first();
     if (!row) return { ok: false, reason: 'missing' } as const;
+    if (row.state === 'drafting') return { ok: true } as const;
     if (row.state !== 'checked') return { ok: false, reason: 'state', state: row.state } as const;
     if (!row.signed_by) return { ok: true } as const;
     await trx('changeovers').where({ id }).update({ signed_by: null, signed_at: null });

@@ -14,7 +14,7 @@ export const COHORT_ROLES: readonly Role[] = ['trainer', 'admin'];
 export interface NavItem {
   href: string;
   label: string;
-  icon: 'dashboard' | 'cells' | 'cohorts' | 'users' | 'mailbox' | 'drills' | 'runs' | 'gradebook';
+  icon: 'dashboard' | 'cells' | 'cohorts' | 'users' | 'mailbox' | 'drills' | 'runs' | 'gradebook' | 'changeovers';
 }
 
 /**
@@ -27,6 +27,7 @@ export function navFor(role: Role): NavItem[] {
   if (role === 'trainer' || role === 'admin') items.push({ href: '/cohorts', label: 'Cohorts', icon: 'cohorts' });
   if (role === 'student') items.push({ href: '/drills', label: 'Drills', icon: 'drills' }, { href: '/runs', label: 'Runs', icon: 'runs' });
   if (role === 'trainer') items.push({ href: '/drills', label: 'Drills', icon: 'drills' }, { href: '/gradebook', label: 'Gradebook', icon: 'gradebook' });
+  if (role === 'lead' || role === 'trainer') items.push({ href: '/changeovers', label: 'Changeovers', icon: 'changeovers' });
   if (role === 'admin') {
     items.push({ href: '/admin/users', label: 'Users', icon: 'users' });
     items.push({ href: '/admin/mailbox', label: 'Mailbox', icon: 'mailbox' });

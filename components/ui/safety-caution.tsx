@@ -1,11 +1,14 @@
+import type { ReactNode } from 'react';
 import { ShieldAlert } from 'lucide-react';
 import { cn } from './cn';
 
 /**
  * The caution every screen that models e-stops, guards or interlocks carries
  * (DESIGN.md, Safety). Cellwright's interlocks are training models, never safety functions.
+ * `children` add what a screen needs beyond it (a changeover's limits of a proof); they never
+ * replace the standard text.
  */
-export function SafetyCaution({ className, compact = false }: { className?: string; compact?: boolean }) {
+export function SafetyCaution({ className, compact = false, children }: { className?: string; compact?: boolean; children?: ReactNode }) {
   return (
     <aside
       aria-label="Safety caution"
@@ -28,6 +31,7 @@ export function SafetyCaution({ className, compact = false }: { className?: stri
             precedence.
           </p>
         )}
+        {children}
       </div>
     </aside>
   );

@@ -32,7 +32,7 @@ import { insertMail } from '@/db/mail';
 import { call, demoCohortId, demoUser, makeUser, otherTrainerWithCohort, sessionCookie, uniqueEmail } from './helpers';
 import { CELL_ROUTES } from './cells-matrix-routes';
 import { DRILL_ROUTES } from './drills-matrix-routes';
-import { JOB_ROUTES } from './jobs-matrix-routes';
+import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const PUBLIC = (status: number): Record<Actor, number> => ({
@@ -199,7 +199,7 @@ const ROUTES: RouteCase[] = [
   },
   ...CELL_ROUTES,
   ...DRILL_ROUTES,
-  ...JOB_ROUTES,
+  ...CHANGEOVER_ROUTES,
 ];
 
 /** Server actions would be listed here with the same shape; there are none yet. */
