@@ -32,6 +32,7 @@ import { insertMail } from '@/db/mail';
 import { call, demoCohortId, demoUser, makeUser, otherTrainerWithCohort, sessionCookie, uniqueEmail } from './helpers';
 import { CELL_ROUTES } from './cells-matrix-routes';
 import { DRILL_ROUTES } from './drills-matrix-routes';
+import { JOB_ROUTES } from './jobs-matrix-routes';
 import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
@@ -199,6 +200,7 @@ const ROUTES: RouteCase[] = [
   },
   ...CELL_ROUTES,
   ...DRILL_ROUTES,
+  ...JOB_ROUTES,
   ...CHANGEOVER_ROUTES,
 ];
 
