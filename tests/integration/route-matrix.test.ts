@@ -34,6 +34,7 @@ import { CELL_ROUTES } from './cells-matrix-routes';
 import { DRILL_ROUTES } from './drills-matrix-routes';
 import { JOB_ROUTES } from './jobs-matrix-routes';
 import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
+import { EVIDENCE_ROUTES } from './evidence-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const PUBLIC = (status: number): Record<Actor, number> => ({
@@ -202,6 +203,7 @@ const ROUTES: RouteCase[] = [
   ...DRILL_ROUTES,
   ...JOB_ROUTES,
   ...CHANGEOVER_ROUTES,
+  ...EVIDENCE_ROUTES,
 ];
 
 /** Server actions would be listed here with the same shape; there are none yet. */
