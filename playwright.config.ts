@@ -4,7 +4,7 @@ import { CHROMIUM_LAUNCH_OPTIONS } from './tests/chromium';
 
 /**
  * Browser tests in Debian's Chromium against the built app (`next start`) on
- * 127.0.0.1:3100 with the test database and the test mail catcher (port 2526).
+ * 127.0.0.1:3100 with the test database, the test mail catcher (port 2526) and a job worker.
  * scripts/test.sh builds the app and resets the test database first. The servers get
  * process.env plus `serverEnv` (Playwright merges them), so NEXT_DIST_DIR, the folder of a
  * parallel build, reaches `next start` as it is.
@@ -52,6 +52,20 @@ export default defineConfig({
       env: serverEnv,
       reuseExistingServer: false,
       timeout: 30_000,
+      stdout: 'ignore',
+      stderr: 'pipe',
+    },
+    {
+      // The job worker (scripts/worker.ts), as start.sh runs it beside the app. It listens on
+      // no port: Playwright waits for its "ready" line, and stops it with SIGTERM (running jobs
+      // are handed back to the queue).
+      command: 'node_modules/.bin/tsx --conditions=react-server scripts/worker.ts',
+      name: 'worker',
+      wait: { stdout: /\[worker\] ready/ },
+      env: serverEnv,
+      reuseExistingServer: false,
+      timeout: 60_000,
+      gracefulShutdown: { signal: 'SIGTERM', timeout: 10_000 },
       stdout: 'ignore',
       stderr: 'pipe',
     },

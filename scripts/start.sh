@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# Start Cellwright with demo data at http://127.0.0.1:3000 (Ctrl-C stops the app and the mail catcher;
-# the database keeps running until `bash db/cluster.sh stop`).
+# Start Cellwright with demo data at http://127.0.0.1:3000 (Ctrl-C stops the app, the job worker and the
+# mail catcher; the database keeps running until `bash db/cluster.sh stop`).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
@@ -51,9 +51,12 @@ npx tsx db/scripts/seed.ts --quiet
 build_app
 
 CATCHER_PID=""
+WORKER_PID=""
 APP_PID=""
 cleanup() {
   [[ -n "$APP_PID" ]] && kill "$APP_PID" 2>/dev/null || true
+  # SIGTERM: the worker lets running jobs finish for a moment, then hands them back to the queue.
+  [[ -n "$WORKER_PID" ]] && kill "$WORKER_PID" 2>/dev/null || true
   [[ -n "$CATCHER_PID" ]] && kill "$CATCHER_PID" 2>/dev/null || true
 }
 trap cleanup EXIT INT TERM
@@ -68,6 +71,13 @@ else
   CATCHER_PID=$!
   wait_for_port "$SMTP_PORT" 150
 fi
+
+# The job worker (proofs, scenario checks, regrades). More workers, here or on other machines
+# against the same DATABASE_URL, share the queue: `npx tsx --conditions=react-server scripts/worker.ts`.
+log "job worker (log in .local/log/worker.log)"
+mkdir -p .local/log
+node_modules/.bin/tsx --conditions=react-server scripts/worker.ts >>.local/log/worker.log 2>&1 &
+WORKER_PID=$!
 
 log "next start on 127.0.0.1:$PORT"
 node_modules/.bin/next start --hostname 127.0.0.1 --port "$PORT" &

@@ -36,7 +36,7 @@ async function trainerDrill(w: World): Promise<string> {
  */
 async function streamStatus(req: Request): Promise<Response> {
   const abort = new AbortController();
-  const res = await jobStream.GET(new Request(req.url, { headers: req.headers, signal: abort.signal }));
+  const res = await jobStream.GET(new Request(req.url, { headers: req.headers, signal: abort.signal }), { params: Promise.resolve({}) });
   if (res.status !== 200) return res;
   await res.body?.cancel();
   abort.abort();

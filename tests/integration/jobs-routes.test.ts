@@ -27,6 +27,9 @@ let lead: User;
 let otherTrainer: User;
 let drillId: string;
 
+/** The route takes no params; Next.js passes a context all the same. */
+const NO_PARAMS = { params: Promise.resolve({}) };
+
 function streamRequest(subject: string, cookie: string | undefined, signal?: AbortSignal): Request {
   return new Request(`${BASE}/api/jobs/stream?subject=${encodeURIComponent(subject)}`, { headers: cookie ? { cookie } : {}, signal });
 }
@@ -55,7 +58,7 @@ describe('drill regrade through the worker process, followed on the stream', () 
 
     const cookie = await sessionCookie(trainer);
     const abort = new AbortController();
-    const res = await stream.GET(streamRequest(`drill:${drillId}`, cookie, abort.signal));
+    const res = await stream.GET(streamRequest(`drill:${drillId}`, cookie, abort.signal), NO_PARAMS);
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toMatch(/^text\/event-stream/);
     expect(res.headers.get('cache-control')).toMatch(/no-transform/);
@@ -131,15 +134,15 @@ describe('drill regrade through the worker process, followed on the stream', () 
 describe('who may follow and read jobs', () => {
   it('the stream answers 401 without a session, 403 to a role that never reads drills, 404 to another trainer', async () => {
     const subject = `drill:${drillId}`;
-    expect((await stream.GET(streamRequest(subject, undefined))).status).toBe(401);
-    expect((await stream.GET(streamRequest(subject, await sessionCookie(student)))).status).toBe(403);
-    expect((await stream.GET(streamRequest(subject, await sessionCookie(lead)))).status).toBe(403);
-    expect((await stream.GET(streamRequest(subject, await sessionCookie(otherTrainer)))).status).toBe(404);
+    expect((await stream.GET(streamRequest(subject, undefined), NO_PARAMS)).status).toBe(401);
+    expect((await stream.GET(streamRequest(subject, await sessionCookie(student)), NO_PARAMS)).status).toBe(403);
+    expect((await stream.GET(streamRequest(subject, await sessionCookie(lead)), NO_PARAMS)).status).toBe(403);
+    expect((await stream.GET(streamRequest(subject, await sessionCookie(otherTrainer)), NO_PARAMS)).status).toBe(404);
     const trainerCookie = await sessionCookie(trainer);
     // A malformed subject is a bad query; a well-formed one nobody knows is not found.
-    expect((await stream.GET(streamRequest('drill:not-a-uuid', trainerCookie))).status).toBe(400);
-    expect((await stream.GET(streamRequest(`drill:${crypto.randomUUID()}`, trainerCookie))).status).toBe(404);
-    expect((await stream.GET(streamRequest(`cell:${drillId}`, trainerCookie))).status).toBe(404);
+    expect((await stream.GET(streamRequest('drill:not-a-uuid', trainerCookie), NO_PARAMS)).status).toBe(400);
+    expect((await stream.GET(streamRequest(`drill:${crypto.randomUUID()}`, trainerCookie), NO_PARAMS)).status).toBe(404);
+    expect((await stream.GET(streamRequest(`cell:${drillId}`, trainerCookie), NO_PARAMS)).status).toBe(404);
     expect(openJobStreams()).toBe(0);
   });
 

@@ -6,6 +6,7 @@ import { Refused } from '@/components/ui/refused';
 import { formatDateTime } from '@/components/ui/format';
 import { DrillEditor } from '@/components/drills/drill-editor';
 import { AssignForm } from '@/components/drills/assign-form';
+import { DrillRegrade } from '@/components/drills/drill-regrade';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { DRILL_ROLES, assignmentState, drillForAuthor } from '@/lib/drills/access';
@@ -13,6 +14,7 @@ import { drillAsInput } from '@/lib/drills/author';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
 import { drillHasRuns, listAssignmentsOfDrill } from '@/db/drills';
 import { findCell, listOwnedCells } from '@/db/cells';
+import { listJobs, subjectOf } from '@/lib/jobs';
 import { listCohorts } from '@/db/cohorts';
 
 export const metadata: Metadata = { title: 'Drill · Cellwright' };
@@ -24,12 +26,13 @@ export default async function DrillPage({ params }: { params: Promise<{ id: stri
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
   const { id } = paramsOrNotFound(drillIdParamSchema, raw);
   const drill = await loadOrNotFound(drillForAuthor(user, id));
-  const [owned, assignments, cohorts, locked, base] = await Promise.all([
+  const [owned, assignments, cohorts, locked, base, jobs] = await Promise.all([
     listOwnedCells(drill.trainerId),
     listAssignmentsOfDrill(drill.id),
     listCohorts(user.role === 'admin' ? null : user.id),
     drillHasRuns(drill.id),
     findCell(drill.cellId),
+    listJobs(subjectOf('drill', drill.id)),
   ]);
   const cells = owned.map((c) => ({ id: c.id, name: c.name, versionCount: c.versionCount }));
   if (base && !cells.some((c) => c.id === base.id)) cells.unshift({ id: base.id, name: base.name, versionCount: drill.cellVersion });
@@ -48,6 +51,9 @@ export default async function DrillPage({ params }: { params: Promise<{ id: stri
         <DrillEditor drillId={drill.id} initial={{ ...drillAsInput(drill), id: drill.id }} cells={cells} locked={locked} />
         <Card title="Assign to a cohort">
           <AssignForm drillId={drill.id} cohorts={cohorts.map((c) => ({ id: c.id, name: c.name, memberCount: c.memberCount }))} />
+        </Card>
+        <Card title="Regrade check">
+          <DrillRegrade drillId={drill.id} initial={jobs.find((j) => j.kind === 'drill-regrade') ?? null} />
         </Card>
         <Card title="Assignments of this drill">
           {assignments.length === 0 ? (
