@@ -1,0 +1,2 @@
+export type { Problem, Result } from './result';
+export { ok, fail, problem, prefixProblems } from './result';
