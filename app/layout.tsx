@@ -1,5 +1,6 @@
 import type { Metadata } from 'next';
 import localFont from 'next/font/local';
+import { connection } from 'next/server';
 import { QueryProvider } from '@/components/ui/query-provider';
 import './globals.css';
 
@@ -11,7 +12,11 @@ export const metadata: Metadata = {
   description: 'A browser bench for wiring, running and proving the PLC–robot handshake of a robot cell.',
 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Every page is rendered per request: its scripts must carry that request's CSP nonce
+  // (proxy.ts), which a page prerendered at build time cannot (Next.js 16 CSP guide,
+  // "Forcing dynamic rendering").
+  await connection();
   return (
     <html lang="en" className={`${sans.variable} ${mono.variable}`}>
       <body className="min-h-screen font-sans">
