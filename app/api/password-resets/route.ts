@@ -1,4 +1,4 @@
-import { apiRoute } from '@/lib/api/errors';
+import { apiRoute, ApiError } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requestResetSchema } from '@/lib/schemas/auth';
 import { requestAddress } from '@/lib/auth/credentials';
@@ -17,10 +17,9 @@ export const POST = apiRoute(async (req: Request) => {
   const outcome = await requestPasswordReset(email, requestAddress(req.headers));
   if (outcome.status === 'throttled') {
     const minutes = Math.ceil(outcome.retryAfterSeconds / 60);
-    return Response.json(
-      { error: `Too many reset requests from your network. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` },
-      { status: 429, headers: { 'retry-after': String(outcome.retryAfterSeconds), 'cache-control': 'no-store' } },
-    );
+    throw new ApiError(429, `Too many reset requests from your network. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.`, undefined, {
+      headers: { 'retry-after': String(outcome.retryAfterSeconds) },
+    });
   }
   return Response.json({ message: ACCEPTED }, { status: 202, headers: { 'cache-control': 'no-store' } });
 });
