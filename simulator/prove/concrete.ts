@@ -4,7 +4,7 @@
  * holds on the engine's own compiled sheet (an abstraction can only add behaviour; a
  * counterexample that needs it does not replay and the verdict stays undecided).
  */
-import { createProcessImage, getBit, setBit, type ProcessImage } from '@/simulator/address/process-image';
+import { createProcessImage, getBit, setBit } from '@/simulator/address/process-image';
 import { parseAddressCached } from '@/simulator/address/address';
 import type { CompiledSheet } from '@/simulator/plc/api';
 import { canonicalAddress, type InterlockRule, type RuleCondition } from './rules';
@@ -12,41 +12,40 @@ import { canonicalAddress, type InterlockRule, type RuleCondition } from './rule
 /** Values of bits after one scan (inputs as read during it), by canonical address. */
 export type Frame = Record<string, boolean>;
 
+/** Runs a list of input vectors on a compiled sheet from its fresh state; returns the frames. */
+export type Replayer = (inputs: readonly Record<string, boolean>[]) => Frame[];
+
 /**
- * Runs `inputs.length` scans from a fresh state and a zeroed image: before each, the I
- * area is cleared and the scan's inputs set (as the cell writes its I area before each
- * scan); returns, per scan, the `watch` bits afterwards.
+ * A replayer for one sheet, its input bits and the bits to watch (addresses parsed once,
+ * one image reused: counterexamples are replayed many times while they are simplified).
+ * Each run starts from a fresh state and a zeroed image; before each scan the I area is
+ * cleared and the scan's inputs set (as the cell writes its I area before each scan);
+ * each frame holds the `watch` bits after the scan.
  */
-export function runScans(
-  compiled: CompiledSheet,
-  inputs: readonly Record<string, boolean>[],
-  watch: readonly string[],
-  image: ProcessImage = createProcessImage(),
-): Frame[] {
-  const state = compiled.createState();
-  // A caller may lend a scratch image (replays run often while simplifying): start it from zero.
-  image.I.fill(0);
-  image.Q.fill(0);
-  image.M.fill(0);
+export function createReplayer(compiled: CompiledSheet, inputNames: readonly string[], watch: readonly string[]): Replayer {
   const bit = (text: string) => {
     const a = parseAddressCached(text);
     if (!a || a.size !== 'X') throw new Error(`not a bit address: ${text}`);
     return a;
   };
-  const watched = watch.map((w) => ({ name: w, at: bit(w) }));
-  const frames: Frame[] = [];
-  for (const vector of inputs) {
-    image.I.fill(0);
-    for (const [name, on] of Object.entries(vector)) {
-      const a = bit(name);
-      if (a.area === 'I') setBit(image, 'I', a.byte, a.bit ?? 0, on);
+  const ins = inputNames.map((name) => ({ name, at: bit(name) })).filter((x) => x.at.area === 'I');
+  const watched = watch.map((name) => ({ name, at: bit(name) }));
+  const image = createProcessImage();
+  return (inputs) => {
+    const state = compiled.createState();
+    image.Q.fill(0);
+    image.M.fill(0);
+    const frames: Frame[] = [];
+    for (const vector of inputs) {
+      image.I.fill(0);
+      for (const x of ins) if (vector[x.name]) setBit(image, 'I', x.at.byte, x.at.bit ?? 0, true);
+      compiled.scan(state, image);
+      const frame: Frame = {};
+      for (const w of watched) frame[w.name] = getBit(image, w.at.area, w.at.byte, w.at.bit ?? 0);
+      frames.push(frame);
     }
-    compiled.scan(state, image);
-    const frame: Frame = {};
-    for (const w of watched) frame[w.name] = getBit(image, w.at.area, w.at.byte, w.at.bit ?? 0);
-    frames.push(frame);
-  }
-  return frames;
+    return frames;
+  };
 }
 
 /** A condition's value in one frame (an address missing from the frame reads off). */

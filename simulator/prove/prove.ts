@@ -8,13 +8,12 @@
  * every scan, memory starting off. Forces, faults, wiring and the controller are outside
  * the proof (a forced %Q point is the operator's override, not the program's behaviour).
  */
-import { createProcessImage, type ProcessImage } from '@/simulator/address/process-image';
 import { analyseSheet } from '@/simulator/plc/validate';
 import { compileSheet } from '@/simulator/plc/compile';
 import type { Problem, Result } from '@/simulator/shared/result';
 import { issuesToProblems } from '@/simulator/shared/zod-problems';
 import { checkSafety, createSatSession, type CheckStats, type SatSession } from './bmc';
-import { firstViolation, runScans, type Frame } from './concrete';
+import { createReplayer, firstViolation } from './concrete';
 import { encodeSheet } from './encode';
 import { addMonitor } from './monitor';
 import { describeRule, interlockRulesSchema, ruleAddresses, signalLabels, type InterlockRule, type SignalLabels } from './rules';
@@ -105,7 +104,6 @@ export function proveRules(input: unknown, rules: unknown, options: ProveOptions
     }
     return compiled;
   };
-  const image = createProcessImage();
 
   const labels: SignalLabels | undefined = isCell ? safeLabels(input as CellDocument) : undefined;
   const watch = [...new Set(parsed.data.flatMap((r) => ruleAddresses(r)))];
@@ -137,7 +135,7 @@ export function proveRules(input: unknown, rules: unknown, options: ProveOptions
       return v;
     });
     const signals = ruleAddresses(rule);
-    const replayed = concreteCounterexample(replayer(), image, rule, vectors, outcome.depth, inputs, signals);
+    const replayed = concreteCounterexample(replayer(), rule, vectors, outcome.depth, inputs, signals);
     if (!replayed) {
       return {
         ...head,
@@ -171,15 +169,14 @@ function safeLabels(document: CellDocument): SignalLabels | undefined {
  */
 function concreteCounterexample(
   compiled: CompiledSheet,
-  image: ProcessImage,
   rule: InterlockRule,
   vectors: Record<string, boolean>[],
   depth: number,
   inputs: string[],
   signals: string[],
 ): Counterexample | null {
-  const watch = [...new Set([...signals, ...inputs])];
-  const breaks = (vs: Record<string, boolean>[]) => firstViolation(rule, runScans(compiled, vs, watch, image)) === depth;
+  const run = createReplayer(compiled, inputs, signals);
+  const breaks = (vs: Record<string, boolean>[]) => firstViolation(rule, run(vs)) === depth;
   if (!breaks(vectors)) return null;
   let runs = 0;
   const current = vectors.map((v) => ({ ...v }));
@@ -191,7 +188,7 @@ function concreteCounterexample(
       if (!breaks(current)) current[k][name] = true;
     }
   }
-  const frames: Frame[] = runScans(compiled, current, watch, image);
+  const frames = run(current);
   return {
     scanPeriodMs: compiled.scanPeriodMs,
     inputs,

@@ -3,7 +3,7 @@
  * English rendering, and labels taken from a cell document.
  */
 import { describe, expect, it } from 'vitest';
-import { starterCell } from '@/simulator/demo';
+import { pickAndPlaceCell, starterCell } from '@/simulator/demo';
 import { describeRule, interlockRuleSchema, interlockRulesSchema, ruleAddresses, signalLabels, MAX_CONDITION_DEPTH, type RuleCondition } from './rules';
 
 const codes = (r: { success: boolean; error?: { issues: { path: PropertyKey[]; params?: unknown; code: string }[] } }) =>
@@ -72,5 +72,10 @@ describe('plain English', () => {
       '%IX0.2': 'Emergency stop',
       '%QX0.0': 'Running',
     });
+    // pick-and-place.ts: %QX0.0 runs to controller channel 0, point-map label "Start"; the
+    // job word's bits have no single-bit label, so their WORD_OUT block gives none either.
+    const labels = signalLabels(pickAndPlaceCell as Parameters<typeof signalLabels>[0]);
+    expect(labels['%QX0.0']).toBe('controller Start');
+    expect(labels['%QX2.0']).toBeUndefined();
   });
 });

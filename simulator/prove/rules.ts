@@ -197,10 +197,12 @@ export function describeRule(rule: InterlockRule | InterlockRuleInput, labels?: 
 }
 
 /**
- * Labels for PLC bits from a cell document: the device a wiring row joins to the bit
- * (its label), else the row's own label, else the label of a coil or contact block on it.
+ * Labels for PLC bits from a cell document, first found wins: the device a wiring row
+ * joins to the bit (its label); the controller point a row joins it to (`controller` and
+ * the point-map label); the row's own label; the label of a coil or contact block on the
+ * bit; the id of a coil block writing it.
  */
-export function signalLabels(document: Pick<CellDocument, 'panel' | 'field' | 'wiring' | 'plc'>): Record<string, string> {
+export function signalLabels(document: Pick<CellDocument, 'panel' | 'field' | 'wiring' | 'plc' | 'controller'>): Record<string, string> {
   const out: Record<string, string> = {};
   const devices = new Map<string, string>();
   for (const d of [...(document.panel ?? []), ...(document.field ?? [])]) devices.set(d.id, d.label);
@@ -210,19 +212,33 @@ export function signalLabels(document: Pick<CellDocument, 'panel' | 'field' | 'w
     const a = formatAddress(r.value);
     if (!(a in out)) out[a] = label;
   };
-  for (const row of document.wiring ?? []) {
-    const ends = [row.from, row.to];
-    const plc = ends.find((e): e is { plc: string } => 'plc' in e);
-    const dev = ends.find((e): e is { device: string; terminal: string } => 'device' in e);
+  const rows = document.wiring ?? [];
+  const plcEnd = (row: (typeof rows)[number]) => [row.from, row.to].find((e): e is { plc: string } => 'plc' in e);
+  for (const row of rows) {
+    const dev = [row.from, row.to].find((e): e is { device: string; terminal: string } => 'device' in e);
+    const plc = plcEnd(row);
     if (plc && dev) put(plc.plc, devices.get(dev.device));
   }
-  for (const row of document.wiring ?? []) {
-    const plc = [row.from, row.to].find((e): e is { plc: string } => 'plc' in e);
+  const pointMap = document.controller?.pointMap ?? [];
+  for (const row of rows) {
+    const plc = plcEnd(row);
+    const ch = [row.from, row.to].find((e): e is { controller: { rack: number; slot: number; channel: number } } => 'controller' in e);
+    if (!plc || !ch) continue;
+    const { rack, slot, channel } = ch.controller;
+    // Single-channel points only: a word point's label names the word, not one bit.
+    const pm = pointMap.find((m) => m.bits === undefined && m.rack === rack && m.slot === slot && channel >= m.firstChannel && channel < m.firstChannel + m.count);
+    const label = pm?.points?.[channel - pm.firstChannel]?.label;
+    if (label) put(plc.plc, `controller ${label}`);
+  }
+  for (const row of rows) {
+    const plc = plcEnd(row);
     if (plc) put(plc.plc, row.label);
   }
   const blocks = document.plc?.sheet?.blocks ?? [];
-  for (const kinds of [['COIL', 'SET_COIL', 'RESET_COIL'], ['NO_CONTACT', 'NC_CONTACT']]) {
+  const coils = ['COIL', 'SET_COIL', 'RESET_COIL'];
+  for (const kinds of [coils, ['NO_CONTACT', 'NC_CONTACT']]) {
     for (const b of blocks) if (kinds.includes(b.type) && 'address' in b.params) put(b.params.address, b.label);
   }
+  for (const b of blocks) if (coils.includes(b.type) && 'address' in b.params) put(b.params.address, b.id);
   return out;
 }
