@@ -17,7 +17,8 @@ export function histories(trace: Trace | null): Map<string, History> {
     const name = trace.signals[i];
     if (name === undefined) continue;
     const h = out.get(name) ?? [];
-    const value: Value = typeof v === 'boolean' ? (v ? 1 : 0) : v;
+    // Booleans read as 0/1 (older traces may hold them as true/false).
+    const value: Value = typeof v === 'boolean' ? (v ? 1 : 0) : (v as Value);
     if (h.length > 0 && h[h.length - 1].t === t) h[h.length - 1] = { t, v: value };
     else if (h.length === 0 || h[h.length - 1].v !== value) h.push({ t, v: value });
     out.set(name, h);

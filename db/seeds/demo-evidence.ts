@@ -1,10 +1,10 @@
 import type { Knex } from 'knex';
-import type { InterlockRuleInput, LoggedEvent, Rule } from '@/simulator';
+import type { LoggedEvent, Rule } from '@/simulator';
+import type { InterlockRuleBody } from '@/db/interlock-rules';
 import { DEMO_CELL_NAMES } from './demo-cells';
 
 const MARKER = 'demo-evidence-v1';
 
-type Body = Omit<InterlockRuleInput, 'id' | 'title'>;
 const bit = (signal: string, value: 'on' | 'off' = 'on') => ({ signal, value });
 
 /**
@@ -20,7 +20,7 @@ const bit = (signal: string, value: 'on' | 'off' = 'on') => ({ signal, value });
  *   and proved on the proposal — what the change is for;
  * - the others hold on both (one of them with the start pulse's timer encoded exactly).
  */
-export const DEMO_INTERLOCK_RULES: { title: string; body: Body }[] = [
+export const DEMO_INTERLOCK_RULES: { title: string; body: InterlockRuleBody }[] = [
   {
     title: 'Robot held whenever the yellow tier shows a guard open',
     body: { kind: 'never', what: bit('%QX0.3'), while: { all: [bit('%QX1.1'), bit('%IX0.1')] } },

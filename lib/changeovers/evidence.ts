@@ -179,7 +179,8 @@ export async function loadEvidenceDetail(changeoverId: string, known?: Changeove
   );
 
   const blockers: string[] = [];
-  if (co.pinnedVersion === null) blockers.push('The proposal is not pinned yet: pin it so the evidence covers one fixed version.');
+  // Worded as the sign-off words it (lib/changeovers/sign-off.ts), which lists each sentence once.
+  if (co.pinnedVersion === null) blockers.push('The proposal is not pinned yet: pin it and run the checks, so the signatures cover one fixed version.');
   const isOpen = (r: EvidenceRun | null) => r !== null && (r.status === 'queued' || r.status === 'running');
   if (isOpen(openProofs)) blockers.push('The proofs are running.');
   if (isOpen(openChecks)) blockers.push('The scenario checks are running.');
