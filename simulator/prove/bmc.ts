@@ -96,10 +96,10 @@ export function checkSafety(
   // A constant needs no solver: never broken, or broken by the very first scan whatever the inputs.
   if (bad === FALSE) return { outcome: { kind: 'proved', method: 'k-induction', depth: 0 }, stats, cone };
   if (bad === TRUE) return { outcome: { kind: 'violated', depth: 0, steps: [new Map()] }, stats, cone };
-  return Logic.disablingAssertions(() => run(ts, bad, cone, limits, session()));
+  return Logic.disablingAssertions(() => run(ts, bad, cone, limits, session(), stats));
 }
 
-function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits, session: SatSession): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
+function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits, session: SatSession, sizes: CheckStats): { outcome: CheckOutcome; stats: CheckStats; cone: Cone } {
   const g = ts.aig;
   const { solver, falseVar } = session;
   let clauses = 0;
@@ -136,13 +136,7 @@ function run(ts: TransitionSystem, bad: Lit, cone: Cone, limits: CheckLimits, se
     }
     andNodes.sort((a, b) => a - b);
   }
-  const stats = (): CheckStats => ({
-    stateBits: cone.state.length,
-    inputBits: cone.step.filter((j) => ts.step[j].kind === 'input').length,
-    freeBits: cone.step.filter((j) => ts.step[j].kind === 'free').length,
-    clauses,
-    satCalls,
-  });
+  const stats = (): CheckStats => ({ ...sizes, clauses, satCalls });
 
   const init = fresh();
   // Solver terms of each step's state bits, by position in cone.state.

@@ -25,14 +25,17 @@ import type { CellDocument } from '@/simulator/schema/cell-document';
 export type ProveOptions = {
   /** Deepest scan a counterexample is searched to (0-based), and the largest induction depth. */
   maxDepth?: number;
-  /** Most clauses handed to the SAT solver per rule (a deterministic stand-in for time). */
+  /**
+   * Most clauses handed to the SAT solver per rule: a deterministic stand-in for time, and
+   * a bound on memory (the solver keeps every clause; some hundred bytes each).
+   */
   budget?: number;
   /** Longest timer encoded exactly, in scans; longer ones are abstracted (see the verdict's notes). */
   timerHorizonScans?: number;
 };
 
 /** Defaults of {@link ProveOptions}. */
-export const PROVE_DEFAULTS: Required<ProveOptions> = { maxDepth: 40, budget: 1_000_000, timerHorizonScans: 1000 };
+export const PROVE_DEFAULTS: Required<ProveOptions> = { maxDepth: 40, budget: 250_000, timerHorizonScans: 1000 };
 
 /** A run that breaks a rule: the shortest one. */
 export type Counterexample = {
@@ -83,7 +86,12 @@ const SIMPLIFY_RUNS = 2000;
  * `['rules', i, …]`); otherwise one verdict per rule, in order.
  */
 export function proveRules(input: unknown, rules: unknown, options: ProveOptions = {}): Result<Verdict[], Problem> {
-  const opts = { ...PROVE_DEFAULTS, ...options };
+  const whole = (x: number | undefined, fallback: number) => (x !== undefined && Number.isFinite(x) ? Math.max(0, Math.floor(x)) : fallback);
+  const opts = {
+    maxDepth: whole(options.maxDepth, PROVE_DEFAULTS.maxDepth),
+    budget: whole(options.budget, PROVE_DEFAULTS.budget),
+    timerHorizonScans: whole(options.timerHorizonScans, PROVE_DEFAULTS.timerHorizonScans),
+  };
   const isCell = typeof input === 'object' && input !== null && 'plc' in input;
   const sheetInput = isCell ? (input as { plc?: { sheet?: unknown } }).plc?.sheet : input;
   const prefix = isCell ? ['plc', 'sheet'] : [];
@@ -137,6 +145,8 @@ export function proveRules(input: unknown, rules: unknown, options: ProveOptions
     const signals = ruleAddresses(rule);
     const replayed = concreteCounterexample(replayer(), rule, vectors, outcome.depth, inputs, signals);
     if (!replayed) {
+      // With every block exact the encoding is the sheet, so its counterexamples always replay.
+      if (exact) throw new Error(`counterexample for rule ${rule.id} does not replay on an exactly encoded sheet`);
       return {
         ...head,
         status: 'undecided',
