@@ -27,7 +27,8 @@ export function navFor(role: Role): NavItem[] {
   if (role === 'trainer' || role === 'admin') items.push({ href: '/cohorts', label: 'Cohorts', icon: 'cohorts' });
   if (role === 'student') items.push({ href: '/drills', label: 'Drills', icon: 'drills' }, { href: '/runs', label: 'Runs', icon: 'runs' });
   if (role === 'trainer') items.push({ href: '/drills', label: 'Drills', icon: 'drills' }, { href: '/gradebook', label: 'Gradebook', icon: 'gradebook' });
-  if (role === 'lead' || role === 'trainer') items.push({ href: '/changeovers', label: 'Changeovers', icon: 'changeovers' });
+  // The admin reads every changeover and may countersign one.
+  if (role !== 'student') items.push({ href: '/changeovers', label: 'Changeovers', icon: 'changeovers' });
   if (role === 'admin') {
     items.push({ href: '/admin/users', label: 'Users', icon: 'users' });
     items.push({ href: '/admin/mailbox', label: 'Mailbox', icon: 'mailbox' });

@@ -252,9 +252,10 @@ function SignOffSection({ co, abilities, me }: { co: Changeover; abilities: Chan
       {blockers === null ? (
         <p className="text-sm text-slate-500">{evidence.error ? `The evidence could not be read: ${evidence.error.message}` : 'Reading the evidence…'}</p>
       ) : ready ? (
-        <p className="flex items-center gap-1 text-sm text-accent-900" data-testid="signoff-ready">
-          <CheckCircle2 aria-hidden className="h-4 w-4" /> Ready to sign: every proof on <span className="font-mono">v{pinned.proposedVersion}</span> is proved or
-          accepted with a reason, and every changed scenario outcome is accepted.
+        <p className="text-sm text-accent-900" data-testid="signoff-ready">
+          <CheckCircle2 aria-hidden className="mr-1 inline h-4 w-4 align-[-3px]" />
+          Ready to sign: every proof on <span className="font-mono">v{pinned.proposedVersion}</span> is proved or accepted with a reason, and every changed scenario
+          outcome is accepted.
         </p>
       ) : (
         <div className="rounded-md border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-950" data-testid="signoff-blockers">

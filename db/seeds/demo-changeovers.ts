@@ -51,9 +51,9 @@ export function demoChangeoverProposal(base: CellDocument): CellDocument {
   p.field.push({ id: 'rearGuard', type: 'guard-switch', label: 'Rear guard door', contact: 'NC' });
   p.wiring.push({ id: 'w-rear-guard', from: { device: 'rearGuard', terminal: 'contact' }, to: { plc: '%IX0.7' } });
   sheet.blocks.push(
-    { id: 'rearGuardOk', type: 'NO_CONTACT', position: { x: 0, y: 30 }, params: { address: '%IX0.7' }, label: 'Rear guard closed' },
-    { id: 'guardsClosed', type: 'AND', position: { x: 300, y: 60 }, params: { inputs: 2 }, label: 'Both guards closed' },
-    { id: 'rearGuardOpen', type: 'NC_CONTACT', position: { x: 0, y: 770 }, params: { address: '%IX0.7' }, label: 'Rear guard open' },
+    { id: 'rearGuardOk', type: 'NO_CONTACT', position: { x: -220, y: 60 }, params: { address: '%IX0.7' }, label: 'Rear guard closed' },
+    { id: 'guardsClosed', type: 'AND', position: { x: 160, y: 105 }, params: { inputs: 2 }, label: 'Both guards closed' },
+    { id: 'rearGuardOpen', type: 'NC_CONTACT', position: { x: -220, y: 770 }, params: { address: '%IX0.7' }, label: 'Rear guard open' },
   );
   sheet.connections.push(
     { id: 'c6g1', from: { block: 'guardOk', port: 'Q' }, to: { block: 'guardsClosed', port: 'IN1' } },

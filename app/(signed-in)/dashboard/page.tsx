@@ -13,6 +13,8 @@ import { recentAudit } from '@/db/audit';
 import type { AuditEntry } from '@/db/audit';
 import { countMail } from '@/db/mail';
 import { MyDrillsTable } from '@/components/drills/my-drills';
+import { ChangeoversCard } from '@/components/changeovers/dashboard-card';
+import { listChangeoversFor } from '@/db/changeovers';
 import { ListTable } from '@/components/ui/list-table';
 
 export const metadata: Metadata = { title: 'Dashboard · Cellwright' };
@@ -147,7 +149,7 @@ async function TrainerSection({ user }: { user: User }) {
 }
 
 async function LeadSection({ user }: { user: User }) {
-  const events = await recentAudit(10, user.id);
+  const [events, changeovers] = await Promise.all([recentAudit(10, user.id), listChangeoversFor(user)]);
   return (
     <>
       <Card title="Your plant">
@@ -157,6 +159,7 @@ async function LeadSection({ user }: { user: User }) {
         </p>
         <SafetyCaution compact className="mt-4" />
       </Card>
+      <ChangeoversCard changeovers={changeovers} />
       <Card title="Account activity">
         <AuditList entries={events} empty="No security events for your account." />
       </Card>
