@@ -61,6 +61,7 @@ export async function drillRegradeJob(payload: unknown, ctx: JobContext): Promis
     }
     await ctx.reportProgress(i + 1, runs.length, `Run ${i + 1} of ${runs.length} (${run.userName})`);
   }
+  if (runs.length > 0) await ctx.reportProgress(runs.length, runs.length, `Checked ${runs.length} run${runs.length === 1 ? '' : 's'}: ${report.matched} matched`);
   report.checkedAt = new Date().toISOString();
   return report;
 }
