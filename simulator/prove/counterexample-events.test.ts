@@ -33,7 +33,7 @@ describe('counterexample events', () => {
       { t: 10, event: { type: 'force', target: '%IX0.2', value: 0 } },
       { t: 10, event: { type: 'force', target: '%IX0.1', value: 1 } },
     ]);
-    // The starter cell scans every 10 ms; scan 1 runs at 20 ms.
+    // The starter cell scans every 10 ms (simulator/demo/starter.ts); scan 1 runs at 20 ms.
     expect(counterexampleFailsAtMs(cex, cell as { plc: { sheet: { scanPeriodMs: number } } })).toBe(20);
   });
 

@@ -3,6 +3,12 @@
  * counterexample) and their corrected versions (proved); block semantics at the
  * boundaries; abstractions; limits; invalid input. Expected values are derived in the
  * comments from the cited rule, never read back from the prover.
+ *
+ * Block semantics cite IEC 61131-3 Ed. 2 (2003), 2.5.2.3 "Standard function blocks"
+ * (table numbers from memory, as in simulator/plc/blocks.test.ts): Table 34 bistables,
+ * Table 35 edge detection, Table 36 counters, Table 37 and Figure 15 timers. NC stop and
+ * e-stop circuits, and a guard switch that is on while the guard is shut, are common
+ * practice (DESIGN.md, "The job, in the trade's own terms").
  */
 import { describe, expect, it } from 'vitest';
 import { starterCell } from '@/simulator/demo';
@@ -34,7 +40,7 @@ describe('guard bypassed by a latch', () => {
     if (v.status !== 'violated') return;
     // Scan 0 can only set the latch with the guard shut (S1 = start AND guard), so the
     // earliest break is scan 1: guard open, stop not pressed (the NC stop input on, so R
-    // is off) and the latch holds — SR keeps Q1 while R is off (IEC 61131-3 SR:
+    // is off) and the latch holds — SR keeps Q1 while R is off (IEC 61131-3 Table 34 SR:
     // Q1 := S1 OR (NOT R AND Q1)). At scan 0 stop may read off: SR is set-dominant.
     expect(v.counterexample.failsAtScan).toBe(1);
     expect(inputsOf(v, ['%IX0.0', '%IX0.1', '%IX0.2'])).toEqual([
@@ -75,7 +81,7 @@ describe('block semantics the proof must follow', () => {
       wire('count', 'Q', 'full', 'IN'),
     ]);
     const v = prove1(sheet, neverOn('full', '%QX0.0'));
-    // IEC 61131-3 CTU counts rising edges of CU: three edges need CU on, off, on, off, on.
+    // IEC 61131-3 Table 36 CTU counts rising edges of CU: three edges need CU on, off, on, off, on.
     expect(inputsOf(v, ['%IX0.0'])).toEqual([[1], [0], [1], [0], [1]]);
     expect(v.exact).toBe(true);
     expect(v.encoding.map((n) => [n.block, n.treatment])).toEqual([['count', 'exact']]);
@@ -91,7 +97,7 @@ describe('block semantics the proof must follow', () => {
       ],
       [wire('up', 'Q', 'count', 'CU'), wire('down', 'Q', 'count', 'CD'), wire('count', 'QU', 'high', 'IN'), wire('count', 'QD', 'low', 'IN')],
     );
-    // IEC 61131-3 CTUD: up edges at scans 0 and 2 (CD off) give CV 2 = PV at scan 2.
+    // IEC 61131-3 Table 36 CTUD: up edges at scans 0 and 2 (CD off) give CV 2 = PV at scan 2.
     expect(inputsOf(prove1(sheet, neverOn('high', '%QX0.0')), ['%IX0.0', '%IX0.1'])).toEqual([
       [1, 0],
       [0, 0],
@@ -111,9 +117,9 @@ describe('block semantics the proof must follow', () => {
       ],
       [wire('clk', 'Q', 'rise', 'CLK'), wire('clk', 'Q', 'fall', 'CLK'), wire('rise', 'Q', 'rq', 'IN'), wire('fall', 'Q', 'fq', 'IN')],
     );
-    // IEC 61131-3 R_TRIG: Q := CLK AND NOT M with M initially FALSE: the pulse comes the scan CLK turns on, scan 0 included.
+    // IEC 61131-3 Table 35 R_TRIG: Q := CLK AND NOT M with M initially FALSE: the pulse comes the scan CLK turns on, scan 0 included.
     expect(prove1(sheet, { id: 'r', title: '', kind: 'within', after: on('%IX0.0'), expect: on('%QX0.0'), scans: 0 }).status).toBe('proved');
-    // F_TRIG: Q := NOT CLK AND NOT M, M initially FALSE: an off CLK in the first scan pulses.
+    // Table 35 F_TRIG: Q := NOT CLK AND NOT M, M initially FALSE: an off CLK in the first scan pulses.
     const f = prove1(sheet, neverOn('f', '%QX0.1'));
     expect(inputsOf(f, ['%IX0.0'])).toEqual([[0]]);
     // A held CLK never pulses again: after the first scan, Q only on the scan CLK turns on.
@@ -125,7 +131,7 @@ describe('block semantics the proof must follow', () => {
       wire('delay', 'Q', 'motor', 'IN'),
     ]);
     const rule = (scans: number): InterlockRuleInput => ({ id: `off${scans}`, title: '', kind: 'within', after: off('%IX0.0'), expect: off('%QX0.0'), scans });
-    // IEC 61131-3 TOF: Q follows IN up at once.
+    // IEC 61131-3 Figure 15 c (TOF): Q follows IN up at once.
     expect(prove1(sheet, { id: 'up', title: '', kind: 'never', what: off('%QX0.0'), while: on('%IX0.0') }).status).toBe('proved');
     // Q stays on until ET reaches PT; ET is 0 the scan IN falls and grows by the scan period
     // after (simulator/plc/api.ts), so Q is on for that scan and the next four, off at the fifth.
@@ -149,9 +155,9 @@ describe('block semantics the proof must follow', () => {
       ],
       [wire('x', 'Q', 'on', 'IN'), wire('x', 'Q', 'pulse', 'IN'), wire('on', 'Q', 'q0', 'IN'), wire('pulse', 'Q', 'q1', 'IN')],
     );
-    // IEC 61131-3 TON: ET 0, 10, 20, 30 ms over four scans of IN on; Q at ET = PT, so first at scan 3.
+    // IEC 61131-3 Figure 15 a (TON): ET 0, 10, 20, 30 ms over four scans of IN on; Q at ET = PT, so first at scan 3.
     expect(inputsOf(prove1(sheet, neverOn('ton', '%QX0.0')), ['%IX0.0'])).toEqual([[1], [1], [1], [1]]);
-    // IEC 61131-3 TP: a 20 ms pulse lasts two scans whatever IN does, so Q is never on three scans running.
+    // IEC 61131-3 Figure 15 b (TP): a 20 ms pulse lasts two scans whatever IN does, so Q is never on three scans running.
     const tp: InterlockRuleInput = { id: 'tp', title: '', kind: 'within', after: on('%QX0.1'), expect: off('%QX0.1'), scans: 2, trigger: 'rises' };
     expect(prove1(sheet, tp).status).toBe('proved');
     // Within 1 scan: the pulse starts at scan 0 and is still on at scan 1.
@@ -188,7 +194,7 @@ describe('abstractions and limits', () => {
       wire('x', 'Q', 'slow', 'IN'),
       wire('slow', 'Q', 'q', 'IN'),
     ]);
-    // 600 s at 10 ms is 60,000 scans, past the default horizon: TON is abstracted, but its Q is still only on with IN on (IEC 61131-3 TON).
+    // 600 s at 10 ms is 60,000 scans, past the default horizon: TON is abstracted, but its Q is still only on with IN on (IEC 61131-3 Figure 15 a).
     const v = prove1(sheet, { id: 'ton', title: '', kind: 'only-if', what: on('%QX0.0'), requires: [on('%IX0.0')] });
     expect(v.status).toBe('proved');
     expect(v.exact).toBe(false);

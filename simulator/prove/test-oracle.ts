@@ -68,7 +68,7 @@ type Concrete = { plc: PlcState; Q: number; M: number; mons: Mon[] };
 /** Per rule: the first violating scan, or null; `levels`: how many scans deep every run was explored. */
 type OracleResult = { violatedAt: (number | null)[]; complete: boolean; levels: number };
 const MAX_LEVEL = 20;
-const MAX_SCANS = 30_000;
+const MAX_SCANS = 20_000;
 const FROZEN: Mon = [0, -2];
 
 type WatchBits = [area: 'I' | 'Q' | 'M', byte: number, bit: number][];
