@@ -59,9 +59,17 @@ export async function demoUser(email: string): Promise<User> {
   return user;
 }
 
+/**
+ * One hash per distinct password, shared by the accounts a test file makes: a hash at the
+ * production cost takes about 0.4 s (lib/password.ts), and tests make many accounts. Sharing a
+ * salt between test accounts changes nothing they check.
+ */
+const hashes = new Map<string, Promise<string>>();
+
 /** A fresh account of the given role, for tests that change or disable accounts. */
 export async function makeUser(role: Role, password = 'correct-horse-battery'): Promise<User> {
-  return createUser({ email: uniqueEmail(role), name: `Test ${role}`, role, passwordHash: await hashPassword(password) });
+  if (!hashes.has(password)) hashes.set(password, hashPassword(password));
+  return createUser({ email: uniqueEmail(role), name: `Test ${role}`, role, passwordHash: await hashes.get(password)! });
 }
 
 /** A second trainer with a cohort of their own: the "another owner" of the matrix. */
