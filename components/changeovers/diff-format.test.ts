@@ -21,6 +21,12 @@ describe('changeover diff wording', () => {
     expect(sideLines(e, 'proposed')).toEqual(['guard-switch “Rear guard door” (NC)']);
   });
 
+  it('shows an added setting by its field, not as an empty thing', () => {
+    const e = entry('cell', 'initial.devices.rearGuard.guardClosed');
+    expect(sideLines(e, 'base')).toEqual([]);
+    expect(sideLines(e, 'proposed')).toEqual(['initial devices rearGuard guardClosed: yes']);
+  });
+
   it('shows a changed parameter and a re-pointed wire field by field', () => {
     expect(sideLines(entry('logic', 'yellowNeeded'), 'base')).toEqual(['inputs: 2']);
     expect(sideLines(entry('logic', 'yellowNeeded'), 'proposed')).toEqual(['inputs: 3']);

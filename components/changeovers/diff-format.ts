@@ -144,8 +144,9 @@ export function bindingText(b: RoleBinding | undefined): string {
 
 /** What one side holds for an entry, as lines (empty when the thing does not exist on that side). */
 export function sideLines(entry: DiffEntry, side: 'base' | 'proposed'): string[] {
-  if (entry.kind === 'added') return side === 'base' ? [] : [thingText(entry.target, entry.value)];
-  if (entry.kind === 'removed') return side === 'proposed' ? [] : [thingText(entry.target, entry.value)];
+  // A whole thing added or removed carries its value; an added or removed setting only its field change.
+  if (entry.kind === 'added' && (entry.value !== undefined || side === 'base')) return side === 'base' ? [] : [thingText(entry.target, entry.value)];
+  if (entry.kind === 'removed' && (entry.value !== undefined || side === 'proposed')) return side === 'proposed' ? [] : [thingText(entry.target, entry.value)];
   if (entry.target === 'role') return [bindingText(side === 'base' ? entry.was : entry.now)];
   if (entry.kind === 'reordered') {
     const i = side === 'base' ? entry.baseIndex : entry.proposedIndex;

@@ -163,3 +163,28 @@ test('the lead diffs, proves, signs and rolls back the demo changeover; a second
   await expect(lead.getByTestId('changeover-history')).toContainText('rolled back: v3 restores base v1');
   await shot(lead, 'changeover-rolled-back');
 });
+
+test('a trainer opens a changeover on a cell of their own for a class, and abandons it', async ({ browser }) => {
+  const trainer = await pageFor(browser, DEMO.trainer);
+  await mainNav(trainer).getByRole('link', { name: 'Changeovers' }).click();
+  await trainer.getByTestId('open-changeover').click();
+  const dialog = trainer.getByRole('dialog', { name: 'Open a changeover' });
+  await dialog.getByLabel('Cell').selectOption({ label: 'Harbourside Cell B — pick and place' });
+  await expect(dialog.getByLabel('Base — the version that runs today')).toHaveValue('1');
+  await dialog.getByLabel('Title').fill('Class example: lengthen the start pulse');
+  await dialog.getByLabel('What changes and why').fill('Show the class how a parameter change reads in the diff.');
+  await shot(trainer, 'open-dialog', dialog);
+  await dialog.getByRole('button', { name: 'Open changeover' }).click();
+  await trainer.waitForURL(/\/changeovers\/[0-9a-f-]{36}$/);
+  await expect(trainer.getByRole('heading', { level: 1 })).toHaveText('Class example: lengthen the start pulse');
+  await expect(trainer.getByTestId('changeover-state').first()).toHaveText('Drafting');
+  // Nothing edited yet: nothing to pin, and the diff says so.
+  await expect(trainer.getByTestId('pin-proposal')).toBeDisabled();
+  await expect(trainer.getByTestId('proposal-section')).toContainText('still the base');
+  await trainer.getByTestId('rollback-open').click();
+  const confirm = trainer.getByRole('dialog', { name: 'Abandon this proposal?' });
+  await expect(confirm).toContainText('nothing is restored');
+  await confirm.getByTestId('rollback-confirm').click();
+  await expect(trainer.getByTestId('changeover-state').first()).toHaveText('Abandoned');
+  await expect(trainer.getByTestId('rollback-line')).toContainText('no version was needed');
+});
