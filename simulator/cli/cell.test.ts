@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -36,5 +36,32 @@ describe('headless runner', () => {
     expect(JSON.parse(fail.out).rules[0].violation.timeMs).toBeGreaterThan(0);
     expect(cli('run', ex('pick-and-place.cell.json'), '--for', 'soon').code).toBe(2);
     expect(cli('frobnicate').code).toBe(2);
+  }, 60_000);
+
+  it('prove: the demo interlocks give one violation with its replay events (exit 1) and two proofs', () => {
+    const r = cli('prove', ex('pick-and-place.cell.json'), ex('pick-and-place.interlocks.json'));
+    expect(r.code).toBe(1);
+    const body = JSON.parse(r.out) as { ok: boolean; summary: Record<string, number>; verdicts: { rule: string; status: string; events?: unknown[] }[] };
+    expect(body.summary).toEqual({ proved: 2, violated: 1, undecided: 0 });
+    const broken = body.verdicts.find((v) => v.rule === 'start-needs-guard')!;
+    // The start pulse (TP, PT 100 ms) outlives a guard opened during it: IEC 61131-3 TP keeps Q for PT whatever IN does.
+    expect(broken.status).toBe('violated');
+    expect(broken.events?.length).toBeGreaterThan(0);
+    expect(cli('prove', ex('pick-and-place.cell.json')).code).toBe(2);
+  }, 120_000);
+
+  it('diff: identical cells give an empty diff (exit 0); a proposal with another scan period names it', () => {
+    const same = cli('diff', ex('pick-and-place.cell.json'), ex('pick-and-place.cell.json'));
+    expect(same.code).toBe(0);
+    expect((JSON.parse(same.out) as { diff: { summary: { identical: boolean } } }).diff.summary.identical).toBe(true);
+    const dir = mkdtempSync(join(tmpdir(), 'cw-'));
+    const doc = JSON.parse(readFileSync(ex('pick-and-place.cell.json'), 'utf8'));
+    doc.plc.sheet.scanPeriodMs = 20;
+    writeFileSync(join(dir, 'proposed.json'), JSON.stringify(doc));
+    const changed = cli('diff', ex('pick-and-place.cell.json'), join(dir, 'proposed.json'));
+    expect(changed.code).toBe(0);
+    const diff = (JSON.parse(changed.out) as { diff: { summary: { identical: boolean; total: number } } }).diff;
+    expect(diff.summary.identical).toBe(false);
+    expect(changed.out).toContain('scanPeriodMs');
   }, 60_000);
 });
