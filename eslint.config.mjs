@@ -29,10 +29,30 @@ const engineBoundary = {
   },
 };
 
+/**
+ * The engine's one entry (shared/STYLE.md): outside simulator/, the engine is imported from
+ * `@/simulator` (simulator/index.ts) and nothing past it, so its insides can change freely.
+ */
+const engineEntry = {
+  files: ['**/*.{ts,tsx,js,mjs,cjs}'],
+  ignores: ['simulator/**'],
+  rules: {
+    'no-restricted-imports': [
+      'error',
+      {
+        patterns: [
+          { group: ['@/simulator/*', '**/simulator/*'], message: "Import the engine from '@/simulator' (simulator/index.ts) only; export what you need there." },
+        ],
+      },
+    ],
+  },
+};
+
 const config = [
   ...nextVitals,
   ...nextTs,
   engineBoundary,
+  engineEntry,
   {
     rules: {
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],

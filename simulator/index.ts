@@ -1,175 +1,206 @@
 /**
- * Cellwright's simulation engine: the one public entry. The app, the server and the headless
- * runner import from here only. Everything exported is pure TypeScript: no DOM, no wall clock,
- * no unseeded randomness; a run is reproduced exactly from its document, event log and seed.
+ * Cellwright's simulation engine: the one public entry. Nothing outside simulator/ imports past
+ * this file (ESLint `no-restricted-imports` in eslint.config.mjs). Everything here is pure
+ * TypeScript: no DOM, no wall clock, no unseeded randomness; a run is reproduced exactly from
+ * its document, event log and seed.
  *
- * Layers, bottom up: shared results → addresses and process image → electrical layer →
- * PLC (logic sheet, compiler) → controller (point map, motion, routine, machine) → cell
- * (composition on one clock) → fault cards → trace, rules, replay → demo cells.
- * Re-exported symbols carry their JSDoc from the module that defines them.
+ * The entry is small on purpose: what the app, the server, the headless runner and the
+ * benchmarks need, each with one line here and its full JSDoc where it is defined. Anything
+ * else stays inside the engine. Below the core come three blocks kept as their modules
+ * publish them: the changeover diff, the interlock prover and logic exchange.
  */
 
 // ---- results
-/** Typed results and problems with paths (see simulator/shared/result.ts). */
-export type { Problem, Result } from './shared/result';
-export { ok, fail, problem, prefixProblems } from './shared/result';
-
-// ---- addresses and process image (IEC 61131-3 direct addressing)
-export type { Address, Area, Size, ProcessImage } from './address';
-export {
-  parseAddress,
-  formatAddress,
-  addressBitSpan,
-  addressesOverlap,
-  createProcessImage,
-  cloneProcessImage,
-  readAddress,
-  writeAddress,
-  toSigned,
-  AREA_BYTES,
-} from './address';
-
-// ---- electrical layer
-export type { InputType, InputReading, ContactKind, WireCondition, SensorOutput, InputModuleKind, SignalRange, AnalogModuleSpec, Ne43Status } from './electrical';
-export {
-  IEC_61131_2_BANDS,
-  classifyDigitalInput,
-  contactClosed,
-  contactInputVolts,
-  sensorInputVoltage,
-  applyInvert,
-  SIGNAL_SPANS,
-  scaleLinear,
-  currentToEngineering,
-  voltageToEngineering,
-  engineeringToSignal,
-  signalToCounts,
-  countsToSignal,
-  ne43Status,
-  ne43Valid,
-  encodeWord,
-  decodeWord,
-} from './electrical';
-
-// ---- PLC: logic sheet, catalogue, compiler
 export type {
-  PlcState,
-  SerializedPlcState,
-  BlockOutputs,
-  OutputSlot,
-  CompiledSheet,
-  InterpretedSheet,
-  LogicSheet,
-  LogicSheetInput,
-  SheetBlock,
-  SheetConnection,
-  BlockType,
-  BlockSpec,
-  PortSpec,
-  PortType,
-  BlockGroup,
-} from './plc';
-export {
-  BLOCK_TYPES,
-  blockCatalogue,
-  blockPorts,
-  isBlockType,
-  portTypesCompatible,
-  logicSheetSchema,
-  MAX_BLOCKS,
-  MAX_CONNECTIONS,
-  validateSheet,
-  compileSheet,
-  interpretSheet,
-  clonePlcState,
-  serializePlcState,
-  deserializePlcState,
-} from './plc';
+  /** One problem in an input, located by its path inside that input (`path`, `code`, `message`, `related?`). */
+  Problem,
+  /** Success with a value, or failure with every problem found: what the engine returns instead of throwing. */
+  Result,
+} from './shared/result';
 
-// ---- cell document
+// ---- the cell document
 export type {
+  /** A validated cell document: panel, field devices, link, PLC, wiring, controller, initial state. */
   CellDocument,
+  /** One operator panel device (push button, e-stop, pilot light, potentiometer …). */
   PanelDevice,
+  /** One field device (sensors, guard switch, gripper, vacuum cup, conveyor). */
   FieldDevice,
-  Endpoint,
+  /** One terminal-strip row: a wire from a device terminal, PLC address or controller channel to another. */
   WiringRow,
-  PlcModule,
+  /** One controller I/O module in a rack and slot. */
   ControllerModule,
+  /** One point-map row: a range of logical points onto a rack / slot / first channel. */
   PointMapRow,
-  PointFamily,
+  /** One routine step of the controller (wait, set, pulse, set-word, move, pause, branch, jump, alarm). */
   RoutineStep,
-  Condition,
-  Pose,
-  Handshake,
-  ControllerConfig,
-  LinkConfig,
-  WordEncoding,
-  ChannelRef,
 } from './schema/cell-document';
 export {
-  CELL_SCHEMA_VERSION,
+  /** The zod schema of a whole cell document (shape and ranges; `validateCellDocument` adds cross-references). */
   cellDocumentSchema,
-  panelDeviceSchema,
-  fieldDeviceSchema,
-  wiringRowSchema,
-  pointMapRowSchema,
-  routineStepSchema,
-  poseSchema,
-  deviceColourSchema,
 } from './schema/cell-document';
-export { CELL_LIMITS } from './schema/limits';
-export type { TerminalSpec, TerminalKind } from './schema/terminals';
-export { deviceTerminals } from './schema/terminals';
-export type { ValidatedCell } from './schema/validate';
-export { validateCellDocument, validateStagedRows, documentTooLarge } from './schema/validate';
-export { cellJsonSchemas } from './schema/json-schema';
-
-// ---- controller
-export type { Coordinates } from './controller/motion';
-export { moveTime, isTriangular, peakSpeed, positionAtTime, speedAtTime, brakingDistance, pathLength } from './controller/motion';
-export type { PointMapState, ResolvedPoint, ResolvedPointMap, PointUse } from './controller/point-map';
 export {
-  FAMILY_MODULE_TYPE,
-  parsePointRef,
-  resolvePointMap,
-  resolveLogical,
-  resolvePhysical,
-  validatePointMap,
-  stagePointMap,
-  discardStagedPointMap,
-  restartPointMap,
-} from './controller/point-map';
-export type { Alarm, Motion, ControllerContext } from './controller/routine';
-export type { ControllerEvent, ControllerInput, ControllerStateName } from './controller/controller.machine';
-export { controllerMachine } from './controller/controller.machine';
+  /** Size limits of a cell document (devices, rows, modules, ids, texts, durations, characters per file). */
+  CELL_LIMITS,
+} from './schema/limits';
+export {
+  /** Checks a document of unknown shape: every problem with its path, or the document, compiled sheet and wiring plans. */
+  validateCellDocument,
+} from './schema/validate';
+export {
+  /** The terminals of a device by its type: name, direction (in/out) and what flows (contact, sensor, analog, load, word). */
+  deviceTerminals,
+} from './schema/terminals';
 
-// ---- cell
-export type { Cell, CellOptions } from './cell/cell';
-export { createCell } from './cell/cell';
-export type { CellEvent, DownloadEvent, LoggedEvent } from './cell/events';
-export { cellEventSchema, eventLogSchema } from './cell/events';
-export type { CellSnapshot, DeviceSnapshot, WireSnapshot, PointValue, ControllerPointSnapshot } from './cell/snapshot';
+// ---- running a cell
+export type {
+  /** A running cell: `advance`, `apply`, `snapshot`, `subscribe`, signal reads, incremental trace and log reads, `dispose`. */
+  Cell,
+} from './cell/cell';
+export {
+  /** Creates a cell from a document (plus hidden fault cards, trace signals, a seed), or every problem. */
+  createCell,
+} from './cell/cell';
+export type {
+  /** An event a cell accepts (press, release, set-field, force, download, inject-fault …). */
+  CellEvent,
+  /** The `download` event: edited logic, wiring or routine swapped into a running cell. */
+  DownloadEvent,
+  /** One entry of an event log: an event and the cell time (ms) it applied at. */
+  LoggedEvent,
+} from './cell/events';
+export {
+  /** The zod schema of one event. */
+  cellEventSchema,
+  /** The zod schema of an event log (`{ t, event }[]`). */
+  eventLogSchema,
+} from './cell/events';
+export type {
+  /** The plain, JSON-safe picture of a cell at one instant (devices, wires, PLC, link, controller, arm, faults, forces). */
+  CellSnapshot,
+} from './cell/snapshot';
+export {
+  /** The next instant a subsystem with the given period is due after a time (the "step one scan" arithmetic). */
+  nextScanMs,
+} from './cell/clock';
+export {
+  /** Every signal name a cell made from a document exposes, without building the cell. */
+  signalNamesOf,
+} from './cell/signal-names';
+export {
+  /** Applies a log to a cell at its events' times and runs on to a time; an optional `stop` check ends it early (budgets). */
+  applyLog,
+  /** A whole replay in one call: a fresh cell, its log, a time → trace, hash, snapshot, log. */
+  replay,
+} from './trace/replay';
 
 // ---- fault cards
-export type { FaultCard, FaultKind, SignalPredicate } from './faults/fault-card';
-export { faultCardSchema, signalPredicateSchema, FAULT_KINDS, FAULT_SYMPTOMS } from './faults/fault-card';
+export type {
+  /** An injectable fault: kind, target, and when it fires (`at`, `when` or at once). */
+  FaultCard,
+  /** A fault card's kind (stuck-on, open-wire, dead-module, …). */
+  FaultKind,
+  /** A condition over named signals (`{ signal, op, value }`, `all`, `any`, `not`), for triggers and rules. */
+  SignalPredicate,
+} from './faults/fault-card';
+export {
+  /** The zod schema of a fault card. */
+  faultCardSchema,
+  /** Every fault kind, in catalogue order. */
+  FAULT_KINDS,
+  /** What a technician sees for each fault kind. */
+  FAULT_SYMPTOMS,
+} from './faults/fault-card';
 
-// ---- trace, rules, replay
-export type { Trace, TraceRecorder } from './trace/trace';
-export { hashTrace, valuesAt, createTraceRecorder } from './trace/trace';
-export { fnv1a64 } from './trace/hash';
-export type { SignalValue, CompiledPredicate } from './trace/predicate';
-export { compilePredicate, predicateSignals } from './trace/predicate';
-export type { Rule, RuleResult } from './trace/rules';
-export { ruleSchema, rulesSchema, checkRules, ruleSignals } from './trace/rules';
-export type { ReplayResult } from './trace/replay';
-export { replay } from './trace/replay';
+// ---- traces and rules
+export type {
+  /** A compact, change-only trace: signal names, `[timeMs, signalIndex, value]` samples, end time. */
+  Trace,
+} from './trace/trace';
+export {
+  /** The stable hash of a trace (FNV-1a 64 of its canonical JSON). */
+  hashTrace,
+} from './trace/trace';
+export {
+  /** Compiles a signal predicate against the names a cell knows: a reader-driven test, or every unknown name as a problem. */
+  compilePredicate,
+} from './trace/predicate';
+export type {
+  /** A rule over a trace: never P, always P, after E within T ms P, within T ms eventually P. */
+  Rule,
+} from './trace/rules';
+export {
+  /** The zod schema of one rule. */
+  ruleSchema,
+  /** The zod schema of a list of rules. */
+  rulesSchema,
+  /** The signals a rule reads (they must be in the trace). */
+  ruleSignals,
+  /** Checks rules over a trace: pass, fail (with the first violation) or inconclusive, per rule. */
+  checkRules,
+} from './trace/rules';
+
+// ---- the PLC's logic sheet
+export type {
+  /** A logic sheet as written in a document (defaults may be omitted). */
+  LogicSheetInput,
+  /** A block type name (TON, CTU, NO_CONTACT, …). */
+  BlockType,
+  /** One typed input or output port of a block. */
+  PortSpec,
+} from './plc/api';
+export {
+  /** Every block type's ports, default parameters, group and one-line summary. */
+  blockCatalogue,
+  /** The ports of a configured block (variadic logic blocks get IN1..INn from their parameters). */
+  blockPorts,
+  /** True when a string names a block type. */
+  isBlockType,
+  /** Whether an output of one port type may drive an input of another. */
+  portTypesCompatible,
+} from './plc/catalogue';
+export {
+  /** Checks a logic sheet on its own (shape, addresses, wiring, port types, loops): every problem with its path. */
+  validateSheet,
+} from './plc/validate';
+export {
+  /** Compiles a logic sheet to straight-line JavaScript that scans a process image. */
+  compileSheet,
+} from './plc/compile';
+export {
+  /** Parses an IEC 61131-3 direct address (`%IX0.4`, `%QW2`, `%MX5.0`). */
+  parseAddress,
+  /** Writes an address in its canonical text. */
+  formatAddress,
+} from './address/address';
+export {
+  /** A zeroed I/Q/M process image, as a compiled sheet scans it. */
+  createProcessImage,
+} from './address/process-image';
+
+// ---- the controller's point map
+export {
+  /** The module type that can carry each point family (WI/WO are grouped bits on digital modules). */
+  FAMILY_MODULE_TYPE,
+  /** Splits a point reference (`DI3`) into family, index and whether the controller reads it. */
+  parsePointRef,
+  /** Channels one point of a row occupies (1, or `bits` for word points). */
+  channelsPerPoint,
+  /** Resolves point-map rows into logical → physical (`byRef`) and physical → logical lookups. */
+  resolvePointMap,
+  /** Checks point-map rows against the modules and the points in use: every problem with the rows involved. */
+  validatePointMap,
+} from './controller/point-map';
 
 // ---- demo cells
-export type { CellDocumentInput } from './demo';
-export { pickAndPlaceCell, starterCell, demoCells } from './demo';
-/** The model debounce fix of the pick-and-place part input (a logic sheet to download) and its presets. */
-export { pickAndPlaceDebouncedSheet, PART_DEBOUNCE_MS } from './demo';
+export {
+  /** The pick-and-place demo cell (an invented scenario). */
+  pickAndPlaceCell,
+  /** The starter cell new documents begin from. */
+  starterCell,
+  /** The model debounce fix of the pick-and-place part input: a logic sheet to download. */
+  pickAndPlaceDebouncedSheet,
+} from './demo';
 
 // ---- diff (changeover: base vs proposed cell document)
 /**

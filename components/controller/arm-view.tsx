@@ -6,7 +6,9 @@
  * animation follows the engine's move times exactly.
  */
 import { useMemo } from 'react';
-import type { Pose } from '@/simulator';
+import type { CellDocument } from '@/simulator';
+
+type Pose = CellDocument['controller']['poses'][number];
 import { useSnapshot, shallowEqual } from '@/components/workspace/contract';
 import { armGeometry, fitView, labelPlacement } from './arm-geometry';
 

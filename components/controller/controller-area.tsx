@@ -6,8 +6,7 @@
  */
 import { useCallback, useMemo } from 'react';
 import { Power } from 'lucide-react';
-import type { PointMapRow, Pose, RoutineStep } from '@/simulator';
-import { INPUT_FAMILIES, parsePointRef, resolvePointMap } from '@/simulator/controller/point-map';
+import { parsePointRef, resolvePointMap, type CellDocument, type PointMapRow, type RoutineStep } from '@/simulator';
 import { useCanEdit, useCellDocument, useEditDocument, useSendEvent, useSnapshot, shallowEqual } from '@/components/workspace/contract';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/components/ui/cn';
@@ -179,7 +178,7 @@ export default function ControllerArea() {
     const refs = [...resolvePointMap(live).byRef.keys()];
     const isInput = (r: string) => {
       const p = parsePointRef(r);
-      return p ? INPUT_FAMILIES.has(p.family) : false;
+      return p ? p.input : false;
     };
     return { inputs: refs.filter(isInput), outputs: refs.filter((r) => !isInput(r)) };
   }, [live]);
@@ -192,7 +191,7 @@ export default function ControllerArea() {
     [editDocument],
   );
   const setPoses = useCallback(
-    (poses: Pose[], label: string) =>
+    (poses: CellDocument['controller']['poses'], label: string) =>
       editDocument((d) => {
         d.controller.poses = poses;
       }, label),

@@ -8,7 +8,7 @@
  * - conflict: the row, as it would run after the restart, clashes with another row or with
  *   the modules; the engine refuses to stage such a map, so restart stays blocked.
  */
-import { validatePointMap, channelsPerPoint, FAMILY_MODULE_TYPE } from '@/simulator/controller/point-map';
+import { validatePointMap, channelsPerPoint, FAMILY_MODULE_TYPE } from '@/simulator';
 import type { ControllerModule, PointMapRow } from '@/simulator';
 
 export type RowState = 'live' | 'staged' | 'conflict';

@@ -7,7 +7,9 @@
  */
 import { useMemo } from 'react';
 import { Plus, RotateCcw, Trash2, Undo2 } from 'lucide-react';
-import type { ControllerModule, PointFamily, PointMapRow } from '@/simulator';
+import type { ControllerModule, PointMapRow } from '@/simulator';
+
+type PointFamily = PointMapRow['family'];
 import { Button } from '@/components/ui/button';
 import { cn } from '@/components/ui/cn';
 import { canApplyStaged, pointMapView, rowChannels, channelRange, type RowState } from './point-map-state';

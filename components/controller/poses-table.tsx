@@ -1,7 +1,9 @@
 'use client';
 /** The taught poses: coordinates per axis, speed and acceleration limits; add and remove. */
 import { Plus, Trash2 } from 'lucide-react';
-import type { Pose } from '@/simulator';
+import type { CellDocument } from '@/simulator';
+
+type Pose = CellDocument['controller']['poses'][number];
 import { NumberCell } from './number-cell';
 
 function Cell(props: { label: string; value: number; min: number; max: number; disabled: boolean; exclusiveMin?: boolean; onCommit(v: number): void }) {

@@ -9,7 +9,7 @@ import type { ControllerModule, PointMapRow } from '@/simulator';
 import { useSnapshot, shallowEqual } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { rowChannels } from './point-map-state';
-import { channelsPerPoint } from '@/simulator/controller/point-map';
+import { channelsPerPoint } from '@/simulator';
 
 const FAMILY_OF_TYPE: Record<ControllerModule['type'], string> = {
   'digital-in': 'DI',

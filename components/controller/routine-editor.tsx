@@ -5,7 +5,9 @@
  */
 import { useState } from 'react';
 import { ArrowDown, ArrowUp, Plus, Trash2 } from 'lucide-react';
-import type { Condition, RoutineStep } from '@/simulator';
+import type { RoutineStep } from '@/simulator';
+
+type Condition = Extract<RoutineStep, { kind: 'wait' }>['condition'];
 import { useSnapshot } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { defaultStep, moveStep, STEP_KINDS, STEP_KIND_WORDS, type StepKind } from './routine-steps';

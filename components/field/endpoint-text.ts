@@ -3,7 +3,9 @@
  * `start:contact` (device terminal), `%IX0.0` (PLC direct address), `R0.S1.C4` (controller
  * rack / slot / channel, channels from 0).
  */
-import type { Endpoint } from '@/simulator';
+import type { WiringRow } from '@/simulator';
+
+type Endpoint = WiringRow['from'];
 
 /** An endpoint as text. */
 export function endpointText(e: Endpoint): string {

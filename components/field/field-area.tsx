@@ -2,7 +2,10 @@
 import { useState } from 'react';
 import { AlertTriangle, Plus, Trash2 } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
-import type { DeviceSnapshot, WireSnapshot, FieldDevice, WiringRow } from '@/simulator';
+import type { CellSnapshot, FieldDevice, WiringRow } from '@/simulator';
+
+type DeviceSnapshot = CellSnapshot['devices'][number];
+type WireSnapshot = CellSnapshot['wires'][number];
 import { shallowEqual, useEditDocument, useSelection, useSendEvent, useSnapshot, useWorkspace, type Problem } from '@/components/workspace/contract';
 import { StateMark } from '@/components/panel/panel-device';
 import { endpointText, parseEndpoint } from './endpoint-text';

@@ -8,7 +8,9 @@
 import { memo } from 'react';
 import { Handle, Position, type Node, type NodeProps } from '@xyflow/react';
 import { AlertTriangle, RefreshCcw } from 'lucide-react';
-import { blockCatalogue, isBlockType, type PortSpec, type PortType, type Problem } from '@/simulator';
+import { blockCatalogue, isBlockType, type PortSpec, type Problem } from '@/simulator';
+
+type PortType = PortSpec['type'];
 import { useSnapshot } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { formatLiveValue, portsOf, type Block } from './sheet-graph';

@@ -6,7 +6,9 @@
  */
 import { memo } from 'react';
 import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, type Edge, type EdgeProps } from '@xyflow/react';
-import type { PortType } from '@/simulator';
+import type { PortSpec } from '@/simulator';
+
+type PortType = PortSpec['type'];
 import { useSnapshot } from '@/components/workspace/contract';
 import { formatLiveValue } from './sheet-graph';
 

@@ -2,7 +2,9 @@
 import { useRef, useState, type KeyboardEvent, type PointerEvent } from 'react';
 import { Plus, Trash2 } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
-import type { PanelDevice, DeviceSnapshot } from '@/simulator';
+import type { CellSnapshot, PanelDevice } from '@/simulator';
+
+type DeviceSnapshot = CellSnapshot['devices'][number];
 import { shallowEqual, useEditDocument, useSelection, useSnapshot, useWorkspace } from '@/components/workspace/contract';
 import { PanelDeviceView } from './panel-device';
 import { useRelated } from '@/components/workspace/use-related';

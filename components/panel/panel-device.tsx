@@ -1,7 +1,9 @@
 'use client';
 import { useRef, type KeyboardEvent, type PointerEvent } from 'react';
 import { cn } from '@/components/ui/cn';
-import type { DeviceSnapshot, PanelDevice } from '@/simulator';
+import type { CellSnapshot, PanelDevice } from '@/simulator';
+
+type DeviceSnapshot = CellSnapshot['devices'][number];
 import { useSendEvent } from '@/components/workspace/contract';
 import { CAP, COLOUR_MEANING, type DeviceColour } from './colours';
 

@@ -4,7 +4,7 @@
  * events applied at their times. Forward moves advance the same cell; a move back rebuilds it
  * from time 0 (a cell's clock only runs forward), which the deterministic engine makes exact.
  */
-import { createCell, type Cell, type CellSnapshot, type FaultCard, type LoggedEvent, type Problem } from '@/simulator';
+import { applyLog, createCell, signalNamesOf, type Cell, type CellSnapshot, type FaultCard, type LoggedEvent, type Problem } from '@/simulator';
 import type { TraceChunk } from '@/components/workspace/engine-protocol';
 
 export type ReplaySource = {
@@ -29,8 +29,8 @@ export type Replay = {
 };
 
 /** The scope's signals of a cell, as the worker names them (PLC addresses and controller points). */
-function scopeSignals(cell: Cell): string[] {
-  return cell.signalNames().filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
+function scopeSignals(names: readonly string[]): string[] {
+  return names.filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
 }
 
 /**
@@ -39,32 +39,42 @@ function scopeSignals(cell: Cell): string[] {
  */
 export function createReplay(src: ReplaySource): { ok: true; value: Replay } | { ok: false; errors: Problem[] } {
   const options = (trace: string[]) => ({ trace, seed: src.seed, faults: src.faults ? [...src.faults] : [] });
-  const probe = createCell(src.document, options([]));
-  if (!probe.ok) return probe;
-  const signals = scopeSignals(probe.value);
-  probe.value.dispose();
+  const names = signalNamesOf(src.document);
+  if (!names.ok) return names;
+  const signals = scopeSignals(names.value);
   const events = [...src.events].sort((a, b) => a.t - b.t);
 
   let cell: Cell;
   let next = 0;
   let traceSent = 0;
   let reset = true;
-  const build = () => {
+  const build = (): Problem[] | null => {
     const made = createCell(src.document, options(signals));
-    if (!made.ok) throw new Error(made.errors.map((p) => p.message).join('; '));
+    if (!made.ok) return made.errors;
     cell = made.value;
     next = 0;
     traceSent = 0;
     reset = true;
+    return null;
   };
-  build();
+  // The options (seed, fault cards) are checked here, once: a later rebuild makes the same cell.
+  const built = build();
+  if (built) return { ok: false, errors: built };
 
   const runTo = (t: number) => {
-    while (next < events.length && events[next].t <= t) {
-      const e = events[next++];
-      if (e.t > cell.timeMs) cell.advance(e.t - cell.timeMs);
-      // A stored event the cell refused live was never stored; one refused here changes nothing either.
-      cell.apply(e.event);
+    let end = next;
+    while (end < events.length && events[end].t <= t) end++;
+    // The engine's replay loop, as the server's: events at their times, then on to t. A stored
+    // event the cell refused live was never stored; one refused here (a log that no longer fits
+    // its cell) is skipped and the rest applied, as it changed nothing.
+    while (next < end) {
+      const r = applyLog(cell, events.slice(next, end), t);
+      if (r.ok) {
+        next = end;
+        break;
+      }
+      const at = r.errors[0]?.path[1];
+      next += (typeof at === 'number' ? at : end - next - 1) + 1;
     }
     if (t > cell.timeMs) cell.advance(t - cell.timeMs);
   };
@@ -81,9 +91,9 @@ export function createReplay(src: ReplaySource): { ok: true; value: Replay } | {
         build();
       }
       runTo(t);
-      const tr = cell.trace();
-      const fresh = tr.samples.slice(traceSent).map(([s, i, v]) => [s, i, typeof v === 'number' ? v : Number(v) || 0] as [number, number, number]);
-      traceSent = tr.samples.length;
+      const tr = cell.traceSince(traceSent);
+      const fresh = tr.samples.map(([s, i, v]) => [s, i, typeof v === 'number' ? v : Number(v) || 0] as [number, number, number]);
+      traceSent = tr.next;
       const chunk: TraceChunk = { reset, signals: reset ? signals.map((n) => n.replace(/^(plc|ctl)\./, '')) : [], samples: fresh };
       reset = false;
       return { snapshot: cell.snapshot(), trace: chunk };

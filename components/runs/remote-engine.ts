@@ -15,7 +15,7 @@
  * reload of the document is acknowledged and otherwise ignored (`keepsRunOnEdit`); an edit of
  * an editable area reaches the server as a `download` event ("Download to PLC").
  */
-import type { CellEvent, CellSnapshot, LoggedEvent } from '@/simulator';
+import { nextScanMs, type CellEvent, type CellSnapshot, type LoggedEvent } from '@/simulator';
 import type { EngineConnection, EngineFactory, EngineSink } from '@/components/workspace/store';
 import type { TraceChunk } from '@/components/workspace/engine-protocol';
 import { createBatchSender, type BatchSender, type SenderClock, type SenderState } from './batch-sender';
@@ -285,7 +285,7 @@ export function createRemoteRun(opts: RemoteRunOptions): RemoteRun {
       stepScan() {
         setRunning(false);
         const t = cellTime();
-        const next = (Math.floor(t / scanPeriodMs) + 1) * scanPeriodMs;
+        const next = nextScanMs(t, scanPeriodMs);
         baseMs = opts.timeLimitMs !== null ? Math.min(next, opts.timeLimitMs) : next;
         dirty = true;
         sender?.advanceTo(baseMs);

@@ -3,7 +3,7 @@
  * or as fast as possible, applies events, and posts snapshots no faster than the main thread
  * draws them. Kept free of `self` so it runs under vitest with a fake clock.
  */
-import { createCell, type Cell, type CellDocument } from '@/simulator';
+import { createCell, nextScanMs, signalNamesOf, type Cell, type CellDocument } from '@/simulator';
 import type { RunSpeed } from './contract';
 import { MAX_SNAPSHOTS_PER_SECOND, MAX_SPEED_CHUNK_MS, MAX_SPEED_SLICE_MS, type FromEngine, type ToEngine } from './engine-protocol';
 
@@ -41,12 +41,13 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
 
   const postSnapshot = () => {
     if (!cell) return;
-    const tr = cell.trace();
-    const fresh = tr.samples.slice(traceSent).map(([t, i, v]) => [t, i, typeof v === 'number' ? v : Number(v) || 0] as [number, number, number]);
-    traceSent = tr.samples.length;
+    // Only the samples recorded since the last post cross to the main thread.
+    const tr = cell.traceSince(traceSent);
+    const fresh = tr.samples.map(([t, i, v]) => [t, i, typeof v === 'number' ? v : Number(v) || 0] as [number, number, number]);
+    traceSent = tr.next;
     const trace = { reset: traceReset, signals: traceReset ? traceSignals : [], samples: fresh };
     traceReset = false;
-    post({ type: 'snapshot', snapshot: cell.snapshot(), eventCount: cell.eventLog().length, trace });
+    post({ type: 'snapshot', snapshot: cell.snapshot(), eventCount: cell.eventCount, trace });
     awaitingFrame = true;
     snapshotDue = false;
     lastPostWall = clock.now();
@@ -98,14 +99,13 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
     cell?.dispose();
     cell = null;
     carryMs = 0;
-    const probe = createCell(document);
-    if (!probe.ok) {
-      post({ type: 'loaded', ok: false, problems: probe.errors });
+    const all = signalNamesOf(document);
+    if (!all.ok) {
+      post({ type: 'loaded', ok: false, problems: all.errors });
       return;
     }
     // The scope's signals (PLC addresses and controller points) are traced at every instant.
-    const names = probe.value.signalNames().filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
-    probe.value.dispose();
+    const names = all.value.filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
     const r = createCell(document, { trace: names });
     if (!r.ok) {
       post({ type: 'loaded', ok: false, problems: r.errors });
@@ -133,7 +133,7 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
         case 'event': {
           if (!cell) return;
           const r = cell.apply(msg.event);
-          if (r.ok) post({ type: 'accepted', event: msg.event, eventCount: cell.eventLog().length });
+          if (r.ok) post({ type: 'accepted', event: msg.event, eventCount: cell.eventCount });
           else post({ type: 'rejected', event: msg.event, problems: r.errors });
           snapshotDue = true;
           flush();
@@ -152,8 +152,7 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
           running = false;
           if (!cell) return;
           const t = cell.timeMs;
-          const next = (Math.floor(t / scanPeriodMs) + 1) * scanPeriodMs;
-          advance(next - t);
+          advance(nextScanMs(t, scanPeriodMs) - t);
           flush();
           break;
         }

@@ -4,8 +4,11 @@
  * `DI1 Start (R0.S1.C0)`), a controller point by its point-map label. Pure: derived from the
  * cell document alone, so it can be memoised on the document and tested without an engine.
  */
-import { deviceTerminals, parseAddress, formatAddress, resolvePhysical, resolvePointMap } from '@/simulator';
-import type { CellDocument, Endpoint, FieldDevice, PanelDevice, ResolvedPointMap } from '@/simulator';
+import { deviceTerminals, parseAddress, formatAddress, resolvePointMap } from '@/simulator';
+import type { CellDocument, FieldDevice, PanelDevice, WiringRow } from '@/simulator';
+
+type Endpoint = WiringRow['from'];
+type ResolvedPointMap = ReturnType<typeof resolvePointMap>;
 import { endpointText } from '@/components/field/endpoint-text';
 
 type Device = PanelDevice | FieldDevice;
@@ -38,7 +41,11 @@ function pointsOnChannels(map: ResolvedPointMap, end: Endpoint, bits: number): s
   if (!('controller' in end)) return [];
   const { rack, slot, channel } = end.controller;
   const refs: string[] = [];
-  for (let b = 0; b < bits; b++) for (const ref of resolvePhysical(map, rack, slot, channel + b)) if (!refs.includes(ref)) refs.push(ref);
+  // Channel by channel, the points (in map order) that use it.
+  for (let b = 0; b < bits; b++) {
+    const c = channel + b;
+    for (const p of map.byRef.values()) if (p.rack === rack && p.slot === slot && p.channel <= c && c < p.channel + p.bits && !refs.includes(p.ref)) refs.push(p.ref);
+  }
   return refs;
 }
 

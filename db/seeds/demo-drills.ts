@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { cellDocumentSchema } from '@/simulator/schema/cell-document';
+import { cellDocumentSchema } from '@/simulator';
 import { DEMO_ASSIGNED_DRILL, DRILL_LIBRARY, LIBRARY_BASE_NAMES, libraryBaseDocument, type LibraryBase } from '@/lib/drills/library';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { drillColumns } from '../drill-columns';

@@ -6,9 +6,13 @@
  */
 import Papa from 'papaparse';
 import { csvCellFromFile, csvSafeCell } from '@/lib/csv-cell';
-import type { CellDocument, Endpoint, PointMapRow, Problem, WiringRow } from '@/simulator';
-import { CELL_LIMITS, pointMapRowSchema, resolveLogical, resolvePointMap, wiringRowSchema } from '@/simulator';
+import type { CellDocument, PointMapRow, Problem, WiringRow } from '@/simulator';
+import { CELL_LIMITS, cellDocumentSchema, resolvePointMap } from '@/simulator';
 import type { CsvKind } from '@/lib/schemas/cells';
+
+/** The schemas of one point-map row and one wiring row, as the cell document holds them. */
+const pointMapRowSchema = cellDocumentSchema.shape.controller.shape.pointMap.element;
+const wiringRowSchema = cellDocumentSchema.shape.wiring.element;
 
 /** One problem in an uploaded CSV. `column` is '' when the problem is the whole row or file. */
 export interface CsvRowError {
@@ -179,6 +183,8 @@ export function parsePointMapCsv(text: string): CsvParse<PointMapRow> {
   return { rows, rowNumbers, errors: sortErrors(errors) };
 }
 
+type Endpoint = WiringRow['from'];
+
 const CHANNEL_TEXT = /^r(\d+)\/s(\d+)\/c(\d+)$/i;
 const POINT_TEXT = /^(DI|DO|AI|AO|WI|WO|TI|TO)[1-9]\d{0,3}$/i;
 
@@ -200,7 +206,7 @@ function parseEndpoint(text: string, doc: CellDocument): { ok: true; value: Endp
   if (text.startsWith('%')) candidate = { plc: text.toUpperCase() };
   else if (ch) candidate = { controller: { rack: Number(ch[1]), slot: Number(ch[2]), channel: Number(ch[3]) } };
   else if (POINT_TEXT.test(text)) {
-    const p = resolveLogical(resolvePointMap(doc.controller.pointMap), text.toUpperCase());
+    const p = resolvePointMap(doc.controller.pointMap).byRef.get(text.toUpperCase());
     if (!p) return { ok: false, message: `${text.toUpperCase()} is not mapped by the cell's live point map` };
     candidate = { controller: { rack: p.rack, slot: p.slot, channel: p.channel } };
   } else if (text.includes(':')) {

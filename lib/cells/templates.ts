@@ -5,8 +5,10 @@
  * No `server-only`: the demo seed (run by tsx outside Next.js) uses them too.
  */
 import { pickAndPlaceCell, starterCell } from '@/simulator';
-import type { CellDocumentInput } from '@/simulator';
 import type { CellTemplate } from './template-names';
+
+/** A cell document as written (defaults may be omitted), the type the demo cells have. */
+type CellDocumentInput = typeof pickAndPlaceCell;
 
 export { CELL_TEMPLATES, TEMPLATE_LABELS } from './template-names';
 export type { CellTemplate } from './template-names';

@@ -10,7 +10,9 @@
  * input is debounced with timers (the chattering-sensor drill grades the fix through the
  * student's `download` of the logic sheet — simulator/demo/part-debounce.ts is a model fix).
  */
-import { pickAndPlaceCell, type CellDocumentInput, type FaultCard } from '@/simulator';
+import { pickAndPlaceCell, type FaultCard } from '@/simulator';
+
+type CellDocumentInput = typeof pickAndPlaceCell;
 import type { DrillInput, WeightedRule } from '@/lib/schemas/drills';
 
 /** Base documents the library needs besides the plain demo cell. */

@@ -17,8 +17,8 @@
  */
 import { setPriority } from 'node:os';
 import type { CellSnapshot, LoggedEvent, Problem, Result, Trace } from '@/simulator';
-import { hashTrace, type Cell } from '@/simulator';
-import { STOPPED, advanceTo, applyLog, buildCell, gradeSignals, replayRun, type RunContext } from './engine';
+import { applyLog, hashTrace, signalNamesOf, type Cell } from '@/simulator';
+import { buildCell, gradeSignals, replayRun, type RunContext } from './engine';
 import { gradeRun, type GradeInput, type GradeResult } from './grade';
 import { displaySignals, sanitiseTrace } from './sanitise';
 
@@ -123,18 +123,17 @@ function catchUp(runId: string, e: Entry, stop: () => boolean): Result<boolean, 
   if (!e.pending) return { ok: true, value: true };
   const { events, next, untilMs } = e.pending;
   const r = applyLog(e.cell, events.slice(next), untilMs, stop);
-  if (r.ok) {
-    e.pending = null;
-    return { ok: true, value: true };
+  if (!r.ok) {
+    // A stored log that no longer replays is a server fault; drop the cell so nothing half-built is used.
+    drop(runId, false);
+    return { ok: false, errors: r.errors };
   }
-  const stopped = r.errors.find((p) => p.code === STOPPED);
-  if (stopped) {
-    e.pending = { events, next: next + (stopped.applied ?? 0), untilMs };
+  if (r.value.stopped) {
+    e.pending = { events, next: next + r.value.applied, untilMs };
     return { ok: true, value: false };
   }
-  // A stored log that no longer replays is a server fault; drop the cell so nothing half-built is used.
-  drop(runId, false);
-  return { ok: false, errors: r.errors };
+  e.pending = null;
+  return { ok: true, value: true };
 }
 
 function runLive(task: LiveTask, stop: () => boolean): LiveOutcome {
@@ -162,11 +161,9 @@ function runLive(task: LiveTask, stop: () => boolean): LiveOutcome {
 
   if (task.op === 'view') {
     if (e.lastSeq < task.atLeastSeq) return { kind: 'miss' };
-    const a = advanceTo(e.cell, task.targetMs, stop);
-    if (!a.ok) {
-      if (a.errors[0]?.code === STOPPED) return { kind: 'budget', timeMs: e.cell.timeMs };
-      return { kind: 'rejected', problems: a.errors };
-    }
+    const a = applyLog(e.cell, [], task.targetMs, stop);
+    if (!a.ok) return { kind: 'rejected', problems: a.errors };
+    if (a.value.stopped) return { kind: 'budget', timeMs: e.cell.timeMs };
     return { kind: 'ok', timeMs: e.cell.timeMs, snapshot: e.cell.snapshot() };
   }
 
@@ -177,11 +174,10 @@ function runLive(task: LiveTask, stop: () => boolean): LiveOutcome {
     return { kind: 'rejected', problems: [{ path: ['events'], code: 'too_many_downloads', message: `A run may hold at most ${task.maxDownloads} downloads; it has ${e.downloads}.` }] };
   }
   const applied = applyLog(e.cell, task.events, task.untilMs, stop);
-  if (!applied.ok) {
+  if (!applied.ok || applied.value.stopped) {
     // Half-applied: the cell no longer matches any stored log.
     drop(task.runId, false);
-    if (applied.errors[0]?.code === STOPPED) return { kind: 'budget', timeMs: 0 };
-    return { kind: 'rejected', problems: applied.errors };
+    return applied.ok ? { kind: 'budget', timeMs: 0 } : { kind: 'rejected', problems: applied.errors };
   }
   e.lastSeq = task.seq;
   e.downloads += task.downloads;
@@ -249,11 +245,9 @@ export function grade(task: GradeTask): Result<GradeTaskResult, Problem> {
  */
 export function displayTrace(input: { context: Omit<RunContext, 'trace'>; events: LoggedEvent[]; untilMs: number; hidden: string[]; includeHidden: boolean }): Result<Trace, Problem> {
   yieldToRequests();
-  const probe = buildCell({ ...input.context, trace: [] });
-  if (!probe.ok) return probe;
-  const names = probe.value.signalNames();
-  probe.value.dispose();
-  const made = replayRun({ ...input.context, trace: displaySignals(names, input.includeHidden ? input.hidden : []) }, input.events, input.untilMs);
+  const names = signalNamesOf(input.context.document);
+  if (!names.ok) return names;
+  const made = replayRun({ ...input.context, trace: displaySignals(names.value, input.includeHidden ? input.hidden : []) }, input.events, input.untilMs);
   if (!made.ok) return made;
   try {
     const t = made.value.trace();

@@ -4,7 +4,9 @@
  * score the diagnosis, and hash the trace. Nothing from the client's own simulation is used,
  * and the same inputs always give the same grade (the engine is deterministic).
  */
-import { checkRules, hashTrace, type LoggedEvent, type Problem, type Result, type RuleResult } from '@/simulator';
+import { checkRules, hashTrace, type LoggedEvent, type Problem, type Result } from '@/simulator';
+
+type RuleResult = Extract<ReturnType<typeof checkRules>, { ok: true }>['value'][number];
 import type { WeightedRule } from '@/lib/schemas/drills';
 import type { Diagnosis } from '@/lib/schemas/runs';
 import { gradeSignals, replayRun, type RunContext } from './engine';

@@ -1,4 +1,6 @@
-import type { CellSnapshot, LoggedEvent, Trace, WireSnapshot } from '@/simulator';
+import type { CellSnapshot, LoggedEvent, Trace } from '@/simulator';
+
+type WireSnapshot = CellSnapshot['wires'][number];
 
 /** A wire as a meter sees it: level, reading, loop status, but not which card acts on it. */
 export type SanitisedWire = Omit<WireSnapshot, 'faults'>;

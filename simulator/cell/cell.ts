@@ -36,7 +36,7 @@ import {
   type InputReading,
 } from '@/simulator/electrical';
 import type { Problem, Result } from '@/simulator/shared/result';
-import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/cell-document';
+import { HANDSHAKE_OUTPUT_ROLES, type CellDocument, type FieldDevice, type PanelDevice } from '@/simulator/schema/cell-document';
 import { validateCellDocument, validateStagedRows, zodProblems } from '@/simulator/schema/validate';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
 import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
@@ -54,7 +54,9 @@ import {
 } from '@/simulator/controller/point-map';
 import { chatterOpen, faultCardSchema, type FaultCard } from '@/simulator/faults/fault-card';
 import { compilePredicate, type SignalValue } from '@/simulator/trace/predicate';
-import { createTraceRecorder, type TraceRecorder, type Trace } from '@/simulator/trace/trace';
+import { createTraceRecorder, type TraceRecorder, type Trace, type TraceSample } from '@/simulator/trace/trace';
+import { nextScanMs } from './clock';
+import { signalNamesFrom } from './signal-names';
 import { cellEventSchema, type CellEvent, type DownloadEvent, type LoggedEvent } from './events';
 import type { CellSnapshot, DeviceSnapshot, WireSnapshot } from './snapshot';
 
@@ -74,22 +76,30 @@ export type Cell = {
   readonly timeMs: number;
   /** Advances the clock by `ms` whole milliseconds (0 ≤ ms ≤ 30 days). */
   advance(ms: number): Result<{ timeMs: number }>;
-  /** Advances by one millisecond (the clock's fixed step). */
-  step(): Result<{ timeMs: number }>;
   /** Applies an event now; a rejected event changes nothing. */
   apply(event: unknown): Result<{ timeMs: number }>;
   /** The full picture of the cell now. */
   snapshot(): CellSnapshot;
-  /** Calls `listener` after every `advance`/`step`/`apply`; returns an unsubscribe function. */
+  /** Calls `listener` after every `advance`/`apply`; returns an unsubscribe function. */
   subscribe(listener: (snapshot: CellSnapshot) => void): () => void;
   /** The value of one named signal now, or an error for an unknown name. */
   readSignal(name: string): Result<SignalValue>;
   /** The names of every signal the cell exposes (for scope and rule pickers). */
   signalNames(): string[];
-  /** The accepted events so far, with their times (replaying them reproduces the run). */
-  eventLog(): LoggedEvent[];
+  /**
+   * The accepted events with their times (replaying them reproduces the run), from index
+   * `from` on (default 0: all of them); a UI reads only what is new since its last read.
+   */
+  eventLog(from?: number): LoggedEvent[];
+  /** How many events have been accepted (the length of the whole log, without copying it). */
+  readonly eventCount: number;
   /** The compact trace of the signals chosen in the options. */
   trace(): Trace;
+  /**
+   * Trace samples recorded from sample index `from` on, and `next`, the index to ask from
+   * next time: an incremental read of {@link trace}'s `samples` (same signals, same order).
+   */
+  traceSince(from: number): { samples: TraceSample[]; next: number };
   /** Stops the controller actor and drops listeners; later calls are rejected. */
   dispose(): void;
 };
@@ -170,9 +180,6 @@ function zero(): SignalValue {
   return 0;
 }
 
-function nextMultiple(now: number, period: number): number {
-  return (Math.floor(now / period) + 1) * period;
-}
 
 function travelMs(d: PanelDevice | FieldDevice): number {
   if (d.type === 'gripper') return d.travelMs;
@@ -1359,8 +1366,8 @@ class CellRuntime {
   nextInstant(limit: number): number {
     const n = this.now;
     let next = limit;
-    next = Math.min(next, nextMultiple(n, this.scanMs), nextMultiple(n, this.refreshMs));
-    if (this.busMs !== null) next = Math.min(next, nextMultiple(n, this.busMs));
+    next = Math.min(next, nextScanMs(n, this.scanMs), nextScanMs(n, this.refreshMs));
+    if (this.busMs !== null) next = Math.min(next, nextScanMs(n, this.busMs));
     for (const c of this.cards) if (c.status === 'armed' && c.card.at !== undefined && c.card.at > n) next = Math.min(next, c.card.at);
     // Only a commanded device can be travelling (see `actuators`).
     const acts = this.actuators;
@@ -1719,7 +1726,7 @@ class CellRuntime {
         return INPUT_FAMILIES.has(p.family) ? () => this.logicalIn[rest] ?? 0 : () => this.logicalOut[rest] ?? 0;
       }
       case 'hs':
-        if (!['ready', 'atHome', 'cycling', 'atPosition', 'partHeld', 'cycleDone', 'fault'].includes(rest)) return null;
+        if (!(HANDSHAKE_OUTPUT_ROLES as readonly string[]).includes(rest)) return null;
         return () => b(this.handshakeOutputs()[rest]);
       case 'arm': {
         if (rest === 'speed') return () => this.armNow().speed;
@@ -1763,24 +1770,7 @@ class CellRuntime {
   }
 
   signalNames(): string[] {
-    const names = ['time', 'ctl.state', 'ctl.servo', 'ctl.pc', 'ctl.alarms', 'ctl.cycles', 'arm.speed', 'arm.moving', 'link.healthy'];
-    for (let a = 0; a < this.doc.controller.axes; a++) names.push(`arm.${a}`);
-    for (const r of ['ready', 'atHome', 'cycling', 'atPosition', 'partHeld', 'cycleDone', 'fault']) names.push(`hs.${r}`);
-    for (const p of this.plans) {
-      names.push(`wire.${p.row.id}`, `in.${p.row.id}`);
-      if (p.sink.kind !== 'device' && p.sink.kind !== 'controller') names.push(`plc.${formatAddress(p.sink.address)}`);
-      if (p.source.kind === 'plc-bit' || p.source.kind === 'plc-word') names.push(`plc.${formatAddress(p.source.address)}`);
-    }
-    for (const s of this.sheet.outputSlots) names.push(`plc.${s.block}.${s.port}`);
-    for (const pt of this.resolved.byRef.keys()) names.push(`ctl.${pt}`);
-    for (const d of this.devs.values()) {
-      const s = this.deviceSnapshot(d);
-      for (const k of Object.keys(s)) if (!['id', 'type', 'label', 'lamps', 'feedback'].includes(k)) names.push(`dev.${d.dev.id}.${k}`);
-      if (s.lamps) s.lamps.forEach((_, i) => names.push(`dev.${d.dev.id}.lamp${i}`));
-      if (s.feedback) for (const k of Object.keys(s.feedback)) names.push(`dev.${d.dev.id}.${k}`);
-    }
-    for (const m of this.doc.plc.modules) names.push(`plc.fault.${m.id}`);
-    return [...new Set(names)];
+    return signalNamesFrom({ doc: this.doc, plans: this.plans, outputSlots: this.sheet.outputSlots, pointRefs: this.resolved.byRef.keys() });
   }
 
   setTrace(names: string[]): Result<true> {
@@ -1941,7 +1931,6 @@ class CellRuntime {
         return rt.now;
       },
       advance: (ms) => rt.advance(ms),
-      step: () => rt.advance(1),
       apply: (e) => rt.applyEvent(e),
       snapshot: () => rt.snapshot(),
       subscribe: (l) => {
@@ -1955,8 +1944,12 @@ class CellRuntime {
         return r ? { ok: true, value: r() } : err('unknown_signal', `no signal "${n}"`);
       },
       signalNames: () => rt.signalNames(),
-      eventLog: () => rt.log.map((l) => ({ t: l.t, event: l.event })),
+      eventLog: (from = 0) => rt.log.slice(Math.max(0, Math.trunc(from) || 0)).map((l) => ({ t: l.t, event: l.event })),
+      get eventCount() {
+        return rt.log.length;
+      },
       trace: () => rt.recorder?.trace(rt.now) ?? { signals: [], samples: [], endMs: rt.now },
+      traceSince: (from) => rt.recorder?.since(from) ?? { samples: [], next: 0 },
       dispose: () => rt.dispose(),
     };
   }

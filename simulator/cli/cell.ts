@@ -13,19 +13,9 @@
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import {
-  CELL_LIMITS,
-  cellJsonSchemas,
-  checkRules,
-  createCell,
-  documentTooLarge,
-  hashTrace,
-  replay,
-  ruleSignals,
-  rulesSchema,
-  validateCellDocument,
-  type Problem,
-} from '@/simulator/index';
+import { CELL_LIMITS, checkRules, hashTrace, replay, ruleSignals, rulesSchema, signalNamesOf, validateCellDocument, type Problem } from '@/simulator/index';
+import { cellJsonSchemas } from '@/simulator/schema/json-schema';
+import { documentTooLarge } from '@/simulator/schema/validate';
 import { proveCommand } from '@/simulator/prove/cli';
 import { diffCommand } from '@/simulator/diff/cli';
 
@@ -160,13 +150,12 @@ function signals(file: string): Exit {
     print({ ok: false, problems: [doc.problem] });
     return 2;
   }
-  const made = createCell(doc.value);
-  if (!made.ok) {
-    print({ ok: false, problems: made.errors });
+  const names = signalNamesOf(doc.value);
+  if (!names.ok) {
+    print({ ok: false, problems: names.errors });
     return 1;
   }
-  print({ ok: true, signals: made.value.signalNames() });
-  made.value.dispose();
+  print({ ok: true, signals: names.value });
   return 0;
 }
 

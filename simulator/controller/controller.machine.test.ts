@@ -170,8 +170,7 @@ describe('controller machine: servo power on entering a stopping state', () => {
     r.inputs.DI6 = 1;
     r.refresh();
     expect(r.state()).toBe('stopped');
-    // No further TICK: only time passes (what the cell sends for a held-back idle refresh).
-    r.actor.send({ type: 'SYNC', dt: 500 });
+    // Already at rest: power goes on entry, with no further TICK (the cell holds idle refreshes back).
     expect(r.ctx().servoOn).toBe(false);
     // Releasing the stop makes the controller ready again, with servo power back on.
     r.inputs.DI6 = 0;

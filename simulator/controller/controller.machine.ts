@@ -33,9 +33,7 @@ export type ControllerEvent =
   | { type: 'TICK'; dt: number; inputs: Record<string, number>; hardware: string[] }
   | { type: 'POWER_ON' }
   | { type: 'POWER_OFF' }
-  | { type: 'RESTART' }
-  /** Time that passed in an idle state with unchanged inputs (no inputs are read). */
-  | { type: 'SYNC'; dt: number };
+  | { type: 'RESTART' };
 
 /** Input of the machine: the controller section of the cell document. It starts `off`; send `POWER_ON`. */
 export type ControllerInput = { config: ControllerConfig };
@@ -103,7 +101,7 @@ export const controllerMachine = setup({
     /** One refresh while stopped, faulted or e-stopped: brake out, then remove power. */
     tickStill: assign(({ context, event }) => tick(context, event, brakeOut)),
     /** Time passing with nothing to do (the cell skips identical idle refreshes and catches up here). */
-    addTime: assign(({ context, event }) => (event.type === 'TICK' || event.type === 'SYNC' ? { ...context, timeMs: context.timeMs + event.dt } : context)),
+    addTime: assign(({ context, event }) => (event.type === 'TICK' ? { ...context, timeMs: context.timeMs + event.dt } : context)),
     servoOn: assign({ servoOn: true }),
     /** Power is removed once a controlled stop has reached rest. */
     servoOffWhenStill: assign(({ context }) => stillServoOff(context)),
@@ -226,7 +224,6 @@ export const controllerMachine = setup({
   on: {
     POWER_OFF: { target: '.off', actions: 'powerDown' },
     RESTART: { target: '.booting', actions: 'powerUp' },
-    SYNC: { actions: 'addTime' },
   },
 });
 

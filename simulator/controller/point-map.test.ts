@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { ControllerModule, PointMapRow } from '@/simulator/schema/cell-document';
-import { resolveLogical, resolvePhysical, resolvePointMap, restartPointMap, stagePointMap, validatePointMap } from './point-map';
+import { resolvePhysical, resolvePointMap, restartPointMap, stagePointMap, validatePointMap } from './point-map';
 
 const modules: ControllerModule[] = [
   { id: 'di', rack: 0, slot: 1, type: 'digital-in', channels: 16 },
@@ -15,11 +15,11 @@ describe('point map resolution', () => {
   it('logical points count from 1, physical channels from 0 (DESIGN.md)', () => {
     const map = resolvePointMap(rows);
     // DI1 is channel 0, DI8 channel 7: first logical point + k ↔ first channel + k (common practice)
-    expect(resolveLogical(map, 'DI1')).toMatchObject({ rack: 0, slot: 1, channel: 0, label: 'Start' });
-    expect(resolveLogical(map, 'DI2')).toMatchObject({ channel: 1, invert: true });
-    expect(resolveLogical(map, 'DI8')).toMatchObject({ channel: 7 });
-    expect(resolveLogical(map, 'DI9')).toBeNull();
-    expect(resolveLogical(map, 'WI1')).toMatchObject({ channel: 8, bits: 4 });
+    expect((map.byRef.get('DI1') ?? null)).toMatchObject({ rack: 0, slot: 1, channel: 0, label: 'Start' });
+    expect((map.byRef.get('DI2') ?? null)).toMatchObject({ channel: 1, invert: true });
+    expect((map.byRef.get('DI8') ?? null)).toMatchObject({ channel: 7 });
+    expect((map.byRef.get('DI9') ?? null)).toBeNull();
+    expect((map.byRef.get('WI1') ?? null)).toMatchObject({ channel: 8, bits: 4 });
     expect(resolvePhysical(map, 0, 1, 10)).toEqual(['WI1']);
     expect(resolvePhysical(map, 0, 1, 3)).toEqual(['DI4']);
   });

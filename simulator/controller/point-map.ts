@@ -50,10 +50,15 @@ export type PointMapState = {
   staged: PointMapRow[] | null;
 };
 
-/** Splits `DI3` into family and index; null when it is not a point reference. */
-export function parsePointRef(ref: string): { family: PointFamily; index: number } | null {
+/**
+ * Splits `DI3` into family and index, with `input` true for the families the controller
+ * reads (DI, WI, AI, TI); null when it is not a point reference.
+ */
+export function parsePointRef(ref: string): { family: PointFamily; index: number; input: boolean } | null {
   const m = /^(DI|DO|AI|AO|WI|WO|TI|TO)([1-9]\d*)$/.exec(ref);
-  return m ? { family: m[1] as PointFamily, index: Number(m[2]) } : null;
+  if (!m) return null;
+  const family = m[1] as PointFamily;
+  return { family, index: Number(m[2]), input: INPUT_FAMILIES.has(family) };
 }
 
 /** Key of a physical channel. */
@@ -105,11 +110,6 @@ export function resolvePointMap(rows: readonly PointMapRow[]): ResolvedPointMap 
     }
   }
   return { byRef, byChannel };
-}
-
-/** Logical → physical: where a point such as `DI3` lives, or null when unmapped. */
-export function resolveLogical(map: ResolvedPointMap, ref: string): ResolvedPoint | null {
-  return map.byRef.get(ref) ?? null;
 }
 
 /** Physical → logical: the points that use a channel (empty when none). */
@@ -218,11 +218,6 @@ export function validatePointMap(
 /** Records an edit as staged; the live map is untouched until {@link restartPointMap}. */
 export function stagePointMap(state: PointMapState, rows: PointMapRow[]): PointMapState {
   return { live: state.live, staged: rows };
-}
-
-/** Drops a staged edit. */
-export function discardStagedPointMap(state: PointMapState): PointMapState {
-  return { live: state.live, staged: null };
 }
 
 /** A controller restart: the staged rows (if any) become live and nothing stays staged. */

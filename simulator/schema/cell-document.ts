@@ -253,6 +253,9 @@ export const handshakeSchema = z.object({
     .partial(),
 });
 
+/** Handshake output roles, in the order snapshots and signal lists show them (`hs.<role>`). */
+export const HANDSHAKE_OUTPUT_ROLES = Object.freeze(Object.keys(handshakeSchema.shape.outputs.shape)) as readonly (keyof z.infer<typeof handshakeSchema>['outputs'])[];
+
 /** The simulated robot controller. */
 export const controllerSchema = z.object({
   axes: z.number().int().min(1).max(L.axes),

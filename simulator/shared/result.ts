@@ -18,23 +18,3 @@ export type Problem = {
 
 /** Success with a value, or failure with every problem found (never only the first). */
 export type Result<T, E = Problem> = { ok: true; value: T } | { ok: false; errors: E[] };
-
-/** Wraps a value as a successful {@link Result}. */
-export function ok<T>(value: T): { ok: true; value: T } {
-  return { ok: true, value };
-}
-
-/** Wraps one or more errors as a failed {@link Result}. */
-export function fail<E>(errors: E | E[]): { ok: false; errors: E[] } {
-  return { ok: false, errors: Array.isArray(errors) ? errors : [errors] };
-}
-
-/** Builds a {@link Problem}. */
-export function problem(path: (string | number)[], code: string, message: string, related?: string[]): Problem {
-  return related && related.length > 0 ? { path, message, code, related } : { path, message, code };
-}
-
-/** Prefixes every problem's path, for nesting a sub-document's problems inside a parent. */
-export function prefixProblems(prefix: (string | number)[], problems: Problem[]): Problem[] {
-  return problems.map((p) => ({ ...p, path: [...prefix, ...p.path] }));
-}

@@ -6,8 +6,11 @@
 import type { SignalValue } from './predicate';
 import { fnv1a64 } from './hash';
 
+/** One sample of a trace: cell time (ms), index of the signal in `signals`, its new value. */
+export type TraceSample = [number, number, SignalValue];
+
 /** A compact, change-only trace. */
-export type Trace = { signals: string[]; samples: [number, number, SignalValue][]; endMs: number };
+export type Trace = { signals: string[]; samples: TraceSample[]; endMs: number };
 
 /** Records samples of a fixed list of signals. */
 export type TraceRecorder = {
@@ -15,12 +18,15 @@ export type TraceRecorder = {
   sample(timeMs: number): void;
   /** The trace so far, up to `endMs`. */
   trace(endMs: number): Trace;
+  /** Samples recorded from index `from` on (copies of those only), and the index after the last. */
+  since(from: number): { samples: TraceSample[]; next: number };
 };
 
 /** Creates a recorder over `names`, read through `readers` (same order). */
 export function createTraceRecorder(names: string[], readers: (() => SignalValue)[]): TraceRecorder {
   const last: (SignalValue | undefined)[] = names.map(() => undefined);
-  const samples: [number, number, SignalValue][] = [];
+  const samples: TraceSample[] = [];
+  const copy = (s: TraceSample): TraceSample => [s[0], s[1], s[2]];
   return {
     sample(t) {
       for (let i = 0; i < readers.length; i++) {
@@ -32,7 +38,11 @@ export function createTraceRecorder(names: string[], readers: (() => SignalValue
       }
     },
     trace(endMs) {
-      return { signals: [...names], samples: samples.map((s) => [s[0], s[1], s[2]] as [number, number, SignalValue]), endMs };
+      return { signals: [...names], samples: samples.map(copy), endMs };
+    },
+    since(from) {
+      const start = Math.max(0, Math.min(Math.trunc(from) || 0, samples.length));
+      return { samples: samples.slice(start).map(copy), next: samples.length };
     },
   };
 }
@@ -43,15 +53,4 @@ export function createTraceRecorder(names: string[], readers: (() => SignalValue
  */
 export function hashTrace(trace: Trace): string {
   return fnv1a64(JSON.stringify({ signals: trace.signals, samples: trace.samples, endMs: trace.endMs }));
-}
-
-/** The value of every signal at time `t` (after all samples at `t`), from a trace. */
-export function valuesAt(trace: Trace, t: number): Record<string, SignalValue | null> {
-  const out: Record<string, SignalValue | null> = {};
-  for (const s of trace.signals) out[s] = null;
-  for (const [ts, i, v] of trace.samples) {
-    if (ts > t) break;
-    out[trace.signals[i]] = v;
-  }
-  return out;
 }

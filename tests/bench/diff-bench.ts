@@ -11,7 +11,7 @@
  *
  * Alone: `npx tsx tests/bench/diff-bench.ts` (add `--json` for one JSON line).
  */
-import { cellDocumentSchema, diffCells, pickAndPlaceCell, type CellDocument } from '@/simulator/index';
+import { cellDocumentSchema, diffCells, pickAndPlaceCell, type CellDocument } from '@/simulator';
 import { median } from './bench-support';
 import { generateSheet } from './sheet-bench';
 

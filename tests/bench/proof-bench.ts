@@ -17,8 +17,7 @@
  *
  * Run alone: `npx tsx tests/bench/proof-bench.ts`.
  */
-import type { LogicSheetInput } from '@/simulator/plc';
-import { proveRules, type InterlockRuleInput } from '@/simulator/prove';
+import { proveRules, type InterlockRuleInput, type LogicSheetInput } from '@/simulator';
 import { median } from './bench-support';
 
 const STATIONS = 8;

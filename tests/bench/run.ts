@@ -11,7 +11,7 @@
 import { benchSheets } from './sheet-bench';
 import { workspaceBench } from './workspace-bench';
 import { drillsBench } from './drills-bench';
-import { createCell, pickAndPlaceCell } from '@/simulator/index';
+import { createCell, pickAndPlaceCell } from '@/simulator';
 
 type Figures = Record<string, number>;
 type Measurement = { name: string; describe: string; run: () => Promise<Figures> | Figures };

@@ -13,9 +13,10 @@
  *
  * Run alone: `npx tsx tests/bench/sheet-bench.ts` (add `--json` for one JSON line).
  */
-import { createProcessImage, type ProcessImage } from '@/simulator/address/process-image';
-import { compileSheet, type LogicSheetInput } from '@/simulator/plc';
+import { compileSheet, createProcessImage, type LogicSheetInput } from '@/simulator';
 import { median } from './bench-support';
+
+type ProcessImage = ReturnType<typeof createProcessImage>;
 
 const RUNG_BLOCKS = 10;
 const SCAN_MS = 10;
