@@ -6,6 +6,7 @@ import * as m004 from './20261201_004_mail_and_seed';
 import * as m101 from './20261201_101_cells';
 import * as m201 from './20261201_201_drills_and_runs';
 import * as m301 from './20261202_001_session_generation';
+import * as m401 from './20261204_101_run_times_bigint';
 import * as m402 from './20261204_201_auth_throttles';
 import * as mJobs from './20261204_301_jobs';
 import * as mChangeovers from './20261204_401_changeovers';
@@ -29,6 +30,7 @@ const migrations: ReadonlyArray<readonly [string, Migration]> = [
   ['20261201_101_cells', m101],
   ['20261201_201_drills_and_runs', m201],
   ['20261202_001_session_generation', m301],
+  ['20261204_101_run_times_bigint', m401],
   ['20261204_201_auth_throttles', m402],
   ['20261204_301_jobs', mJobs],
   ['20261204_401_changeovers', mChangeovers],
