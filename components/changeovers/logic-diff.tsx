@@ -34,9 +34,8 @@ import { BlockNode, inHandle, outHandle, type BlockNodeData } from '@/components
 import { WorkspaceStoreContext, type WorkspaceStore, type WorkspaceStoreApi } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { KindBadge } from './diff-kind-icon';
+import { logicMarks, type Mark, type Side } from './logic-marks';
 
-export type Mark = 'new' | 'changed' | 'removed' | 'moved';
-type Side = 'base' | 'proposed';
 
 type DiffNodeData = BlockNodeData & { mark?: Mark; focus: boolean };
 type DiffNode = Node<DiffNodeData, 'block'>;
@@ -48,26 +47,6 @@ const NODE_H = 90;
 const NO_PROBLEMS: BlockNodeData['problems'] = [];
 const MARK_WORDS: Record<Mark, string> = { new: 'new', changed: 'changed', removed: 'removed', moved: 'moved' };
 const MARK_ICONS = { new: Plus, changed: PencilLine, removed: Minus, moved: Move } as const;
-
-/** Which mark a block or connection gets on each side, from the logic entries of the diff. */
-export function logicMarks(entries: readonly DiffEntry[]): Record<Side, { blocks: Map<string, Mark>; connections: Map<string, Mark> }> {
-  const out = {
-    base: { blocks: new Map<string, Mark>(), connections: new Map<string, Mark>() },
-    proposed: { blocks: new Map<string, Mark>(), connections: new Map<string, Mark>() },
-  };
-  for (const e of entries) {
-    const kind = e.target === 'block' ? 'blocks' : e.target === 'connection' ? 'connections' : null;
-    if (!kind) continue;
-    if (e.kind === 'added') out.proposed[kind].set(e.id, 'new');
-    else if (e.kind === 'removed') out.base[kind].set(e.id, 'removed');
-    else if (e.kind === 'moved') out.proposed[kind].set(e.id, 'moved');
-    else {
-      out.proposed[kind].set(e.id, 'changed');
-      out.base[kind].set(e.id, 'changed');
-    }
-  }
-  return out;
-}
 
 function DiffBlockNodeView(props: NodeProps<DiffNode>) {
   const { mark, focus } = props.data;
