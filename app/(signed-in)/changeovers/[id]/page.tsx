@@ -101,12 +101,13 @@ export default async function ChangeoverPage({ params }: { params: Promise<{ id:
         </div>
 
         <section id="evidence" className="scroll-mt-6 space-y-6">
-          <Card title="Interlock proofs">
+          {/* The evidence sections title themselves (components/changeovers/proofs-section.tsx, checks-section.tsx). */}
+          <div className="rounded-lg border border-slate-200 bg-white p-5 shadow-sm">
             <ProofsSection changeoverId={co.id} cellId={co.cellId} canEdit={abilities.edit} />
-          </Card>
-          <Card title="Scenario checks">
+          </div>
+          <div className="rounded-lg border border-slate-200 bg-white p-5 shadow-sm">
             <ChecksSection changeoverId={co.id} cellId={co.cellId} canEdit={abilities.edit} />
-          </Card>
+          </div>
         </section>
 
         <section id="diff" className="scroll-mt-6">
