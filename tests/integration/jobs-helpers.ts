@@ -1,6 +1,8 @@
-/** Helpers of the job queue's tests: waiting on a job row, reading a Server-Sent Events stream. */
+/** Helpers of the job queue's tests: worker processes, waiting on a job row, reading a Server-Sent Events stream. */
+import { spawn, type ChildProcess } from 'node:child_process';
 import { getJob } from '@/lib/jobs/queue';
 import type { JobRecord, JobState } from '@/lib/jobs/types';
+import { TEST_ENV } from './test-env';
 
 /** Waits until the job is in one of `states` (default: finished), reading its row; throws after `timeoutMs`. */
 export async function waitForJob(id: string, states: readonly JobState[] = ['done', 'failed'], timeoutMs = 20_000): Promise<JobRecord> {
@@ -79,4 +81,50 @@ export function sseReader(body: ReadableStream<Uint8Array>) {
     },
     cancel: () => reader.cancel().catch(() => undefined),
   };
+}
+
+/**
+ * Starts a worker process in its own process group (so tsx and its node child stop together)
+ * and resolves once it prints "[worker] ready". `script` is scripts/worker.ts (the real worker,
+ * as start.sh and Playwright run it) or the tests' own jobs-test-worker.ts. Its log is shown
+ * with TEST_WORKER_LOG=1.
+ */
+export async function startWorkerProcess(script: string, env: Record<string, string> = {}): Promise<ChildProcess> {
+  const child = spawn('node_modules/.bin/tsx', ['--conditions=react-server', script], {
+    env: { ...process.env, ...TEST_ENV, ...env },
+    stdio: ['ignore', 'pipe', 'inherit'],
+    detached: true,
+  });
+  let log = '';
+  const ready = new Promise<void>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`${script} did not start within 60 s`)), 60_000);
+    child.once('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`${script} exited during start-up (code ${code})`));
+    });
+    child.stdout!.on('data', (chunk: Buffer) => {
+      // Read all along so the pipe never fills.
+      if (process.env.TEST_WORKER_LOG) process.stderr.write(chunk);
+      log = (log + chunk.toString()).slice(-4096);
+      if (log.includes('[worker] ready')) {
+        clearTimeout(timer);
+        resolve();
+      }
+    });
+  });
+  try {
+    await ready;
+  } catch (err) {
+    await stopWorkerProcess(child, 'SIGKILL');
+    throw err;
+  }
+  return child;
+}
+
+/** Sends `signal` to the worker's process group and waits for it to exit. */
+export async function stopWorkerProcess(child: ChildProcess, signal: NodeJS.Signals = 'SIGTERM'): Promise<void> {
+  if (!child.pid || child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise<void>((r) => child.once('exit', () => r()));
+  process.kill(-child.pid, signal);
+  await exited;
 }

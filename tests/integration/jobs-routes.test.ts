@@ -1,9 +1,17 @@
 /**
- * The job routes with the worker process the global setup starts: a trainer queues a regrade
- * of the demo's graded drill (POST /api/drills/[id]/regrade), the worker process runs it, and
- * the progress reaches GET /api/jobs/stream through LISTEN/NOTIFY; the report finds every
- * stored grade reproduced. Who may follow a subject's jobs, and who may read one.
+ * The job routes with a real worker process: this file starts scripts/worker.ts (as start.sh
+ * and Playwright do) for the `drill-regrade` kind; a trainer queues a regrade of the demo's
+ * graded drill (POST /api/drills/[id]/regrade), the worker process runs it, and the progress
+ * reaches GET /api/jobs/stream through LISTEN/NOTIFY; the report finds every stored grade
+ * reproduced. Who may follow a subject's jobs, and who may read one.
+ *
+ * The worker is this file's own, not the global setup's: other suites queue jobs through their
+ * routes and run the handlers in-process, which a shared background worker would race.
  */
+import type { ChildProcess } from 'node:child_process';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as stream from '@/app/api/jobs/stream/route';
 import * as jobOne from '@/app/api/jobs/[id]/route';
@@ -18,7 +26,7 @@ import { openJobStreams } from '@/lib/jobs/stream';
 import type { JobEvent, JobRecord } from '@/lib/jobs/types';
 import type { DrillRegradeReport } from '@/lib/drills/regrade-report';
 import { BASE, call, demoUser, makeUser, sessionCookie } from './helpers';
-import { sseReader } from './jobs-helpers';
+import { sseReader, startWorkerProcess, stopWorkerProcess } from './jobs-helpers';
 
 let trainer: User;
 let admin: User;
@@ -26,6 +34,9 @@ let student: User;
 let lead: User;
 let otherTrainer: User;
 let drillId: string;
+let worker: ChildProcess;
+// The worker's own engine bundle: this process may rebuild the shared one while the worker loads it.
+const WORKER_BUNDLE = path.join(tmpdir(), `cellwright-engine-worker-it-${process.pid}.mjs`);
 
 /** The route takes no params; Next.js passes a context all the same. */
 const NO_PARAMS = { params: Promise.resolve({}) };
@@ -42,9 +53,17 @@ beforeAll(async () => {
   otherTrainer = await makeUser('trainer');
   const row = await db()('drills').where({ trainer_id: trainer.id, library_key: DEMO_CLOSED_DRILL }).first('id');
   drillId = row.id;
-});
+  worker = await startWorkerProcess('scripts/worker.ts', {
+    WORKER_KINDS: 'drill-regrade',
+    WORKER_POLL_SECONDS: '0.5',
+    WORKER_SHUTDOWN_GRACE_SECONDS: '2',
+    ENGINE_WORKER_FILE: WORKER_BUNDLE,
+  });
+}, 90_000);
 
 afterAll(async () => {
+  if (worker) await stopWorkerProcess(worker);
+  rmSync(WORKER_BUNDLE, { force: true });
   await closeJobEvents();
   await closeSendingBoss();
   await closeDb();

@@ -3,10 +3,10 @@
  * progress reaches LISTEN in order; failures, retries and budgets; a worker killed mid-job and
  * one stopped with SIGTERM; the sweep of rows pg-boss gave up on; the LISTEN connection's
  * reconnect. The machinery runs with the tests' own job kinds (jobs-test-handlers.ts), in this
- * process or in a child process the test can kill; the real kinds are worked by the worker
- * process the global setup starts (see jobs-routes.test.ts).
+ * process or in a child process the test can kill; the real worker process (scripts/worker.ts)
+ * with the real kinds is in jobs-routes.test.ts.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { closeDb, db } from '@/db/knex';
@@ -20,7 +20,7 @@ import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
 import type { User } from '@/db/users';
 import { demoUser } from './helpers';
 import { CHILD_KIND, IN_PROCESS_KIND, testHandler, type TestPayload } from './jobs-test-handlers';
-import { waitForJob, waitForJobWhere } from './jobs-helpers';
+import { startWorkerProcess, stopWorkerProcess, waitForJob, waitForJobWhere } from './jobs-helpers';
 import { TEST_ENV } from './test-env';
 
 const URL_ = TEST_ENV.DATABASE_URL;
@@ -49,33 +49,11 @@ function enqueueTest(kind: string, payload: TestPayload, overrides: EnqueueOverr
   return enqueueJob({ kind: kind as JobKind, payload, ownerId: owner.id, subject: `drill:${randomUUID()}` }, overrides);
 }
 
-/** A worker process (jobs-test-worker.ts) in its own process group, ready to take jobs. */
+/** A worker process (jobs-test-worker.ts), ready to take `test-child` jobs; killed after the test. */
 async function childWorker(): Promise<ChildProcess> {
-  const child = spawn('node_modules/.bin/tsx', ['--conditions=react-server', 'tests/integration/jobs-test-worker.ts'], {
-    env: { ...process.env, ...TEST_ENV },
-    stdio: ['ignore', 'pipe', 'inherit'],
-    detached: true,
-  });
+  const child = await startWorkerProcess('tests/integration/jobs-test-worker.ts');
   children.push(child);
-  await new Promise<void>((resolve, reject) => {
-    let out = '';
-    const timer = setTimeout(() => reject(new Error('test worker did not start')), 30_000);
-    child.once('exit', (code) => reject(new Error(`test worker exited (${code})`)));
-    child.stdout!.on('data', (chunk: Buffer) => {
-      if (process.env.TEST_WORKER_LOG) process.stderr.write(chunk);
-      out = (out + chunk.toString()).slice(-2000);
-      if (out.includes('[worker] ready')) {
-        clearTimeout(timer);
-        resolve();
-      }
-    });
-  });
   return child;
-}
-
-function exited(child: ChildProcess): Promise<void> {
-  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
-  return new Promise((r) => child.once('exit', () => r()));
 }
 
 beforeAll(async () => {
@@ -85,14 +63,7 @@ beforeAll(async () => {
 
 afterEach(async () => {
   while (workers.length) await workers.pop()!.stop();
-  while (children.length) {
-    const c = children.pop()!;
-    if (c.exitCode === null && c.signalCode === null && c.pid) {
-      const gone = exited(c);
-      process.kill(-c.pid, 'SIGKILL');
-      await gone;
-    }
-  }
+  while (children.length) await stopWorkerProcess(children.pop()!, 'SIGKILL');
 });
 
 afterAll(async () => {
@@ -188,9 +159,7 @@ describe('restarts', () => {
     const first = await childWorker();
     const job = await enqueueTest(CHILD_KIND, { steps: 12, stepMs: 250, echo: 'survivor' }, { budgetSeconds: 5, retryLimit: 2 });
     await waitForJobWhere(job.id, (j) => j.state === 'running' && j.progress.done >= 2, 15_000);
-    const gone = exited(first);
-    process.kill(-first.pid!, 'SIGKILL');
-    await gone;
+    await stopWorkerProcess(first, 'SIGKILL');
     const stranded = await getJob(job.id);
     expect(stranded).toMatchObject({ state: 'running', attempts: 1 });
     expect(stranded!.progress.done).toBeLessThan(12);
@@ -205,9 +174,7 @@ describe('restarts', () => {
     const first = await childWorker();
     const job = await enqueueTest(CHILD_KIND, { steps: 20, stepMs: 200 }, { budgetSeconds: 30, retryLimit: 2, retryDelaySeconds: 0 });
     await waitForJobWhere(job.id, (j) => j.state === 'running' && j.progress.done >= 1, 15_000);
-    const gone = exited(first);
-    process.kill(-first.pid!, 'SIGTERM');
-    await gone;
+    await stopWorkerProcess(first, 'SIGTERM');
     const back = await getJob(job.id);
     expect(back).toMatchObject({ state: 'queued', attempts: 1 });
     expect(back!.error).toMatch(/worker stopped during this job/);
