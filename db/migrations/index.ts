@@ -11,6 +11,7 @@ import * as m402 from './20261204_201_auth_throttles';
 import * as mJobs from './20261204_301_jobs';
 import * as mChangeovers from './20261204_401_changeovers';
 import * as mEvidence from './20261204_402_changeover_evidence';
+import * as mLiveBoard from './20261204_601_live_board';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -35,6 +36,7 @@ const migrations: ReadonlyArray<readonly [string, Migration]> = [
   ['20261204_301_jobs', mJobs],
   ['20261204_401_changeovers', mChangeovers],
   ['20261204_402_changeover_evidence', mEvidence],
+  ['20261204_601_live_board', mLiveBoard],
 ];
 
 export const migrationSource: Knex.MigrationSource<readonly [string, Migration]> = {

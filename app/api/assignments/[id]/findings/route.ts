@@ -1,0 +1,28 @@
+import { apiRoute, ApiError, parseParams, parseQuery } from '@/lib/api/errors';
+import { requireApiUser } from '@/lib/auth/session';
+import { assignmentState, DRILL_ROLES } from '@/lib/drills/access';
+import { assignmentForWatcher } from '@/lib/live/board';
+import { buildFindings, findingsCsv } from '@/lib/live/findings';
+import { findingsQuerySchema } from '@/lib/schemas/live';
+import { assignmentIdParamSchema } from '@/lib/schemas/drills';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/**
+ * What the cohort found on a closed assignment (faults found and missed, time to diagnosis,
+ * grades, rules failed) as JSON, or `?format=csv` to download beside the gradebook. 409 while
+ * the assignment is still open: the figures would change under the trainer.
+ */
+export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
+  const { assignment, drill } = await assignmentForWatcher(user, id);
+  const { format } = parseQuery(req, findingsQuerySchema);
+  if (assignmentState(assignment) !== 'closed') throw new ApiError(409, 'The findings open when the assignment closes.');
+  const findings = await buildFindings(assignment, drill);
+  if (format === 'csv') {
+    const file = `findings-${drill.title.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'drill'}.csv`;
+    return new Response(findingsCsv(findings), { headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${file}"`, 'cache-control': 'no-store' } });
+  }
+  return Response.json(findings, { headers: { 'cache-control': 'no-store' } });
+});

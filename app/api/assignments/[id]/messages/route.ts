@@ -1,0 +1,32 @@
+import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
+import { parseJsonBody } from '@/lib/api/body';
+import { requireApiUser } from '@/lib/auth/session';
+import { assignmentForStudent, DRILL_ROLES, STUDENT_ROLES } from '@/lib/drills/access';
+import { assignmentForWatcher } from '@/lib/live/board';
+import { runMessageSchema } from '@/lib/schemas/live';
+import { assignmentIdParamSchema } from '@/lib/schemas/drills';
+import { cohortStudents } from '@/db/drills';
+import { insertRunMessage, listMessagesForStudent } from '@/db/live';
+
+type Ctx = { params: Promise<{ id: string }> };
+
+/** A student's messages on the assignment (to them or to everyone). */
+export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, STUDENT_ROLES);
+  const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
+  const { assignment } = await assignmentForStudent(user, id);
+  return Response.json({ messages: await listMessagesForStudent(assignment.id, user.id) }, { headers: { 'cache-control': 'no-store' } });
+});
+
+/** The drill's trainer (or an admin) posts a hint or message to one student of the cohort, or to all. */
+export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
+  const user = await requireApiUser(req, DRILL_ROLES);
+  const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
+  const { assignment } = await assignmentForWatcher(user, id);
+  const input = await parseJsonBody(req, runMessageSchema, 'form');
+  if (input.to !== null && !(await cohortStudents(assignment.cohortId)).some((s) => s.id === input.to)) {
+    throw new ApiError(422, 'Pick a student of this cohort.', { to: ['Not a student of this cohort.'] });
+  }
+  const message = await insertRunMessage({ assignmentId: assignment.id, userId: input.to, authorId: user.id, kind: input.kind, body: input.body });
+  return Response.json({ message }, { status: 201 });
+});
