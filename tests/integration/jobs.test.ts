@@ -121,6 +121,30 @@ describe('enqueue and run', () => {
   });
 });
 
+describe('several workers', () => {
+  it('share the queue: every job runs once, on one of them', async () => {
+    const logs: string[] = [];
+    for (const name of ['A', 'B']) {
+      workers.push(
+        await startWorker({
+          databaseUrl: URL_,
+          handlers: { [IN_PROCESS_KIND]: async () => testHandler },
+          concurrency: 2,
+          pollingIntervalSeconds: 0.5,
+          log: (l) => logs.push(`${name} ${l}`),
+        }),
+      );
+    }
+    const jobs = await Promise.all(Array.from({ length: 8 }, (_, i) => enqueueTest(IN_PROCESS_KIND, { steps: 3, stepMs: 40, echo: i })));
+    const done = await Promise.all(jobs.map((j) => waitForJob(j.id, ['done'])));
+    expect(done.map((j) => j.attempts)).toEqual(Array(8).fill(1));
+    expect(done.map((j) => (j.result as { echo: number }).echo)).toEqual([0, 1, 2, 3, 4, 5, 6, 7]);
+    for (const j of jobs) expect(logs.filter((l) => l.includes(`${j.id} attempt`))).toHaveLength(1);
+    // Both took part (each runs two at once, and eight jobs of ~120 ms arrive together).
+    expect(new Set(logs.filter((l) => / attempt 1 started/.test(l)).map((l) => l[0])).size).toBe(2);
+  });
+});
+
 describe('failures', () => {
   it('a failing handler is retried a bounded number of times, then ends failed with its error', async () => {
     await inProcessWorker();
