@@ -87,5 +87,6 @@ for _ in $(seq 1 150); do
   if ! kill -0 "$APP_PID" 2>/dev/null; then echo "the app exited during start-up" >&2; exit 1; fi
   sleep 0.2
 done
+if ! kill -0 "$WORKER_PID" 2>/dev/null; then echo "the job worker exited; see .local/log/worker.log" >&2; fi
 print_signins
 wait "$APP_PID"
