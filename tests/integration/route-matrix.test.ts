@@ -35,6 +35,8 @@ import { DRILL_ROUTES } from './drills-matrix-routes';
 import { JOB_ROUTES } from './jobs-matrix-routes';
 import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
 import { EVIDENCE_ROUTES } from './evidence-matrix-routes';
+import { PLC_LINK_ROUTES } from './plc-link-matrix-routes';
+import { LIVE_ROUTES } from './live-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const PUBLIC = (status: number): Record<Actor, number> => ({
@@ -204,6 +206,8 @@ const ROUTES: RouteCase[] = [
   ...JOB_ROUTES,
   ...CHANGEOVER_ROUTES,
   ...EVIDENCE_ROUTES,
+  ...PLC_LINK_ROUTES,
+  ...LIVE_ROUTES,
 ];
 
 /** Server actions would be listed here with the same shape; there are none yet. */
