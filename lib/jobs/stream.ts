@@ -113,6 +113,8 @@ export function jobEventStream(req: Request, subject: string): Response {
         return;
       }
       await snapshot();
+      // Closed while the snapshot was read: no timers to leave behind.
+      if (closed) return;
 
       timers.push(setInterval(() => send(encoder.encode(': keep-alive\n\n')), HEARTBEAT_MS));
       timers.push(
