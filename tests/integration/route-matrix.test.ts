@@ -35,6 +35,7 @@ import { DRILL_ROUTES } from './drills-matrix-routes';
 import { JOB_ROUTES } from './jobs-matrix-routes';
 import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
 import { EVIDENCE_ROUTES } from './evidence-matrix-routes';
+import { PLC_LINK_ROUTES } from './plc-link-matrix-routes';
 import { LIVE_ROUTES } from './live-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
@@ -205,6 +206,7 @@ const ROUTES: RouteCase[] = [
   ...JOB_ROUTES,
   ...CHANGEOVER_ROUTES,
   ...EVIDENCE_ROUTES,
+  ...PLC_LINK_ROUTES,
   ...LIVE_ROUTES,
 ];
 
