@@ -99,7 +99,7 @@ describe('PLC link', () => {
     expect(rows.filter((x) => x.table === 'coil')).toHaveLength(16);
     expect(rows.filter((x) => x.table === 'discrete-input')).toHaveLength(16);
     expect(lines).toContain('coil,0,%QX0.0,controller rack 0 slot 1 channel 0; sheet robotStart,plc-writes');
-    expect(rows).toEqual(registerMap(pickAndPlaceCell));
+    expect(rows).toEqual(registerMap(cellDocumentSchema.parse(pickAndPlaceCell)));
   });
 
   it('a second session on the same port is refused with 409 naming the session that holds it; the per-user cap too', async () => {
