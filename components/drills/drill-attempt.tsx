@@ -17,6 +17,7 @@ import type { CellDocument } from '@/simulator';
 import { createRemoteRun, type RemoteRun } from '@/components/runs/remote-engine';
 import { RunWorkspace, type AreaEditing } from '@/components/runs/run-workspace';
 import { DOWNLOAD_AREAS, type DownloadArea } from '@/components/workspace/download';
+import { RunMessages } from '@/components/live/run-messages';
 import { Markdown } from './markdown';
 import { locationOptions, type LocationOption } from './locations';
 import type { StudentDrillPayload } from '@/lib/drills/access';
@@ -138,6 +139,7 @@ function AttemptHeader({ payload, remote, runId, options }: { payload: StudentDr
           </div>
         ) : null}
       </section>
+      <RunMessages assignmentId={payload.assignmentId} />
       {state.phase === 'failed' ? <Notice tone="error">{state.message}</Notice> : null}
       {state.saving?.fatal ? <Notice tone="error">Your actions are no longer saved: {state.saving.lastError}</Notice> : null}
       <SubmitDialog open={submitOpen} onClose={() => setSubmitOpen(false)} remote={remote} runId={runId} kinds={payload.diagnosisKinds} options={options} />

@@ -68,9 +68,14 @@ export default async function DrillPage({ params }: { params: Promise<{ id: stri
                   <span className="font-mono text-xs text-slate-500">
                     {formatDateTime(a.opensAt)} → {formatDateTime(a.closesAt)}
                   </span>
-                  <Link href={`/gradebook?cohort=${a.cohortId}`} className="text-accent-700 hover:underline">
-                    Gradebook
-                  </Link>
+                  <span className="flex gap-3">
+                    <Link href={`/drills/assignments/${a.id}/live`} className="text-accent-700 hover:underline">
+                      {assignmentState(a) === 'closed' ? 'What the cohort found' : 'Live board'}
+                    </Link>
+                    <Link href={`/gradebook?cohort=${a.cohortId}`} className="text-accent-700 hover:underline">
+                      Gradebook
+                    </Link>
+                  </span>
                 </li>
               ))}
             </ul>
