@@ -20,7 +20,8 @@ import type { User } from '@/db/users';
 import { cellDocumentSchema, pickAndPlaceCell, replay, type CellDocument } from '@/simulator';
 import { templateDocument } from '@/lib/cells/templates';
 import { registerMap } from '@/lib/plc-link/register-map';
-import { stopAllSessions } from '@/lib/plc-link/sessions';
+import { sessionsOf, startSession, stopAllSessions, watchNow } from '@/lib/plc-link/sessions';
+import { db } from '@/db/knex';
 import type { PlcLinkView } from '@/lib/plc-link/sessions';
 import { call, demoUser, makeUser, sessionCookie } from './helpers';
 
@@ -194,5 +195,29 @@ describe('PLC link', () => {
 
     const gone = await call(link.GET, `/api/plc-links/${session.id}`, { cookie: leadCookie, params: { id: session.id } });
     expect(gone.status).toBe(404);
+  });
+
+  it('stops when its owner signs out (session generation moves on) and when nobody views it for the idle timeout', { timeout: 15_000 }, async () => {
+    const owner = await makeUser('trainer');
+    const ownCell = (await createCell({ ownerId: owner.id, name: 'Sign-out bench', origin: 'template', document, message: 'x' })).id;
+    const a = await startSession(owner, { cellId: ownCell, port: OTHER_PORT, linkTimeoutMs: 1000 });
+    await db()('users').where({ id: owner.id }).increment('session_generation', 1);
+    await watchNow();
+    expect(sessionsOf(owner).find((x) => x.id === a.id)).toMatchObject({ status: 'stopped', stopReason: 'stopped: its owner signed out' });
+    const other = await makeUser('lead');
+    const b = await startSession(other, { cellId: (await createCell({ ownerId: other.id, name: 'Idle bench', origin: 'template', document, message: 'x' })).id, port: OTHER_PORT, linkTimeoutMs: 1000 });
+    expect(b.status).toBe('running'); // the port was freed by the signed-out owner's session
+    process.env.PLC_LINK_IDLE_MINUTES = '0.05';
+    try {
+      await sleep(3200);
+      await watchNow();
+    } finally {
+      delete process.env.PLC_LINK_IDLE_MINUTES;
+    }
+    const after = await call(links.GET, '/api/plc-links', { cookie: await sessionCookie(other) });
+    const mine = (after.body as { sessions: { id: string; status: string; stopReason: string }[] }).sessions;
+    expect(mine.find((x) => x.id === b.id)).toMatchObject({ status: 'stopped' });
+    expect(mine.find((x) => x.id === b.id)!.stopReason).toContain('idle');
+    expect(a.id).not.toBe(b.id);
   });
 });
