@@ -10,6 +10,9 @@ import * as liveStream from '@/app/api/assignments/[id]/live/stream/route';
 import * as messagesRoute from '@/app/api/assignments/[id]/messages/route';
 import * as messageStream from '@/app/api/assignments/[id]/messages/stream/route';
 import * as findingsRoute from '@/app/api/assignments/[id]/findings/route';
+import * as startRoute from '@/app/api/assignments/[id]/run/route';
+import * as batchesRoute from '@/app/api/runs/[id]/batches/route';
+import { restartEngine } from '@/lib/runs/service';
 import { closeDb, db } from '@/db/knex';
 import { insertBatch, startAssignmentRun } from '@/db/runs';
 import type { User } from '@/db/users';
@@ -88,6 +91,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  await restartEngine();
   await closeLiveEvents();
   await closeDb();
 });
@@ -125,6 +129,32 @@ describe('the live board', () => {
       const late = await startRun(world, world.students[0]);
       const started = (await stream.waitFor((f) => f.event === 'tile' && (f.data as BoardTile).runId === late)).data as BoardTile;
       expect(started.status).toBe('running');
+    } finally {
+      await stream.close();
+    }
+  });
+
+  it("shows the student's cell in small from the engine thread that runs her batches", async () => {
+    const w = await drillWorld(await makeUser('trainer'), 1);
+    const s = w.students[0];
+    const cookie = await sessionCookie(s);
+    const started = await call(startRoute.POST, `/api/assignments/${w.assignmentId}/run`, { method: 'POST', cookie, params: { id: w.assignmentId } });
+    const runId = (started.body as { run: { id: string } }).run.id;
+    const stream = await openStream(liveStream.GET, `/api/assignments/${w.assignmentId}/live/stream`, w.assignmentId, await sessionCookie(w.trainer));
+    try {
+      await stream.waitFor((f) => f.event === 'board');
+      const posted = await call(batchesRoute.POST, `/api/runs/${runId}/batches`, {
+        method: 'POST', cookie, params: { id: runId },
+        body: { key: 'live-board-cell-1', seq: 1, untilMs: 1500, events: [{ t: 1000, event: { type: 'set-field', device: 'part', active: true } }] },
+      });
+      expect(posted.body).toMatchObject({ seq: 1 });
+      expect(posted.status).toBe(201);
+      const tile = (await stream.waitFor((f) => f.event === 'tile' && (f.data as BoardTile).lastSeq === 1)).data as BoardTile;
+      expect(tile.cell).not.toBeNull();
+      expect(typeof tile.cell!.controller).toBe('string');
+      expect(Object.keys(tile.cell!.handshake).length).toBeGreaterThan(0);
+      // Hidden faults are the trainer's to see on the board.
+      expect(tile.faults.map((f) => f.id)).toEqual(['hiddenStopBreak', 'hiddenPartMismatch']);
     } finally {
       await stream.close();
     }
