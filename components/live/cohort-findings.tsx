@@ -67,10 +67,10 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Fault card', 'Found', 'Missed']} rows={f.faults.map((x) => [x.label, x.found, x.missed])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.faults} layout="vertical" margin={{ left: 16 }}>
+          <BarChart data={f.faults} layout="vertical" margin={{ left: 8, right: 8 }}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis type="number" allowDecimals={false} />
-            <YAxis type="category" dataKey="label" width={120} />
+            <YAxis type="category" dataKey="label" width={150} tick={{ fontSize: 11 }} />
             <Tooltip />
             <Legend />
             <Bar dataKey="found" name="Found" stackId="a" fill={ACCENT} />
@@ -114,10 +114,10 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Rule', 'Failed', 'Inconclusive', 'Passed']} rows={f.rules.map((r) => [r.label, r.failed, r.inconclusive, r.passed])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.rules} layout="vertical" margin={{ left: 16 }}>
+          <BarChart data={f.rules} layout="vertical" margin={{ left: 8, right: 8 }}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis type="number" allowDecimals={false} />
-            <YAxis type="category" dataKey="label" width={120} />
+            <YAxis type="category" dataKey="label" width={150} tick={{ fontSize: 11 }} />
             <Tooltip />
             <Legend />
             <Bar dataKey="failed" name="Failed" stackId="a" fill={SLATE} />
