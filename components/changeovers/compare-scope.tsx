@@ -183,10 +183,10 @@ function Axis({ from, span, x, height }: { from: number; span: number; x: (t: nu
   const ticks = Array.from({ length: 9 }, (_, k) => from + k * step);
   return (
     <g>
-      {ticks.map((t) => (
+      {ticks.map((t, k) => (
         <g key={t}>
           <line x1={x(t)} x2={x(t)} y1={AXIS_H - 2} y2={height} stroke="#334155" />
-          <text x={x(t)} y={13} fontSize={10} fill="#94a3b8" textAnchor="middle" fontFamily="var(--font-mono)">
+          <text x={x(t)} y={13} fontSize={10} fill="#94a3b8" textAnchor={k === ticks.length - 1 ? 'end' : 'middle'} fontFamily="var(--font-mono)">
             {(t / 1000).toFixed(span <= 2000 ? 2 : 1)}s
           </text>
         </g>

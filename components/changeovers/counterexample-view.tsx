@@ -27,7 +27,8 @@ export type CounterexampleViewProps = {
 export function CounterexampleView(props: CounterexampleViewProps) {
   const { document, events, failsAtMs, endMs, scanPeriodMs, ruleTitle, inputs, signals, labels, scans } = props;
   const shown = [...new Set([...signals, ...inputs])];
-  const window = Math.max(200, Math.ceil((endMs * 1.25) / 100) * 100);
+  // A window a little longer than the run, in 50 ms steps, so a few scans fill the plot.
+  const window = Math.max(50, Math.ceil((endMs * 1.25) / 50) * 50);
   const columns = [...inputs, ...signals.filter((s) => !inputs.includes(s))];
   return (
     <div className="space-y-6">

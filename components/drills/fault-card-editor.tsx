@@ -27,26 +27,40 @@ type Props = {
   onRemove: () => void;
 };
 
-/** A select of places; a stored id the cell no longer has stays choosable, marked, so nothing is lost silently. */
-function PlaceSelect({ id, places, current, register, name }: { id: string; places: Place[]; current: string; register: ReturnType<UseFormRegister<DrillFormValues>>; name: string }) {
-  const missing = current && !places.some((p) => p.id === current);
+type PlaceField = `faults.${number}.${'device' | 'row' | 'row2' | 'module'}`;
+
+/**
+ * A select of places, controlled by the form: its options arrive with the base cell, after the
+ * form's values, so an uncontrolled select would lose a stored choice. A stored id the cell
+ * no longer has stays choosable, marked, so nothing is lost silently.
+ */
+function PlaceSelect({ id, places, control, field: name, what }: { id: string; places: Place[]; control: Control<DrillFormValues>; field: PlaceField; what: string }) {
   return (
-    <select id={id} className={cn(inputCls, 'font-mono text-xs')} aria-invalid={Boolean(missing)} {...register}>
-      <option value="">Choose the {name}…</option>
-      {missing ? <option value={current}>{current} (not in this cell)</option> : null}
-      {places.map((p) => (
-        <option key={p.id} value={p.id}>
-          {p.label}
-        </option>
-      ))}
-    </select>
+    <Controller
+      control={control}
+      name={name}
+      render={({ field }) => {
+        const missing = field.value && !places.some((p) => p.id === field.value);
+        return (
+          <select id={id} className={cn(inputCls, 'font-mono text-xs')} aria-invalid={Boolean(missing)} name={field.name} value={field.value} onChange={field.onChange} onBlur={field.onBlur} ref={field.ref}>
+            <option value="">Choose the {what}…</option>
+            {missing ? <option value={field.value}>{field.value} (not in this cell)</option> : null}
+            {places.map((p) => (
+              <option key={p.id} value={p.id}>
+                {p.label}
+              </option>
+            ))}
+          </select>
+        );
+      }}
+    />
   );
 }
 
 export function FaultCardEditor({ index, control, register, err, document, signals, onRemove }: Props) {
   const kind = useWatch({ control, name: `faults.${index}.kind` }) as FaultKind;
   const trigger = useWatch({ control, name: `faults.${index}.trigger` });
-  const [device, row, row2, module] = useWatch({ control, name: [`faults.${index}.device`, `faults.${index}.row`, `faults.${index}.row2`, `faults.${index}.module`] });
+  const row = useWatch({ control, name: `faults.${index}.row` });
   const need = FAULT_FIELDS[kind] ?? [];
   const p = `faults.${index}` as const;
   const devices = document ? devicePlaces(document, kind) : [];
@@ -78,22 +92,22 @@ export function FaultCardEditor({ index, control, register, err, document, signa
         </Labelled>
         {need.includes('device') ? (
           <Labelled id={`${p}.device`} label="Device" error={err(`${p}.device`)} className="md:col-span-2">
-            <PlaceSelect id={`${p}.device`} places={devices} current={device} register={register(`${p}.device`)} name="device" />
+            <PlaceSelect id={`${p}.device`} places={devices} control={control} field={`${p}.device`} what="device" />
           </Labelled>
         ) : null}
         {need.includes('row') || need.includes('rows') ? (
           <Labelled id={`${p}.row`} label={need.includes('rows') ? 'First wire (row)' : 'Wire (row)'} error={err(`${p}.row`)} className="md:col-span-2">
-            <PlaceSelect id={`${p}.row`} places={wires} current={row} register={register(`${p}.row`)} name="wire" />
+            <PlaceSelect id={`${p}.row`} places={wires} control={control} field={`${p}.row`} what="wire" />
           </Labelled>
         ) : null}
         {need.includes('rows') ? (
           <Labelled id={`${p}.row2`} label="Second wire (row)" error={err(`${p}.row2`)} className="md:col-span-2">
-            <PlaceSelect id={`${p}.row2`} places={wires.filter((w) => w.id !== row)} current={row2} register={register(`${p}.row2`)} name="second wire" />
+            <PlaceSelect id={`${p}.row2`} places={wires.filter((w) => w.id !== row)} control={control} field={`${p}.row2`} what="second wire" />
           </Labelled>
         ) : null}
         {need.includes('module') ? (
           <Labelled id={`${p}.module`} label="Module" error={err(`${p}.module`)} className="md:col-span-2">
-            <PlaceSelect id={`${p}.module`} places={modules} current={module} register={register(`${p}.module`)} name="module" />
+            <PlaceSelect id={`${p}.module`} places={modules} control={control} field={`${p}.module`} what="module" />
           </Labelled>
         ) : null}
         {need.includes('periodMs') ? small('periodMs', 'Window (ms)', '1') : null}

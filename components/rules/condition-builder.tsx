@@ -41,7 +41,10 @@ type Props<L extends object> = {
 };
 
 const GROUP_WORDS: Record<GroupOp, string> = { all: 'All of these hold', any: 'Any of these holds' };
-const small = 'inline-flex items-center gap-1 rounded border border-slate-300 bg-white px-1.5 py-0.5 text-xs text-slate-700 hover:bg-slate-100 disabled:opacity-50';
+// cn only joins classes (no merging), so the pressed look is a class set of its own, not an override.
+const smallShape = 'inline-flex items-center gap-1 rounded border px-1.5 py-0.5 text-xs disabled:opacity-50';
+const small = `${smallShape} border-slate-300 bg-white text-slate-700 hover:bg-slate-100`;
+const pressed = `${smallShape} border-accent-700 bg-accent-700 text-white hover:bg-accent-800`;
 
 export function ConditionBuilder<L extends object>({ value, onChange, label, newLeaf, renderLeaf, disabled, maxDepth = 16 }: Props<L>) {
   const numbers = new Map(leaves(value).map((l, i) => [pathKey(l.path), i + 1]));
@@ -63,7 +66,7 @@ export function ConditionBuilder<L extends object>({ value, onChange, label, new
           title="Negate: the condition must not hold"
           disabled={disabled}
           onClick={() => edit((t) => toggleNot(t, target))}
-          className={cn(small, 'mt-1 font-semibold uppercase', negated ? 'border-accent-700 bg-accent-700 text-white hover:bg-accent-800' : 'text-slate-500')}
+          className={cn(negated ? pressed : small, 'mt-1 font-semibold uppercase')}
         >
           not
         </button>
@@ -112,7 +115,7 @@ export function ConditionBuilder<L extends object>({ value, onChange, label, new
             <option value="all">{GROUP_WORDS.all}</option>
             <option value="any">{GROUP_WORDS.any}</option>
           </select>
-          <button type="button" className={small} aria-pressed={notPath !== null} aria-label={`${groupName}: not`} disabled={disabled} onClick={() => edit((t) => toggleNot(t, target))}>
+          <button type="button" className={notPath !== null ? pressed : small} aria-pressed={notPath !== null} aria-label={`${groupName}: not`} disabled={disabled} onClick={() => edit((t) => toggleNot(t, target))}>
             not
           </button>
           {key !== 'root' || notPath ? (

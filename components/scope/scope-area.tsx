@@ -122,7 +122,8 @@ export function ScopeArea({ initialSignals, marks = [], windows = WINDOWS }: Sco
               m.timeMs >= start && m.timeMs <= end ? (
                 <g key={`${m.timeMs}-${m.label}`} data-testid="scope-mark">
                   <line x1={x(m.timeMs)} x2={x(m.timeMs)} y1={AXIS_H - 4} y2={height} stroke="#ef4444" strokeWidth={2} />
-                  <text x={x(m.timeMs) - 3} y={AXIS_H - 6} fontSize={10} fill="#fca5a5" textAnchor="end" fontWeight={700}>
+                  {/* Left of the line, unless that would run into the lane labels. */}
+                  <text x={x(m.timeMs) - LABEL_W < 90 ? x(m.timeMs) + 4 : x(m.timeMs) - 3} y={AXIS_H - 6} fontSize={10} fill="#fca5a5" textAnchor={x(m.timeMs) - LABEL_W < 90 ? 'start' : 'end'} fontWeight={700}>
                     {m.label}
                   </text>
                 </g>
@@ -176,7 +177,7 @@ function TimeAxis({ start, windowMs, x, height }: { start: number; windowMs: num
         <g key={t}>
           <line x1={x(t)} x2={x(t)} y1={AXIS_H - 2} y2={height} stroke="#334155" strokeWidth={1} />
           <text x={x(t)} y={12} fontSize={10} fill="#94a3b8" textAnchor="middle" fontFamily="var(--font-mono)">
-            {(t / 1000).toFixed(windowMs <= 2000 ? 2 : 1)}s
+            {(t / 1000).toFixed(windowMs <= 200 ? 3 : windowMs <= 2000 ? 2 : 1)}s
           </text>
         </g>
       ))}

@@ -50,8 +50,10 @@ export function verdictDetail(v: StoredVerdictBody): string {
   switch (v.status) {
     case 'proved':
       return v.method === 'exhaustive' ? `every reachable state lies within ${v.depth} scans` : `k-induction at depth ${v.depth}`;
-    case 'violated':
-      return `broken after scan ${v.counterexample.failsAtScan + 1} (${v.counterexample.scans.length} scans from power-on)`;
+    case 'violated': {
+      const n = v.counterexample.scans.length;
+      return `broken after scan ${v.counterexample.failsAtScan + 1} (${n} scan${n === 1 ? '' : 's'} from power-on)`;
+    }
     case 'undecided':
       return v.detail;
     case 'error':
