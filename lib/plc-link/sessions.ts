@@ -47,6 +47,8 @@ interface Session {
   startedAt: string;
   status: SessionStatus;
   stopReason: string | null;
+  /** When it stopped or failed (Date.now()), for how long it stays listed. */
+  endedAt: number | null;
   worker: Worker | null;
   map: RegisterMapRow[];
   snapshot: CellSnapshot | null;
@@ -151,6 +153,7 @@ function finish(s: Session, status: 'stopped' | 'failed', reason: string): void 
   if (!live(s)) return;
   s.status = status;
   s.stopReason = reason;
+  s.endedAt = Date.now();
   if (s.health) s.health = { ...s.health, linked: false };
 }
 
@@ -171,7 +174,7 @@ async function watch(): Promise<void> {
   const now = Date.now();
   for (const [id, s] of state().sessions) {
     if (!live(s)) {
-      if (now - Date.parse(s.startedAt) > KEEP_FINISHED_MS && !s.worker) state().sessions.delete(id);
+      if (s.endedAt !== null && now - s.endedAt > KEEP_FINISHED_MS && !s.worker) state().sessions.delete(id);
       continue;
     }
     if (now - s.lastViewedAt > PLC_LINK_IDLE_MINUTES * 60_000) {
@@ -251,6 +254,7 @@ export async function startSession(user: User, input: StartPlcLinkInput): Promis
     startedAt: new Date().toISOString(),
     status: 'starting',
     stopReason: null,
+    endedAt: null,
     worker: null,
     map,
     snapshot: null,
