@@ -14,7 +14,7 @@ export const COHORT_ROLES: readonly Role[] = ['trainer', 'admin'];
 export interface NavItem {
   href: string;
   label: string;
-  icon: 'dashboard' | 'cells' | 'cohorts' | 'users' | 'mailbox' | 'drills' | 'runs' | 'gradebook' | 'changeovers';
+  icon: 'dashboard' | 'cells' | 'cohorts' | 'users' | 'mailbox' | 'drills' | 'runs' | 'gradebook' | 'changeovers' | 'plcLink';
 }
 
 /**
@@ -29,6 +29,8 @@ export function navFor(role: Role): NavItem[] {
   if (role === 'trainer') items.push({ href: '/drills', label: 'Drills', icon: 'drills' }, { href: '/gradebook', label: 'Gradebook', icon: 'gradebook' });
   // The admin reads every changeover and may countersign one.
   if (role !== 'student') items.push({ href: '/changeovers', label: 'Changeovers', icon: 'changeovers' });
+  // A PLC link opens a listening port on the server: trainers and leads run it on a bench (docs/plc-link.md).
+  if (role === 'trainer' || role === 'lead') items.push({ href: '/plc-link', label: 'PLC link', icon: 'plcLink' });
   if (role === 'admin') {
     items.push({ href: '/admin/users', label: 'Users', icon: 'users' });
     items.push({ href: '/admin/mailbox', label: 'Mailbox', icon: 'mailbox' });

@@ -2,11 +2,11 @@
 
 import Link from 'next/link';
 import { usePathname } from 'next/navigation';
-import { Boxes, ClipboardCheck, GitCompareArrows, History, Inbox, LayoutDashboard, Target, Users, UsersRound } from 'lucide-react';
+import { Boxes, Cable, ClipboardCheck, GitCompareArrows, History, Inbox, LayoutDashboard, Target, Users, UsersRound } from 'lucide-react';
 import type { NavItem } from '@/lib/roles';
 import { cn } from './cn';
 
-const ICONS = { dashboard: LayoutDashboard, cells: Boxes, cohorts: UsersRound, users: Users, mailbox: Inbox, drills: Target, runs: History, gradebook: ClipboardCheck, changeovers: GitCompareArrows } as const;
+const ICONS = { dashboard: LayoutDashboard, cells: Boxes, cohorts: UsersRound, users: Users, mailbox: Inbox, drills: Target, runs: History, gradebook: ClipboardCheck, changeovers: GitCompareArrows, plcLink: Cable } as const;
 
 /** The role's navigation; the current area is marked with the accent and aria-current. */
 export function AppNav({ items }: { items: NavItem[] }) {
