@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { PageHeader } from '@/components/ui/card';
 import { RunReplay } from '@/components/replay/run-replay';
+import { FollowLive } from '@/components/live/follow-live';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { runForReader } from '@/lib/runs/access';
@@ -31,6 +32,19 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
   const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
   const violations = hiddenVisible && run.breakdown ? run.breakdown.rules.filter((r) => r.violation).map((r) => ({ timeMs: r.violation!.timeMs, rule: r.label ?? r.id, message: r.violation!.message })) : [];
   const first = violations.sort((a, b) => a.timeMs - b.timeMs)[0] ?? null;
+  const replay = (
+    <RunReplay
+      runId={run.id}
+      document={version.document}
+      faults={hiddenVisible && drill ? drill.faults : null}
+      seed={found.reader !== 'owner' || run.mode === 'practice' ? run.seed : null}
+      hiddenVisible={hiddenVisible}
+      mode={run.mode}
+      violation={first}
+    />
+  );
+  // A running student's drill run, watched by the drill's trainer or an admin: followed from the live board's stream.
+  const following = found.reader !== 'owner' && run.assignmentId !== null && run.status === 'active';
   return (
     <>
       <PageHeader
@@ -42,15 +56,13 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
           </Link>
         }
       />
-      <RunReplay
-        runId={run.id}
-        document={version.document}
-        faults={hiddenVisible && drill ? drill.faults : null}
-        seed={found.reader !== 'owner' || run.mode === 'practice' ? run.seed : null}
-        hiddenVisible={hiddenVisible}
-        mode={run.mode}
-        violation={first}
-      />
+      {following && run.assignmentId ? (
+        <FollowLive assignmentId={run.assignmentId} runId={run.id}>
+          {replay}
+        </FollowLive>
+      ) : (
+        replay
+      )}
     </>
   );
 }
