@@ -111,7 +111,16 @@ export function PlcLinkSession({ initial, map }: { initial: PlcLinkView; map: Re
         {link.tone === 'lost' ? (
           <p className="mb-3 text-sm text-red-800">The PLC has been silent longer than the timeout: every coil and holding register is off until it writes again.</p>
         ) : null}
-        {view.stopReason ? <p className="mb-3 text-sm text-slate-700">Session {view.stopReason}.</p> : null}
+        {view.stopReason ? (
+          <p className="mb-3 text-sm text-slate-700">
+            Session {view.stopReason}.{' '}
+            {view.runId ? (
+              <a className="text-accent-800 underline" href={`/runs/${view.runId}/replay`}>
+                Replay the PLC&apos;s run
+              </a>
+            ) : null}
+          </p>
+        ) : null}
         <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-3 lg:grid-cols-6">
           <div>
             <dt className="text-slate-500">Server</dt>
