@@ -5,7 +5,7 @@ import { findDrill } from '@/db/drills';
 import { listSubmittedRunsOfDrill, type Run } from '@/db/runs';
 import { regrade } from '@/lib/runs/service';
 import { PermanentJobError } from '@/lib/jobs/errors';
-import type { JobContext } from '@/lib/jobs/registry';
+import type { JobContext } from '@/lib/jobs/handler';
 import type { DrillRegradeReport, RegradeDifference } from './regrade-report';
 
 /**
