@@ -96,6 +96,11 @@ export function ChecksSection({ changeoverId, cellId, canEdit }: Props) {
         ) : null}
       </div>
       {run.error ? <Notice tone="error">{run.error.message}</Notice> : null}
+      {ev.failed.checks && !ev.open.checks ? (
+        <Notice tone="error">
+          The last scenario checks job ({formatDateTime(ev.failed.checks.createdAt)}) failed: {ev.failed.checks.error ?? 'no reason was recorded'}. The outcomes below are from the run before it.
+        </Notice>
+      ) : null}
       {open ? <RunProgress changeoverId={changeoverId} run={open} what="Checks" /> : null}
       {last ? (
         <p className="text-xs text-slate-500" data-testid="checks-last-run">

@@ -106,6 +106,11 @@ export function ProofsSection({ changeoverId, cellId, canEdit }: Props) {
         ) : null}
       </div>
       {run.error ? <Notice tone="error">{run.error.message}</Notice> : null}
+      {ev.failed.proofs && !ev.open.proofs ? (
+        <Notice tone="error">
+          The last proofs job ({formatDateTime(ev.failed.proofs.createdAt)}) failed: {ev.failed.proofs.error ?? 'no reason was recorded'}. The verdicts below are from the run before it.
+        </Notice>
+      ) : null}
       {open ? <RunProgress changeoverId={changeoverId} run={open} what="Proofs" /> : null}
       {last ? (
         <p className="text-xs text-slate-500" data-testid="proofs-last-run">

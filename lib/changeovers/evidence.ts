@@ -87,6 +87,8 @@ export type Evidence = {
 export type EvidenceDetail = Evidence & {
   runs: { proofs: EvidenceRun | null; checks: EvidenceRun | null };
   open: { proofs: EvidenceRun | null; checks: EvidenceRun | null };
+  /** The newest run of each kind when it failed (its `error` says why), else null. */
+  failed: { proofs: EvidenceRun | null; checks: EvidenceRun | null };
   current: { rules: number; scenarios: number; rulesSha256: string; scenariosSha256: string };
 };
 
@@ -157,7 +159,8 @@ const versions = (r: { baseVersion: number; proposedVersion: number }) => `versi
 export async function loadEvidenceDetail(changeoverId: string, known?: Changeover): Promise<EvidenceDetail> {
   const co = known ?? (await findChangeover(changeoverId));
   if (!co) throw new Error(`changeover ${changeoverId} is missing`);
-  const [proofsRun, checksRun, openProofs, openChecks, acceptances, rules, scenarios] = await Promise.all([
+  // The newest runs of each kind, whatever their state: one under way, or one that failed.
+  const [proofsRun, checksRun, latestProofs, latestChecks, acceptances, rules, scenarios] = await Promise.all([
     latestDoneEvidenceRun(co.id, 'proofs'),
     latestDoneEvidenceRun(co.id, 'checks'),
     latestEvidenceRun(co.id, 'proofs'),
@@ -182,8 +185,8 @@ export async function loadEvidenceDetail(changeoverId: string, known?: Changeove
   // Worded as the sign-off words it (lib/changeovers/sign-off.ts), which lists each sentence once.
   if (co.pinnedVersion === null) blockers.push('The proposal is not pinned yet: pin it and run the checks, so the signatures cover one fixed version.');
   const isOpen = (r: EvidenceRun | null) => r !== null && (r.status === 'queued' || r.status === 'running');
-  if (isOpen(openProofs)) blockers.push('The proofs are running.');
-  if (isOpen(openChecks)) blockers.push('The scenario checks are running.');
+  if (isOpen(latestProofs)) blockers.push('The proofs are running.');
+  if (isOpen(latestChecks)) blockers.push('The scenario checks are running.');
 
   if (rules.length === 0) blockers.push('The cell keeps no interlock rules: state at least one rule the change must keep.');
   else if (!proofsRun) blockers.push('The proofs have not run.');
@@ -208,7 +211,8 @@ export async function loadEvidenceDetail(changeoverId: string, known?: Changeove
     blockers,
     ranOn: ranFrom ? { baseVersion: ranFrom.baseVersion, proposedVersion: ranFrom.proposedVersion } : null,
     runs: { proofs: proofsRun, checks: checksRun },
-    open: { proofs: isOpen(openProofs) ? openProofs : null, checks: isOpen(openChecks) ? openChecks : null },
+    open: { proofs: isOpen(latestProofs) ? latestProofs : null, checks: isOpen(latestChecks) ? latestChecks : null },
+    failed: { proofs: latestProofs?.status === 'failed' ? latestProofs : null, checks: latestChecks?.status === 'failed' ? latestChecks : null },
     current: { rules: rules.length, scenarios: scenarios.length, rulesSha256, scenariosSha256 },
   };
 }

@@ -253,3 +253,18 @@ describe('who may see and do what', () => {
     expect((await call(rulesRoute.GET, `/x`, { cookie: await sessionCookie(await demoUser('ada.lindqvist@kestrelvale.test')), params: { id: cellId } })).status).toBe(403);
   });
 });
+
+describe('a job that fails', () => {
+  it('fails its run with the reason, which the evidence shows, and the job for good', async () => {
+    const { changeover } = await evidenceChangeover(lead, { scenarios: false });
+    const res = await call(proofsRoute.POST, `/x`, { method: 'POST', cookie: leadCookie, params: { id: changeover.id } });
+    const runId = (res.body as { run: { id: string } }).run.id;
+    // The proposal's version disappears under the run (as a broken restore would leave it).
+    await db()('changeover_evidence_runs').where({ id: runId }).update({ proposed_version: 99 });
+    await expect(runChangeoverProofs({ changeoverId: changeover.id, runId })).rejects.toMatchObject({ name: 'PermanentJobError' });
+    const { evidence } = await evidenceOf(changeover.id);
+    expect(evidence.open.proofs).toBeNull();
+    expect(evidence.failed.proofs).toMatchObject({ id: runId, status: 'failed', error: expect.stringMatching(/version 99/) });
+    expect(evidence.blockers).toContain('The proofs have not run.');
+  });
+});
