@@ -10,8 +10,8 @@ import type { RegisterMapRow } from '@/lib/plc-link/register-map';
 import type { PlcLinkView } from '@/lib/plc-link/sessions';
 import type { CellSnapshot } from '@/simulator';
 
-/** The drill attempt's remote engine polls every 100 ms; the worker reports every 250 ms, so polling faster shows nothing new. */
-const POLL_MS = 250;
+/** The drill attempt's rate (components/runs/remote-engine.ts polls every 100 ms); the worker reports as often. */
+const POLL_MS = 100;
 
 const TABLE_NAMES: Record<RegisterMapRow['table'], string> = {
   coil: 'Coil',

@@ -131,7 +131,7 @@ function start(): void {
     const log = cell.eventLog(reported);
     reported += log.length;
     post({ type: 'state', snapshot: cell.snapshot(), health: health(), events: log, timeMs: cell.timeMs });
-  }, data.reportEveryMs ?? 250);
+  }, data.reportEveryMs ?? 100);
 
   let done = false;
   function shutdown(final: boolean) {
