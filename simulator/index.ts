@@ -211,7 +211,8 @@ export {
  * field changes, plus a `summary` of counts per area for a signed record.
  * `ioChangeSheet(diff, base, proposed)` → `{ rows, csv }`: what electricians re-terminate,
  * CSV cells neutralised against formula injection (`neutraliseCsvCell`).
- * The headless `diff` command is `diffCommand` in simulator/diff/cli.ts.
+ * The headless `diff` command is `diffCommand` (simulator/diff/cli.ts; the runner in scripts/cell-cli
+ * passes it the file system and the streams).
  */
 export type {
   CellDiff,
@@ -229,6 +230,7 @@ export type {
   IoChangeSheet,
 } from './diff';
 export { diffCells, ioChangeSheet, ioChangeCsv, neutraliseCsvCell, IO_CHANGE_COLUMNS, DIFF_AREAS, DIFF_KINDS, DIFF_FORMAT_VERSION } from './diff';
+export { diffCommand } from './diff/cli';
 // ---- end diff
 
 // ---- proofs (interlock prover: simulator/prove/)
@@ -244,7 +246,8 @@ export { diffCells, ioChangeSheet, ioChangeCsv, neutraliseCsvCell, IO_CHANGE_COL
  * word blocks were encoded (exact, or abstracted as free). Pure and deterministic; the
  * caller limits wall time. `counterexampleEvents(cex, document)` turns a counterexample into
  * logged `force` events that replay it on a cell. The headless `prove` command is
- * `proveCommand` in simulator/prove/cli.ts.
+ * `proveCommand` (simulator/prove/cli.ts; the runner in scripts/cell-cli passes it the file
+ * system and the streams).
  */
 export type { RuleCondition, InterlockRule, InterlockRuleInput, SignalLabels, EncodingNote, ProveOptions, Counterexample, Verdict } from './prove';
 export {
@@ -262,6 +265,7 @@ export {
   counterexampleEvents,
   counterexampleFailsAtMs,
 } from './prove';
+export { proveCommand } from './prove/cli';
 // ---- end proofs
 
 // ---- logic exchange (a logic sheet leaves and re-enters Cellwright: simulator/exchange/)

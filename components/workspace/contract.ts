@@ -74,13 +74,45 @@ import { shallow } from 'zustand/shallow';
 import type { StoreApi } from 'zustand/vanilla';
 import type { CellDocument, CellSnapshot, CellEvent, DownloadEvent, LoggedEvent, Problem } from '@/simulator';
 import type { DownloadArea } from './download';
-import type { EngineFactory } from './store';
-import type { TraceChunk } from './engine-protocol';
+import type { RunSpeed, TraceChunk } from './engine-protocol';
 
 export type { CellDocument, CellSnapshot, CellEvent, LoggedEvent, Problem };
 
-/** Run speed: real time, ten times real time, or as fast as the worker can go. */
-export type RunSpeed = 1 | 10 | 'max';
+export type { RunSpeed };
+
+/** What the store needs from an engine (the worker adapter in engine-connection.ts, or a fake). */
+export type EngineConnection = {
+  load(document: CellDocument): void;
+  send(event: CellEvent): void;
+  run(speed: RunSpeed): void;
+  pause(): void;
+  stepScan(): void;
+  getEventLog(): Promise<LoggedEvent[]>;
+  dispose(): void;
+  /**
+   * True when a reload cannot reach the running cell (a drill's cell runs on the server and
+   * hears events only): edits then stay in the document until `downloadEdits` sends them.
+   */
+  keepsRunOnEdit?: boolean;
+};
+
+/** Where the engine pushes its results. */
+export type EngineSink = {
+  snapshot(snapshot: CellSnapshot): void;
+  /** Exact signal changes; never coalesced (unlike snapshots), so no edge is lost. */
+  trace(chunk: TraceChunk): void;
+  patch(patch: Partial<EngineState>): void;
+  /**
+   * The engine took `event` (the worker applied it; a server-side run stored it). Optional for
+   * connections that cannot tell; the store uses it to settle downloads still in flight.
+   * A refusal is reported through `patch({ lastRejection })`.
+   */
+  accepted?(event: CellEvent): void;
+};
+
+/** Builds an engine connection for a store; receives the sink it reports into. */
+export type EngineFactory = (sink: EngineSink) => EngineConnection;
+
 
 /** What can be selected; the id is a device id, block id, point ref (`DI3`), PLC address (`%IX0.0`) or wiring row id. */
 export type SelectionKind = 'device' | 'block' | 'point' | 'address' | 'wire';

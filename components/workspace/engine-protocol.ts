@@ -3,7 +3,9 @@
  * only, so they cross `postMessage` without surprises.
  */
 import type { CellDocument, CellEvent, LoggedEvent, CellSnapshot, Problem } from '@/simulator';
-import type { RunSpeed } from './contract';
+
+/** Run speed: real time, ten times real time, or as fast as the worker can go. */
+export type RunSpeed = 1 | 10 | 'max';
 
 /** Main thread → worker. */
 export type ToEngine =

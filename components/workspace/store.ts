@@ -4,46 +4,16 @@
  * run it without a Web Worker and the worker stays replaceable.
  */
 import { createStore } from 'zustand/vanilla';
-import type { CellDocument, CellEvent, DownloadEvent, LoggedEvent, CellSnapshot, Problem } from '@/simulator';
+import type { CellDocument, DownloadEvent, Problem } from '@/simulator';
 import type { TraceChunk } from './engine-protocol';
 import { afterDownload, downloadEvent, revertRefused, type DownloadInFlight } from './download';
-import type { EngineState, HistoryEntry, RunSpeed, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
+import type { EngineConnection, EngineFactory, EngineState, HistoryEntry, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
+
+/** The engine side of the store (defined with the rest of its shape in contract.ts). */
+export type { EngineConnection, EngineFactory, EngineSink } from './contract';
 
 /** Undo depth; older steps fall off (a document is small, but hours of editing add up). */
 export const HISTORY_LIMIT = 100;
-
-/** What the store needs from an engine (the worker adapter in engine-connection.ts, or a fake). */
-export type EngineConnection = {
-  load(document: CellDocument): void;
-  send(event: CellEvent): void;
-  run(speed: RunSpeed): void;
-  pause(): void;
-  stepScan(): void;
-  getEventLog(): Promise<LoggedEvent[]>;
-  dispose(): void;
-  /**
-   * True when a reload cannot reach the running cell (a drill's cell runs on the server and
-   * hears events only): edits then stay in the document until `downloadEdits` sends them.
-   */
-  keepsRunOnEdit?: boolean;
-};
-
-/** Where the engine pushes its results. */
-export type EngineSink = {
-  snapshot(snapshot: CellSnapshot): void;
-  /** Exact signal changes; never coalesced (unlike snapshots), so no edge is lost. */
-  trace(chunk: TraceChunk): void;
-  patch(patch: Partial<EngineState>): void;
-  /**
-   * The engine took `event` (the worker applied it; a server-side run stored it). Optional for
-   * connections that cannot tell; the store uses it to settle downloads still in flight.
-   * A refusal is reported through `patch({ lastRejection })`.
-   */
-  accepted?(event: CellEvent): void;
-};
-
-/** Builds an engine connection for a store; receives the sink it reports into. */
-export type EngineFactory = (sink: EngineSink) => EngineConnection;
 
 /** Why a force/unforce was refused in a workspace that does not allow forcing. */
 export const FORCE_NOT_ALLOWED = 'Forcing is not allowed in this drill.';

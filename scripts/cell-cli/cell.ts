@@ -1,5 +1,7 @@
 /**
  * Headless runner: `npm run cell -- <subcommand> ...` (docs/engine.md, "Headless runner").
+ * It reads and writes files, so it lives outside the pure engine and uses the engine's entry
+ * (`@/simulator`) like any other caller.
  *
  *   validate <cell.json>
  *   run <cell.json> --events <events.json> --for <duration> [--trace <sig,sig>] [--rules <rules.json>]
@@ -8,16 +10,13 @@
  *   schema [<out-dir>]
  *
  * Output is JSON on stdout. Exit codes: 0 success, 1 problems found or a rule failed,
- * 2 usage error or unreadable file. This file is the only one in simulator/ that touches
- * the file system; the engine itself stays pure.
+ * 2 usage error or unreadable file. The runner owns the file system and the process streams;
+ * the `prove` and `diff` commands get them injected.
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { CELL_LIMITS, checkRules, hashTrace, replay, ruleSignals, rulesSchema, signalNamesOf, validateCellDocument, type Problem } from '@/simulator/index';
-import { cellJsonSchemas } from '@/simulator/schema/json-schema';
-import { documentTooLarge } from '@/simulator/schema/validate';
-import { proveCommand } from '@/simulator/prove/cli';
-import { diffCommand } from '@/simulator/diff/cli';
+import { CELL_LIMITS, checkRules, diffCommand, hashTrace, proveCommand, replay, ruleSignals, rulesSchema, signalNamesOf, validateCellDocument, type Problem } from '@/simulator';
+import { cellJsonSchemas } from './json-schema';
 
 type Exit = 0 | 1 | 2;
 
@@ -50,8 +49,9 @@ function readJson(path: string, what: string): { ok: true; value: unknown } | { 
   } catch (e) {
     return { ok: false, problem: { path: [], code: 'unreadable_file', message: `cannot read ${what} ${path}: ${(e as Error).message}` } };
   }
-  const big = documentTooLarge(text);
-  if (big) return { ok: false, problem: { ...big, message: `${what}: ${big.message}` } };
+  if (text.length > CELL_LIMITS.documentChars) {
+    return { ok: false, problem: { path: [], code: 'too_large', message: `${what}: the document has ${text.length} characters; the limit is ${CELL_LIMITS.documentChars}` } };
+  }
   try {
     return { ok: true, value: JSON.parse(text) };
   } catch (e) {
@@ -174,10 +174,10 @@ function schema(dir: string | undefined): Exit {
 function main(argv: string[]): Exit {
   const [cmd, ...rest] = argv;
   // prove and diff parse their own arguments (simulator/prove/cli.ts, simulator/diff/cli.ts).
-  if (cmd === 'prove') return proveCommand(rest);
-  if (cmd === 'diff') {
-    return diffCommand(rest, { readText: (p) => readFileSync(p, 'utf8'), stdout: (t) => void process.stdout.write(t), stderr: (t) => void process.stderr.write(t) });
-  }
+  const stdout = (t: string) => void process.stdout.write(t);
+  const stderr = (t: string) => void process.stderr.write(t);
+  if (cmd === 'prove') return proveCommand(rest, { readFile: (p) => readFileSync(p, 'utf8'), stdout, stderr });
+  if (cmd === 'diff') return diffCommand(rest, { readText: (p) => readFileSync(p, 'utf8'), stdout, stderr });
   const parsed = options(rest);
   if (typeof parsed === 'string') {
     process.stderr.write(`${parsed}\n${USAGE}\n`);

@@ -4,10 +4,7 @@
  * syntax checks) are enforced only by `validateCellDocument`.
  */
 import { z } from 'zod';
-import { cellDocumentSchema } from './cell-document';
-import { eventLogSchema } from '@/simulator/cell/events';
-import { rulesSchema } from '@/simulator/trace/rules';
-import { faultCardSchema } from '@/simulator/faults/fault-card';
+import { cellDocumentSchema, eventLogSchema, faultCardSchema, rulesSchema } from '@/simulator';
 
 /** JSON Schemas of the cell document, event log, rules file and fault card, by file stem. */
 export function cellJsonSchemas(): Record<'cell' | 'events' | 'rules' | 'fault-card', unknown> {

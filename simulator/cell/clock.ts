@@ -8,3 +8,6 @@
 export function nextScanMs(timeMs: number, periodMs: number): number {
   return (Math.floor(timeMs / periodMs) + 1) * periodMs;
 }
+
+/** The cell's current time, shared by the parts that read it (ms of cell time). */
+export type Clock = { now: number };

@@ -1,6 +1,6 @@
 /**
  * The headless `diff` command: `npm run cell -- diff <base.json> <proposed.json> [--io-sheet]`.
- * The runner (simulator/cli/cell.ts) hands it the arguments after `diff` and an `io` over the
+ * The runner (scripts/cell-cli/cell.ts) hands it the arguments after `diff` and an `io` over the
  * file system and the process streams; this file itself touches neither, so it is tested in
  * memory and the engine stays pure.
  *
@@ -60,7 +60,7 @@ function load(path: string, document: 'base' | 'proposed', io: DiffCliIo): Loade
  * `--io-sheet` the change sheet CSV; on bad documents `{ ok: false, problems }`.
  *
  * @example
- *   // in simulator/cli/cell.ts
+ *   // in scripts/cell-cli/cell.ts
  *   case 'diff': return diffCommand(rest, { readText: (p) => readFileSync(p, 'utf8'),
  *     stdout: (t) => process.stdout.write(t), stderr: (t) => process.stderr.write(t) });
  */

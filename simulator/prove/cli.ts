@@ -1,5 +1,5 @@
 /**
- * The headless `prove` command, for the runner in simulator/cli/cell.ts to dispatch to:
+ * The headless `prove` command, for the runner in scripts/cell-cli/cell.ts to dispatch to:
  *
  *   prove <cell.json> <rules.json> [--max-depth <n>] [--budget <n>] [--timer-horizon <n>]
  *   prove <cell.json> --rules <rules.json> [...]
@@ -8,10 +8,9 @@
  * `events` that replay its counterexample (`run <cell.json> --events <file>`). Exit codes
  * as the runner's: 0 nothing violated, 1 a rule is violated or the files hold problems,
  * 2 usage error or unreadable file. Undecided rules do not fail the command; the summary
- * counts them. File reading is injected (`io`) so tests need no files; the default reads
- * with node:fs, like the runner itself.
+ * counts them. File reading and the output streams are injected (`io`): the runner passes
+ * the file system, tests pass memory, and the engine itself never touches either.
  */
-import { readFileSync } from 'node:fs';
 import type { Problem } from '@/simulator/shared/result';
 import { documentTooLarge } from '@/simulator/schema/validate';
 import { counterexampleEvents } from './counterexample-events';
@@ -22,12 +21,6 @@ export type ProveIo = {
   readFile(path: string): string;
   stdout(text: string): void;
   stderr(text: string): void;
-};
-
-const defaultIo: ProveIo = {
-  readFile: (path) => readFileSync(path, 'utf8'),
-  stdout: (text) => process.stdout.write(text),
-  stderr: (text) => process.stderr.write(text),
 };
 
 /** Usage text of the command. */
@@ -64,7 +57,7 @@ function readJson(io: ProveIo, path: string, what: string): Read {
  * Runs `prove` with the arguments after the subcommand name; returns the exit code
  * (0 nothing violated, 1 a violation or problems in the files, 2 usage or unreadable file).
  */
-export function proveCommand(argv: string[], io: ProveIo = defaultIo): 0 | 1 | 2 {
+export function proveCommand(argv: string[], io: ProveIo): 0 | 1 | 2 {
   const positional: string[] = [];
   const options: ProveOptions = {};
   let rulesPath: string | undefined;

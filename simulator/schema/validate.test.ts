@@ -134,19 +134,6 @@ describe('property: the schema rejects malformed documents with paths, never thr
   });
 });
 
-describe('exported JSON Schemas', () => {
-  it('docs/schema holds the current export (regenerate with `npm run cell -- schema docs/schema`)', async () => {
-    const { cellJsonSchemas } = await import('./json-schema');
-    const { readFileSync } = await import('node:fs');
-    const all = cellJsonSchemas();
-    for (const [name, schema] of Object.entries(all)) {
-      const file = JSON.parse(readFileSync(new URL(`../../docs/schema/${name}.schema.json`, import.meta.url), 'utf8'));
-      expect(file).toEqual(JSON.parse(JSON.stringify(schema)));
-    }
-    expect((all.cell as { required: string[] }).required).toEqual(expect.arrayContaining(['schemaVersion', 'panel', 'wiring', 'controller']));
-  });
-});
-
 describe('staged rows must keep the points in use mapped', () => {
   it('refuses a staged edit that unmaps a routine point', async () => {
     const { validateStagedRows } = await import('./validate');

@@ -6,7 +6,7 @@ import { join } from 'node:path';
 
 const ex = (f: string) => join('simulator/demo/examples', f);
 function cli(...args: string[]) {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', 'simulator/cli/cell.ts', ...args], { encoding: 'utf8', timeout: 60_000 });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/cell-cli/cell.ts', ...args], { encoding: 'utf8', timeout: 60_000 });
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 
@@ -64,4 +64,17 @@ describe('headless runner', () => {
     expect(diff.summary.identical).toBe(false);
     expect(changed.out).toContain('scanPeriodMs');
   }, 60_000);
+});
+
+describe('exported JSON Schemas', () => {
+  it('docs/schema holds the current export (regenerate with `npm run cell -- schema docs/schema`)', async () => {
+    const { cellJsonSchemas } = await import('@/scripts/cell-cli/json-schema');
+    const { readFileSync } = await import('node:fs');
+    const all = cellJsonSchemas();
+    for (const [name, schema] of Object.entries(all)) {
+      const file = JSON.parse(readFileSync(`docs/schema/${name}.schema.json`, 'utf8'));
+      expect(file).toEqual(JSON.parse(JSON.stringify(schema)));
+    }
+    expect((all.cell as { required: string[] }).required).toEqual(expect.arrayContaining(['schemaVersion', 'panel', 'wiring', 'controller']));
+  });
 });
