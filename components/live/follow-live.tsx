@@ -3,20 +3,25 @@ import { useEffect, useState, type ReactNode } from 'react';
 import type { Board, BoardTile } from '@/lib/live/types';
 import { useLiveStream } from './use-live-stream';
 
-/** Catch-ups at most this often while following, so a student's steady batches do not reload the replay every second. */
-const CATCH_UP_MS = 5000;
+/**
+ * Automatic catch-ups at most this often: each one reloads the replay, and the replay's trace is
+ * a whole-log simulation on the server's heavy pool metered to the watcher (a catch-up every few
+ * seconds spends the trainer's engine share and gets 503s).
+ */
+const CATCH_UP_MS = 30_000;
 
 /**
  * Follows a running student's run from the live board's stream (the trainer's and admin's view):
- * when new batches arrive, the read-only replay below is mounted again on the stored log, at
- * once when "Follow live" is on, else with "Catch up". Pushed, not polled: nothing happens
+ * the line above the replay shows where the run stands as each batch arrives (free: pushed
+ * facts), and the read-only replay below is mounted again on the stored log with "Catch up",
+ * or by itself at most every 30 s when "Follow live" is on. Pushed, not polled: nothing happens
  * until the stream says the run moved.
  */
 export function FollowLive({ assignmentId, runId, children }: { assignmentId: string; runId: string; children: ReactNode }) {
   const [tile, setTile] = useState<BoardTile | null>(null);
   const [shownSeq, setShownSeq] = useState<number | null>(null);
   const [generation, setGeneration] = useState(0);
-  const [follow, setFollow] = useState(true);
+  const [follow, setFollow] = useState(false);
   const [caughtUpAt, setCaughtUpAt] = useState(0);
   const connection = useLiveStream(`/api/assignments/${assignmentId}/live/stream`, {
     board: (d) => {

@@ -46,8 +46,21 @@ test('the trainer watches a student on the live board and sends her a hint', asy
   await messages.getByRole('button', { name: 'Send' }).click();
   await expect(trainer.getByTestId('live-messages')).toContainText('Meter the stop circuit before you reset.');
   await expect(student.getByTestId('run-messages')).toContainText('Meter the stop circuit before you reset.');
+  if (SHOTS) await trainer.screenshot({ path: `${SHOTS}/live-board.png`, fullPage: true });
+
+  // A click opens her run read-only, following it from the board's stream.
+  await adaTile.click();
+  await trainer.waitForURL(/\/runs\/[0-9a-f-]{36}\/replay$/);
+  const follow = trainer.getByTestId('follow-live');
+  await expect(follow).toContainText('Live');
+  await expect(follow).toContainText('running');
+  // Her batches keep arriving while she runs; the trainer catches the replay up with them.
+  await expect(follow).toContainText('since this replay was loaded', { timeout: 20_000 });
+  await student.getByRole('group', { name: 'Run controls' }).getByRole('button', { name: 'Pause' }).click();
+  await follow.getByRole('button', { name: 'Catch up' }).click();
+  await expect(trainer.getByTestId('replay')).toBeVisible({ timeout: 60_000 });
   if (SHOTS) {
-    await trainer.screenshot({ path: `${SHOTS}/live-board.png`, fullPage: true });
+    await trainer.screenshot({ path: `${SHOTS}/live-follow.png`, fullPage: true });
     await student.screenshot({ path: `${SHOTS}/live-student.png` });
   }
 });
