@@ -101,6 +101,22 @@ export function GradebookView({ cohorts, cohortId }: { cohorts: { id: string; na
           </a>
         ) : null}
       </div>
+      {book && book.columns.some((c) => c.state === 'closed') ? (
+        <p className="text-sm text-slate-600" data-testid="gradebook-findings">
+          What the cohort found (closed drills):{' '}
+          {book.columns
+            .filter((c) => c.state === 'closed')
+            .map((c, i) => (
+              <span key={c.assignmentId}>
+                {i > 0 ? ' · ' : ''}
+                <a href={`/drills/assignments/${c.assignmentId}/live`} className="text-accent-700 hover:underline">
+                  {c.drillTitle}
+                </a>{' '}
+                (<a href={`/api/assignments/${c.assignmentId}/findings?format=csv`} className="text-accent-700 hover:underline">CSV</a>)
+              </span>
+            ))}
+        </p>
+      ) : null}
       {q.isError ? <Notice tone="error">{q.error instanceof Error ? q.error.message : 'The gradebook could not be loaded.'}</Notice> : null}
       {q.isLoading ? <p className="text-sm text-slate-500">Loading…</p> : null}
       {book ? (
