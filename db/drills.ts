@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import type { FaultCard } from '@/simulator';
 import type { DrillInput, DrillPermissions, WeightedRule } from '@/lib/schemas/drills';
+import { notClosedSince } from '@/lib/drills/assignment-window';
 import { drillColumns } from './drill-columns';
 import { db } from './knex';
 import { isUuid } from './users';
@@ -220,7 +221,7 @@ export async function hasUnclosedAssignmentFor(drillId: string, userId: string):
   const row = await db()('assignments as a')
     .join('memberships as m', 'm.cohort_id', 'a.cohort_id')
     .where({ 'a.drill_id': drillId, 'm.user_id': userId })
-    .where('a.closes_at', '>', db().fn.now())
+    .where('a.closes_at', '>=', notClosedSince())
     .first('a.id');
   return Boolean(row);
 }

@@ -18,7 +18,7 @@ import { ArmView } from '@/components/controller/arm-view';
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';
 import { formatCellTime, humanise } from '@/components/workspace/format';
 import type { EngineFactory, EngineSink } from '@/components/workspace/store';
-import type { CellDocument, FaultCard, LoggedEvent } from '@/simulator';
+import { nextScanMs, type CellDocument, type FaultCard, type LoggedEvent } from '@/simulator';
 import { createReplay, type Replay } from './replay-engine';
 
 type EventsPage = { events: LoggedEvent[]; page: number; pages: number; untilMs: number };
@@ -185,7 +185,7 @@ export function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, viol
               <button type="button" onClick={() => show(Math.max(0, (Math.ceil(t / scan) - 1) * scan))} className="inline-flex items-center gap-1 rounded px-2 py-1 text-xs ring-1 ring-slate-600" aria-label="Step back one scan">
                 <ChevronsLeft aria-hidden className="h-3.5 w-3.5" /> Scan
               </button>
-              <button type="button" onClick={() => show((Math.floor(t / scan) + 1) * scan)} className="inline-flex items-center gap-1 rounded px-2 py-1 text-xs ring-1 ring-slate-600" aria-label="Step one scan" data-testid="replay-step">
+              <button type="button" onClick={() => show(nextScanMs(t, scan))} className="inline-flex items-center gap-1 rounded px-2 py-1 text-xs ring-1 ring-slate-600" aria-label="Step one scan" data-testid="replay-step">
                 Scan <ChevronsRight aria-hidden className="h-3.5 w-3.5" />
               </button>
               <button type="button" onClick={() => show(replay?.nextEventAfter(t) ?? endMs)} className="inline-flex items-center gap-1 rounded px-2 py-1 text-xs ring-1 ring-slate-600" aria-label="Next event" data-testid="replay-next-event">

@@ -10,6 +10,7 @@ import { useCallback, useEffect, useMemo, useState } from 'react';
 import Link from 'next/link';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
+import { LIMITS } from '@/lib/runs/policy';
 import type { CellDocument } from '@/simulator';
 import { DOWNLOAD_AREAS } from '@/components/workspace/download';
 import { StatusStrip } from '@/components/workspace/status-strip';
@@ -23,8 +24,8 @@ function randomSeed(): number {
   return crypto.getRandomValues(new Uint32Array(1))[0];
 }
 
-/** The server follows a recorded practice run at most ×10 ahead of its age (lib/runs/policy.ts). */
-const PRACTICE_SPEEDS = [1, 10] as const;
+/** The server follows a recorded practice run at most `LIMITS.speed.practice` times ahead of its age (lib/runs/policy.ts). */
+const PRACTICE_SPEEDS = [1, LIMITS.speed.practice] as const;
 
 /** Practice opens every area that can change the running cell through an event. */
 const PRACTICE_EDITING: AreaEditing = { logic: true, field: true, controller: true };

@@ -15,13 +15,14 @@
  * reload of the document is acknowledged and otherwise ignored (`keepsRunOnEdit`); an edit of
  * an editable area reaches the server as a `download` event ("Download to PLC").
  */
-import { nextScanMs, type CellEvent, type CellSnapshot, type LoggedEvent } from '@/simulator';
+import { nextScanMs, type CellSnapshot, type LoggedEvent } from '@/simulator';
+import { eventRefusal, type EventPermissions } from '@/lib/runs/policy';
 import type { EngineConnection, EngineFactory, EngineSink } from '@/components/workspace/store';
 import type { TraceChunk } from '@/components/workspace/engine-protocol';
 import { createBatchSender, type BatchSender, type SenderClock, type SenderState } from './batch-sender';
 
-/** What the drill lets the student do (the policy the server enforces too). */
-export type RemotePermissions = { forceAllowed: boolean; editable: readonly string[] };
+/** What the drill lets the student do (the policy the server enforces too: lib/runs/policy.ts). */
+export type RemotePermissions = EventPermissions;
 
 export type RemoteRunOptions = {
   runId: string;
@@ -83,18 +84,6 @@ export function scopeValues(s: CellSnapshot): Map<string, number> {
   for (const [a, v] of Object.entries(s.plc.addresses)) out.set(a, v.value);
   for (const p of s.controller.points) out.set(p.ref, p.value);
   return out;
-}
-
-/** Why an event may not be sent in this drill, or null (mirrors the server's policy). */
-export function refusal(event: CellEvent, permissions: RemotePermissions): string | null {
-  if (event.type === 'inject-fault' || event.type === 'clear-fault') return 'Fault cards cannot be changed during a drill.';
-  if ((event.type === 'force' || event.type === 'unforce') && !permissions.forceAllowed) return 'This drill does not allow forcing.';
-  if ((event.type === 'stage-point-map' || event.type === 'discard-staged') && !permissions.editable.includes('point-map')) return 'This drill does not allow point-map edits.';
-  if (event.type === 'download') {
-    const barred = (['logic', 'wiring', 'routine'] as const).filter((a) => event[a] !== undefined && !permissions.editable.includes(a));
-    if (barred.length > 0) return `This drill does not allow downloading: ${barred.join(', ')}.`;
-  }
-  return null;
 }
 
 /** Creates the remote run for one drill attempt. */
@@ -255,7 +244,7 @@ export function createRemoteRun(opts: RemoteRunOptions): RemoteRun {
         }
       },
       send(event) {
-        const why = ended ? 'The attempt has ended.' : refusal(event, opts.permissions);
+        const why = ended ? 'The attempt has ended.' : eventRefusal(event, opts.permissions);
         if (why || !sender) {
           sink.patch({ lastRejection: { event, problems: [{ path: [], code: 'refused', message: why ?? 'Still connecting to the run.' }] } });
           return;

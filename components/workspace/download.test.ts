@@ -1,6 +1,6 @@
 import { describe, expect, it, vi } from 'vitest';
 import { createCell, pickAndPlaceCell, pickAndPlaceDebouncedSheet, type Cell, type CellDocument, type CellEvent, type DownloadEvent } from '@/simulator';
-import { refusal } from '@/components/runs/remote-engine';
+import { eventRefusal } from '@/lib/runs/policy';
 import { afterDownload, changedAreas, downloadEvent, revertRefused, type DownloadInFlight } from './download';
 import { createWorkspaceStore, type EngineConnection, type EngineFactory, type EngineSink } from './store';
 import { demoDocument } from './test-helpers';
@@ -45,10 +45,10 @@ describe('download helpers', () => {
     expect(made.value.apply(e).ok).toBe(true);
   });
 
-  it('the remote engine refuses downloads of parts the drill does not make editable (as the server does)', () => {
+  it('the run policy (one module for the browser and the server) refuses downloads of parts the drill does not make editable', () => {
     const e = { type: 'download', logic: pickAndPlaceDebouncedSheet() } as CellEvent;
-    expect(refusal(e, { forceAllowed: false, editable: ['logic'] })).toBeNull();
-    expect(refusal(e, { forceAllowed: false, editable: ['point-map'] })).toContain('logic');
+    expect(eventRefusal(e, { forceAllowed: false, editable: ['logic'] })).toBeNull();
+    expect(eventRefusal(e, { forceAllowed: false, editable: ['point-map'] })).toContain('logic');
   });
 });
 

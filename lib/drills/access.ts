@@ -7,6 +7,7 @@ import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
 // The diagnosis form's catalogue (DIAGNOSIS_KINDS in lib/schemas/drills.ts) is static and not
 // sent here, so a payload search for fault kinds finds only what would be a leak.
 import type { DrillPermissions } from '@/lib/schemas/drills';
+import { assignmentState, type AssignmentState } from './assignment-window';
 
 /** Who authors drills: trainers their own, admins any. */
 export const DRILL_ROLES: readonly Role[] = ['trainer', 'admin'];
@@ -29,13 +30,8 @@ export async function assignmentForStudent(user: User, id: string): Promise<{ as
   return { assignment, drill };
 }
 
-export type AssignmentState = 'upcoming' | 'open' | 'closed';
-
-export function assignmentState(a: Pick<Assignment, 'opensAt' | 'closesAt'>, now = Date.now()): AssignmentState {
-  if (now < Date.parse(a.opensAt)) return 'upcoming';
-  if (now > Date.parse(a.closesAt)) return 'closed';
-  return 'open';
-}
+// The window rule itself lives in ./assignment-window.ts (pure, shared with the browser).
+export { assignmentState, type AssignmentState } from './assignment-window';
 
 /** What a student receives about a drill: never its fault cards, rules or answer. */
 export interface StudentDrillPayload {

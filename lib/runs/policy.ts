@@ -1,5 +1,13 @@
-import type { LoggedEvent } from '@/simulator';
-import type { DrillPermissions } from '@/lib/schemas/drills';
+import type { CellEvent, LoggedEvent } from '@/simulator';
+
+/**
+ * The run policy: one module the server (lib/runs/service.ts) and the browser (the drill
+ * attempt's connection, components/runs/remote-engine.ts) both import, so the two can never
+ * disagree about what a run may log. No `server-only`: it is pure.
+ */
+
+/** What a drill lets its student change (the drill's permissions; the browser gets the same). */
+export type EventPermissions = { forceAllowed: boolean; editable: readonly string[] };
 
 /**
  * Bounds on what one run may ask of the server's engine.
@@ -33,29 +41,38 @@ export function countDownloads(events: readonly LoggedEvent[]): number {
 }
 
 /**
- * Which events a run may log. A drill's student cannot add or remove fault cards (that would
- * clear the hidden fault), forces only when the drill allows them, and stages point-map edits
- * only when the point map is an editable area, and downloads (`download`: logic sheet, wiring,
- * routine) only of the parts the drill lists as editable. Practice runs may use every event
- * (students practise with fault cards of their own and download whatever they edit).
+ * Why a drill's student may not log `event`, or null when they may. A student cannot add or
+ * remove fault cards (that would clear the hidden fault), forces only when the drill allows
+ * them, stages point-map edits only when the point map is an editable area, and downloads
+ * (`download`: logic sheet, wiring, routine) only the parts the drill lists as editable.
+ * A drill without permissions (null) allows none of the optional ones.
  */
-export function eventProblems(mode: 'drill' | 'practice', permissions: DrillPermissions | null, events: readonly LoggedEvent[]): Record<string, string[]> {
+export function eventRefusal(event: CellEvent, permissions: EventPermissions | null): string | null {
+  const type = event.type;
+  if (type === 'inject-fault' || type === 'clear-fault') return 'Fault cards cannot be changed during a drill.';
+  if ((type === 'force' || type === 'unforce') && !permissions?.forceAllowed) return 'This drill does not allow forcing.';
+  if ((type === 'stage-point-map' || type === 'discard-staged') && !permissions?.editable.includes('point-map')) return 'This drill does not allow point-map edits.';
+  if (event.type === 'download') {
+    const d = event;
+    const barred = (['logic', 'wiring', 'routine'] as const).filter((a) => d[a] !== undefined && !permissions?.editable.includes(a));
+    if (barred.length > 0) return `This drill does not allow downloading: ${barred.join(', ')}.`;
+  }
+  return null;
+}
+
+/**
+ * Which events of a batch a run may not log, by field path (`events.<i>.event.type`), with a
+ * batch's download cap. Practice runs may use every event (students practise with fault cards
+ * of their own and download whatever they edit); a drill's go through {@link eventRefusal}.
+ */
+export function eventProblems(mode: 'drill' | 'practice', permissions: EventPermissions | null, events: readonly LoggedEvent[]): Record<string, string[]> {
   const out: Record<string, string[]> = {};
   const downloads = countDownloads(events);
   if (downloads > LIMITS.downloadsPerBatch) out.events = [`A batch may hold at most ${LIMITS.downloadsPerBatch} downloads; this one has ${downloads}.`];
   if (mode === 'practice') return out;
   events.forEach((e, i) => {
-    const type = e.event.type;
-    const key = `events.${i}.event.type`;
-    if (type === 'inject-fault' || type === 'clear-fault') out[key] = ['Fault cards cannot be changed during a drill.'];
-    else if ((type === 'force' || type === 'unforce') && !permissions?.forceAllowed) out[key] = ['This drill does not allow forcing.'];
-    else if ((type === 'stage-point-map' || type === 'discard-staged') && !permissions?.editable.includes('point-map')) out[key] = ['This drill does not allow point-map edits.'];
-    else if (e.event.type === 'download') {
-      const d = e.event;
-      const areas = (['logic', 'wiring', 'routine'] as const).filter((a) => d[a] !== undefined);
-      const barred = areas.filter((a) => !permissions?.editable.includes(a));
-      if (barred.length > 0) out[key] = [`This drill does not allow downloading: ${barred.join(', ')}.`];
-    }
+    const why = eventRefusal(e.event, permissions);
+    if (why) out[`events.${i}.event.type`] = [why];
   });
   return out;
 }

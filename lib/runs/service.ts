@@ -12,6 +12,7 @@ import type { GradeTask, GradeTaskResult, LoadPayload } from './engine-worker';
 import type { GradeResult } from './grade';
 import { clearLiveMeta, forgetLiveMeta, getLiveMeta, putLiveMeta, withRunLock, type LiveMeta } from './live-runs';
 import { allowedUntilMs, countDownloads, eventProblems, LIMITS, timeProblems } from './policy';
+import { assignmentClosed } from '@/lib/drills/assignment-window';
 import { gradeSignals } from './engine';
 import { sanitiseSnapshot, type SanitisedSnapshot } from './sanitise';
 import type { BatchInput, Diagnosis } from '@/lib/schemas/runs';
@@ -187,7 +188,7 @@ async function appendOnce(run: Run, input: BatchInput): Promise<BatchAnswer> {
     ...eventProblems(run.mode, setup.drill?.permissions ?? null, input.events),
   };
   if (Object.keys(fields).length > 0) throw new ApiError(422, 'Some events cannot be logged.', fields);
-  if (run.mode === 'drill' && setup.assignment && Date.now() > Date.parse(setup.assignment.closesAt)) {
+  if (run.mode === 'drill' && setup.assignment && assignmentClosed(setup.assignment)) {
     throw new ApiError(403, 'This drill has closed.');
   }
   const allowed = allowedUntilMs(run, Date.now());
@@ -279,7 +280,7 @@ export function submit(run: Run, diagnosis: Diagnosis | null): Promise<Run> {
       const setup = await runSetup(fresh);
       if (fresh.mode === 'drill') {
         if (!diagnosis) throw new ApiError(422, 'Give your diagnosis.', { diagnosis: ['Say which fault and where.'] });
-        if (setup.assignment && Date.now() > Date.parse(setup.assignment.closesAt)) throw new ApiError(403, 'This drill has closed; the run can no longer be submitted.');
+        if (setup.assignment && assignmentClosed(setup.assignment)) throw new ApiError(403, 'This drill has closed; the run can no longer be submitted.');
       }
       const log = logOf(batches);
       const endedMs = setup.timeLimitMs !== null ? Math.min(log.untilMs, setup.timeLimitMs) : log.untilMs;

@@ -10,7 +10,7 @@
 import { createActor, type Actor } from 'xstate';
 import { decodeWord, encodeWord } from '@/simulator/electrical';
 import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
-import { evaluateCondition, initialControllerContext, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
+import { evaluateCondition, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
 import { moveTime } from '@/simulator/controller/motion';
 import { INPUT_FAMILIES, parsePointRef, resolvePointMap, type PointMapState, type ResolvedPoint, type ResolvedPointMap } from '@/simulator/controller/point-map';
 import { HANDSHAKE_OUTPUT_ROLES, type CellDocument } from '@/simulator/schema/cell-document';
@@ -323,38 +323,13 @@ export class ControllerSide {
   // ---------------------------------------------------------------- routine reload
 
   /**
-   * A changed routine restarts: the controller keeps its power, clock, pose, alarms and cycle
-   * count, drops what the old routine drove (outputs, pulses, word encodings), halts any move
-   * where the arm is, and goes to `stopped` with the routine at step 0 (off, booting, faulted
-   * and e-stopped stay where they are). From `stopped` the usual rules apply; a new start edge
-   * is needed to cycle.
+   * A changed routine, downloaded: the machine's RELOAD_ROUTINE event (controller.machine.ts)
+   * keeps power, clock, pose, alarms and cycle count, drops what the old routine drove, halts
+   * any move where the arm is and restarts the routine at step 0; off, booting and faulted stay,
+   * e-stopped stays halted, anything else goes to stopped. A new start edge is needed to cycle.
    */
   reloadRoutine(config: CellDocument['controller']): void {
     this.config = config;
-    const persisted = this.actor.getPersistedSnapshot() as unknown as { value: unknown; context: ControllerContext } & Record<string, unknown>;
-    const old = persisted.context;
-    const fresh = initialControllerContext(config);
-    const context: ControllerContext = {
-      ...old,
-      config,
-      poses: fresh.poses,
-      labels: fresh.labels,
-      outputs: {},
-      wordEncodings: {},
-      pulses: [],
-      pc: 0,
-      stepElapsedMs: 0,
-      motion: null,
-      speed: 0,
-      cycleComplete: false,
-      holdReason: null,
-    };
-    const v = persisted.value;
-    const keep = v === 'off' || v === 'booting' || v === 'faulted';
-    const value = keep ? v : typeof v === 'object' && v !== null && 'eStopped' in v ? { eStopped: 'halted' } : 'stopped';
-    if (!keep && value !== 'stopped') context.servoOn = false;
-    this.actor.stop();
-    this.actor = createActor(controllerMachine, { snapshot: { ...persisted, value, context } as never, input: { config } });
-    this.actor.start();
+    this.actor.send({ type: 'RELOAD_ROUTINE', config });
   }
 }

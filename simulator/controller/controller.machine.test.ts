@@ -28,8 +28,8 @@ const config: ControllerConfig = {
   ],
 };
 
-function rig() {
-  const actor = createActor(controllerMachine, { input: { config } }).start();
+function rig(cfg: ControllerConfig = config) {
+  const actor = createActor(controllerMachine, { input: { config: cfg } }).start();
   const inputs: Record<string, number> = { DI1: 0, DI2: 0, DI3: 1, DI4: 1, DI5: 0 };
   const tick = (ms: number) => {
     for (let t = 0; t < ms; t += 10) actor.send({ type: 'TICK', dt: 10, inputs: { ...inputs }, hardware: [] });
@@ -212,3 +212,80 @@ describe('controller machine: servo power on entering a stopping state', () => {
     }
   });
 });
+
+describe('deciding on read inputs', () => {
+  // The cyclic model of IEC 61131-3 (inputs are read, then the program decides, then outputs
+  // are written; from memory of the standard's program-execution description): a controller
+  // decides nothing on inputs it has not read yet.
+  it('with a boot time of 0 the controller powers up into stopped/ready, not e-stopped, once its first refresh reads a healthy chain', () => {
+    const r = rig({ ...config, bootMs: 0 });
+    r.actor.send({ type: 'POWER_ON' });
+    expect(r.state()).toBe('booting'); // no inputs read yet: no decision
+    r.tick(10);
+    expect(r.state()).toBe('ready');
+    expect(r.ctx().alarms).toEqual([]);
+  });
+
+  it('with a boot time of 0 and a broken chain at the first read, it e-stops then (and only then)', () => {
+    const r = rig({ ...config, bootMs: 0 });
+    r.inputs.DI3 = 0;
+    r.actor.send({ type: 'POWER_ON' });
+    expect(r.state()).toBe('booting');
+    r.tick(10);
+    expect(r.state()).toBe('eStopped');
+  });
+});
+
+describe('RELOAD_ROUTINE (a downloaded routine)', () => {
+  const shorter = { ...config, routine: [{ kind: 'move' as const, pose: 'far' }] };
+
+  it('from cycling: the move halts where the arm is, the routine is at step 0, the controller stops and needs a new start edge', () => {
+    const r = rig();
+    r.actor.send({ type: 'POWER_ON' });
+    r.tick(100);
+    r.inputs.DI1 = 1;
+    r.tick(500);
+    expect(r.state()).toBe('cycling');
+    const pose = r.ctx().pose[0];
+    expect(pose).toBeGreaterThan(0);
+    r.actor.send({ type: 'RELOAD_ROUTINE', config: shorter });
+    expect(r.state()).toBe('stopped');
+    expect(r.ctx()).toMatchObject({ pc: 0, motion: null, speed: 0, servoOn: false, outputs: {}, pulses: [] });
+    expect(r.ctx().pose[0]).toBe(pose);
+    expect(r.ctx().config.routine).toHaveLength(1);
+    r.tick(100); // start still held: no edge
+    expect(r.state()).toBe('ready');
+    r.inputs.DI1 = 0;
+    r.tick(10);
+    r.inputs.DI1 = 1;
+    r.tick(10);
+    expect(r.state()).toBe('cycling');
+  });
+
+  it('e-stopped stays e-stopped (halted); faulted and off stay where they are', () => {
+    const e = rig();
+    e.actor.send({ type: 'POWER_ON' });
+    e.tick(100);
+    e.inputs.DI3 = 0;
+    e.tick(10);
+    expect(e.actor.getSnapshot().value).toEqual({ eStopped: 'halted' });
+    e.actor.send({ type: 'RELOAD_ROUTINE', config: shorter });
+    expect(e.actor.getSnapshot().value).toEqual({ eStopped: 'halted' });
+    expect(e.ctx().servoOn).toBe(false);
+
+    const f = rig();
+    f.actor.send({ type: 'POWER_ON' });
+    f.tick(100);
+    f.actor.send({ type: 'TICK', dt: 10, inputs: { ...f.inputs }, hardware: ['module lost'] });
+    expect(f.state()).toBe('faulted');
+    f.actor.send({ type: 'RELOAD_ROUTINE', config: shorter });
+    expect(f.state()).toBe('faulted');
+    expect(f.ctx().pc).toBe(0);
+
+    const o = rig();
+    o.actor.send({ type: 'RELOAD_ROUTINE', config: shorter });
+    expect(o.state()).toBe('off');
+    expect(o.ctx().config.routine).toHaveLength(1);
+  });
+});
+

@@ -13,12 +13,18 @@
  *   routine's clocks freeze; a start edge with the guard closed resumes.
  * - Servo power is off in stopped, faulted and eStopped once the arm is at rest: on entry when
  *   it already is, else in the refresh where the brake runs out. Ready and cycling turn it on.
+ * - Decisions wait for inputs: after power-up (even with a boot time of 0) and after a routine
+ *   reload, no state decision is made until an I/O refresh has read the inputs.
+ * - RELOAD_ROUTINE (a download with a changed routine): off, booting and faulted stay where they
+ *   are; an e-stopped controller stays e-stopped, halted; any other goes to stopped. In every
+ *   case the routine restarts at step 0 and any move halts where the arm is.
  */
 import { assign, setup } from 'xstate';
 import type { ControllerConfig } from '@/simulator/schema/cell-document';
 import {
   advanceMotion,
   beginBrake,
+  reloadedContext,
   expirePulses,
   haltNow,
   initialControllerContext,
@@ -33,7 +39,9 @@ export type ControllerEvent =
   | { type: 'TICK'; dt: number; inputs: Record<string, number>; hardware: string[] }
   | { type: 'POWER_ON' }
   | { type: 'POWER_OFF' }
-  | { type: 'RESTART' };
+  | { type: 'RESTART' }
+  /** A changed routine (and poses) downloaded into the running controller. */
+  | { type: 'RELOAD_ROUTINE'; config: ControllerConfig };
 
 /** Input of the machine: the controller section of the cell document. It starts `off`; send `POWER_ON`. */
 export type ControllerInput = { config: ControllerConfig };
@@ -49,6 +57,7 @@ function readTick(ctx: Ctx, e: Extract<ControllerEvent, { type: 'TICK' }>): Ctx 
     ...ctx,
     timeMs: ctx.timeMs + e.dt,
     inputs: e.inputs,
+    inputsRead: true,
     hardware: e.hardware,
     cycleComplete: false,
     startEdge: start && !ctx.prevStart,
@@ -113,21 +122,25 @@ export const controllerMachine = setup({
       alarms: context.alarms.filter((a) => a.code === 'hardware' && context.hardware.includes(a.message)),
       stepElapsedMs: 0,
     })),
+    /** The changed routine replaces the old one (see `reloadedContext`). */
+    reloadRoutine: assign(({ context, event }) => (event.type === 'RELOAD_ROUTINE' ? reloadedContext(context, event.config) : context)),
+    servoOff: assign({ servoOn: false }),
     holdForGuard: assign({ holdReason: 'guard' as const }),
     holdForStop: assign({ holdReason: 'stop' as const }),
     clearHold: assign({ holdReason: null }),
   },
   guards: {
-    bootDone: ({ context }) => context.bootLeftMs <= 0,
-    chainBroken: ({ context }) => !roleOn(context, 'estopHealthy', true),
-    hasAlarm: ({ context }) => context.alarms.length > 0,
-    canBeReady: ({ context }) => context.alarms.length === 0 && roleOn(context, 'estopHealthy', true) && !roleOn(context, 'stop', false),
+    /** Boot time counted down, and the inputs read at least once (a boot time of 0 still reads before it decides). */
+    bootDone: ({ context }) => context.bootLeftMs <= 0 && context.inputsRead,
+    chainBroken: ({ context }) => context.inputsRead && !roleOn(context, 'estopHealthy', true),
+    hasAlarm: ({ context }) => context.inputsRead && context.alarms.length > 0,
+    canBeReady: ({ context }) => context.inputsRead && context.alarms.length === 0 && roleOn(context, 'estopHealthy', true) && !roleOn(context, 'stop', false),
     stopRequested: ({ context }) => roleOn(context, 'stop', false),
     guardOpen: ({ context }) => !roleOn(context, 'guardClosed', true),
     startPermitted: ({ context }) =>
       context.startEdge && roleOn(context, 'guardClosed', true) && roleOn(context, 'estopHealthy', true) && !roleOn(context, 'stop', false),
     resetAccepted: ({ context }) =>
-      context.resetEdge && roleOn(context, 'estopHealthy', true) && context.hardware.length === 0,
+      context.inputsRead && context.resetEdge && roleOn(context, 'estopHealthy', true) && context.hardware.length === 0,
     /** Resuming from a hold also waits for the arm to have braked to rest. */
     resumePermitted: ({ context }) =>
       context.motion === null &&
@@ -148,10 +161,11 @@ export const controllerMachine = setup({
         POWER_ON: { target: 'booting', actions: 'powerUp' },
         RESTART: { target: 'booting', actions: 'powerUp' },
         TICK: { actions: 'addTime' },
+        RELOAD_ROUTINE: { actions: 'reloadRoutine' },
       },
     },
     booting: {
-      on: { TICK: { actions: 'tickBoot' } },
+      on: { TICK: { actions: 'tickBoot' }, RELOAD_ROUTINE: { actions: 'reloadRoutine' } },
       always: [{ guard: 'bootDone', target: 'stopped' }],
     },
     stopped: {
@@ -159,7 +173,7 @@ export const controllerMachine = setup({
       // further TICK (the cell holds such refreshes back), so tickStill alone could leave the
       // servo on indefinitely. Still moving (a brake under way), tickStill removes it at rest.
       entry: ['consumeEdges', 'clearHold', 'servoOffWhenStill'],
-      on: { TICK: { actions: 'tickStill' } },
+      on: { TICK: { actions: 'tickStill' }, RELOAD_ROUTINE: { actions: ['reloadRoutine', 'servoOffWhenStill'] } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
         { guard: 'hasAlarm', target: 'faulted' },
@@ -168,7 +182,7 @@ export const controllerMachine = setup({
     },
     ready: {
       entry: ['consumeEdges', 'servoOn', 'clearHold'],
-      on: { TICK: { actions: 'tickMove' } },
+      on: { TICK: { actions: 'tickMove' }, RELOAD_ROUTINE: { target: 'stopped', actions: 'reloadRoutine' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
         { guard: 'hasAlarm', target: 'faulted' },
@@ -178,7 +192,7 @@ export const controllerMachine = setup({
     },
     cycling: {
       entry: ['consumeEdges', 'clearHold', 'servoOn'],
-      on: { TICK: { actions: 'tickCycle' } },
+      on: { TICK: { actions: 'tickCycle' }, RELOAD_ROUTINE: { target: 'stopped', actions: 'reloadRoutine' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
         { guard: 'hasAlarm', target: 'faulted' },
@@ -189,7 +203,7 @@ export const controllerMachine = setup({
     },
     holding: {
       entry: ['consumeEdges', 'brake'],
-      on: { TICK: { actions: 'tickMove' } },
+      on: { TICK: { actions: 'tickMove' }, RELOAD_ROUTINE: { target: 'stopped', actions: 'reloadRoutine' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
         { guard: 'hasAlarm', target: 'faulted' },
@@ -199,7 +213,7 @@ export const controllerMachine = setup({
     faulted: {
       // As in stopped: power off at once when already at rest, otherwise once the brake runs out.
       entry: ['consumeEdges', 'brake', 'clearHold', 'servoOffWhenStill'],
-      on: { TICK: { actions: 'tickStill' } },
+      on: { TICK: { actions: 'tickStill' }, RELOAD_ROUTINE: { actions: 'reloadRoutine' } },
       always: [
         { guard: 'chainBroken', target: 'eStopped' },
         { guard: 'resetAccepted', target: 'stopped', actions: 'clearAlarms' },
@@ -217,7 +231,7 @@ export const controllerMachine = setup({
           always: [{ guard: ({ context }) => context.motion === null, target: 'halted', actions: 'servoOffWhenStill' }],
         },
       },
-      on: { TICK: { actions: 'tickStill' } },
+      on: { TICK: { actions: 'tickStill' }, RELOAD_ROUTINE: { target: '.halted', actions: ['reloadRoutine', 'servoOff'] } },
       always: [{ guard: 'resetAccepted', target: 'stopped', actions: 'clearAlarms' }],
     },
   },

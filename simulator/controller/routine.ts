@@ -24,6 +24,11 @@ export type ControllerContext = {
   bootLeftMs: number;
   /** Logical input values read at the last I/O refresh (booleans as 0/1). */
   inputs: Record<string, number>;
+  /**
+   * True once inputs have been read since power-up or a routine reload: the controller makes
+   * no state decision (boot done, e-stop chain, ready, reset) on inputs it has not read.
+   */
+  inputsRead: boolean;
   startEdge: boolean;
   resetEdge: boolean;
   prevStart: boolean;
@@ -65,6 +70,7 @@ export function initialControllerContext(config: ControllerConfig): ControllerCo
     timeMs: 0,
     bootLeftMs: config.bootMs,
     inputs: {},
+    inputsRead: false,
     startEdge: false,
     resetEdge: false,
     prevStart: false,
@@ -299,4 +305,32 @@ export function isAtPose(ctx: ControllerContext, id: string | null): boolean {
   const p = ctx.poses[id];
   if (!p) return false;
   return pathLength(ctx.pose, padTo([...p.coordinates], ctx.config.axes)) <= ctx.config.positionTolerance;
+}
+
+/**
+ * The context after a changed routine is loaded: power, clock, pose, alarms and cycle count
+ * are kept; what the old routine drove (outputs, pulses, word encodings) is dropped, any move
+ * halts where the arm is, and the routine starts over at step 0. Edges are consumed and the
+ * inputs count as unread, so the next state decision waits for the next I/O refresh.
+ */
+export function reloadedContext(ctx: ControllerContext, config: ControllerConfig): ControllerContext {
+  const fresh = initialControllerContext(config);
+  return {
+    ...ctx,
+    config,
+    poses: fresh.poses,
+    labels: fresh.labels,
+    outputs: {},
+    wordEncodings: {},
+    pulses: [],
+    pc: 0,
+    stepElapsedMs: 0,
+    motion: null,
+    speed: 0,
+    cycleComplete: false,
+    holdReason: null,
+    startEdge: false,
+    resetEdge: false,
+    inputsRead: false,
+  };
 }
