@@ -90,6 +90,7 @@ export const MEASUREMENTS: Measurement[] = [
   { name: 'changeover diff', describe: 'diffCells on two 10,000-block cells differing in 1 % of blocks (median ms, target ≤ 200)', run: async () => (await import('./diff-bench')).diffBench() },
   { name: 'proofs', describe: 'proveRules: 20 interlock rules over a generated sheet with 32 inputs, latches, edges, counters (median ms, target ≤ 1,000)', run: async () => (await import('./proof-bench')).proofBench() },
   { name: 'plc link', describe: 'Modbus TCP client polling the demo cell every 10 ms on loopback: read inputs + write coils (p99 ms per request, target ≤ 5)', run: async () => (await import('./plc-link-bench')).plcLinkBench() },
+  { name: 'live board', describe: '30 students streaming one batch a second; batch accepted → the trainer\'s board tile (p95 ms, target ≤ 500); needs BENCH_BASE_URL', run: async () => (await import('./live-bench')).liveBench() },
 ];
 
 function round(x: number, digits: number): number {
