@@ -4,7 +4,9 @@
  * live board is open (GET /api/assignments/[id]/live/stream, read with fetch); a sample is the
  * time from a batch's 201 (accepted) to the board's `tile` event carrying that batch's seq. The
  * students start at random offsets within the second (seeded), as a class does. Needs
- * BENCH_BASE_URL (a running app on a seeded database, DATABASE_URL for the bench's own rows).
+ * BENCH_BASE_URL (a running app on a seeded database, DATABASE_URL for the bench's own rows);
+ * BENCH_BOARD_URL, when set, opens the board on a second app process of the same database, so
+ * every sample crosses processes through LISTEN/NOTIFY, as behind a load balancer.
  */
 import { benchDatabaseUrl, benchStudents, reachableBase, signIn } from './bench-support';
 
@@ -52,7 +54,8 @@ export async function liveBench(): Promise<Figures> {
     // The trainer's board: tile arrival times by run and seq.
     const seen = new Map<string, number>();
     const maxSeen = new Map<string, number>();
-    const res = await fetch(`${base}/api/assignments/${assignmentId}/live/stream`, { headers: { cookie: trainerCookie }, signal: abort.signal });
+    const boardBase = process.env.BENCH_BOARD_URL?.replace(/\/$/, '') || base;
+    const res = await fetch(`${boardBase}/api/assignments/${assignmentId}/live/stream`, { headers: { cookie: trainerCookie }, signal: abort.signal });
     if (res.status !== 200 || !res.body) throw new Error(`the board stream answered ${res.status}`);
     let boardReady!: () => void;
     const ready = new Promise<void>((r) => (boardReady = r));
