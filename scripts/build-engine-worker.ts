@@ -1,5 +1,4 @@
-/** Builds the engine's worker-thread bundle (lib/runs/worker-bundle.ts says why it is separate). */
-import { buildWorkerBundle } from '../lib/runs/worker-bundle';
+/** Builds the worker-thread bundles: the engine's and a PLC link's (lib/workers/bundle.ts says why they are separate). */
+import { buildBundle, ENGINE_WORKER, PLC_LINK_WORKER } from '../lib/workers/bundle';
 
-const out = buildWorkerBundle();
-console.log(`engine worker bundle: ${out}`);
+for (const b of [ENGINE_WORKER, PLC_LINK_WORKER]) console.log(`worker bundle: ${buildBundle(b)}`);

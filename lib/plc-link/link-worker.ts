@@ -1,6 +1,6 @@
 /**
  * One PLC-link session's worker thread: the cell, running in real time (×1), and the Modbus
- * TCP server a real PLC talks to. Loaded by path (bundled by lib/plc-link/worker-bundle.ts),
+ * TCP server a real PLC talks to. Loaded by path (bundled by lib/workers/bundle.ts),
  * never imported by the app.
  *
  * How a real PLC replaces the logic sheet, with the engine's public events only (so the run's

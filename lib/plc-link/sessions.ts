@@ -11,7 +11,7 @@ import { cellForReader } from '@/lib/cells/access';
 import type { CellSnapshot, LoggedEvent } from '@/simulator';
 import { registerMap, type RegisterMapRow } from './register-map';
 import { plcLinkSettings } from './settings';
-import { ensureLinkWorker } from './worker-bundle';
+import { ensureBundle, PLC_LINK_WORKER } from '@/lib/workers/bundle';
 import type { LinkHealth, LinkWorkerData, WorkerMessage } from './protocol';
 import type { StartPlcLinkInput } from './schemas';
 
@@ -211,7 +211,7 @@ function workerFile(): string {
   const st = state();
   const rebuild = process.env.NODE_ENV !== 'production' && !st.workerBuilt;
   st.workerBuilt = true;
-  return pathToFileURL(ensureLinkWorker(rebuild)).href;
+  return pathToFileURL(ensureBundle(PLC_LINK_WORKER, rebuild)).href;
 }
 
 function conflictOnPort(port: number, host: string): ApiError | null {

@@ -6,7 +6,7 @@ import { busy } from '@/lib/api/errors';
 import { env } from '@/lib/env';
 import type { CellSnapshot } from '@/simulator';
 import type { LiveOutcome, LiveReply, LiveTask, LoadPayload } from './engine-worker';
-import { buildWorkerBundle, ensureWorkerBundle } from './worker-bundle';
+import { ENGINE_WORKER, buildBundle, ensureBundle } from '@/lib/workers/bundle';
 
 /**
  * Runs the engine off the request's event loop, on a budget (docs/api.md, "Budgets").
@@ -49,9 +49,9 @@ function workerUrl(): string {
   // production uses the bundle the start command built next to `next build`.
   if (env().NODE_ENV !== 'production' && !g.cellwrightWorkerBuilt) {
     g.cellwrightWorkerBuilt = true;
-    return pathToFileURL(buildWorkerBundle()).href;
+    return pathToFileURL(buildBundle(ENGINE_WORKER)).href;
   }
-  return pathToFileURL(ensureWorkerBundle()).href;
+  return pathToFileURL(ensureBundle(ENGINE_WORKER)).href;
 }
 
 function host(): HostState {

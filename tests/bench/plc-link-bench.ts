@@ -9,7 +9,7 @@ import { Worker } from 'node:worker_threads';
 import { pathToFileURL } from 'node:url';
 import ModbusRTU from 'modbus-serial';
 import { pickAndPlaceCell } from '@/simulator';
-import { buildLinkWorker } from '@/lib/plc-link/worker-bundle';
+import { buildBundle, PLC_LINK_WORKER } from '@/lib/workers/bundle';
 import type { LinkWorkerData, WorkerMessage } from '@/lib/plc-link/protocol';
 
 const PORT = Number(process.env.BENCH_MODBUS_PORT ?? 15039);
@@ -21,7 +21,7 @@ function percentile(sorted: number[], p: number): number {
 
 export async function plcLinkBench(): Promise<Record<string, number>> {
   const data: LinkWorkerData = { sessionId: 'bench', document: pickAndPlaceCell, host: '127.0.0.1', port: PORT, linkTimeoutMs: 1000 };
-  const worker = new Worker(pathToFileURL(buildLinkWorker()), { workerData: data });
+  const worker = new Worker(pathToFileURL(buildBundle(PLC_LINK_WORKER)), { workerData: data });
   await new Promise<void>((resolve, reject) => {
     worker.on('message', (m: WorkerMessage) => {
       if (m.type === 'listening') resolve();

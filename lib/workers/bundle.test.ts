@@ -5,7 +5,7 @@ import { pathToFileURL } from 'node:url';
 import Piscina from 'piscina';
 import { afterAll, describe, expect, it } from 'vitest';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
-import { buildWorkerBundle } from './worker-bundle';
+import { buildBundle, ENGINE_WORKER } from './bundle';
 
 const dir = mkdtempSync(path.join(tmpdir(), 'cw-worker-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -13,7 +13,7 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 describe('the engine worker bundle', () => {
   it('builds and runs a live task and a grade in a real worker thread (every dependency loads in the bundle)', async () => {
     process.env.ENGINE_WORKER_FILE = path.join(dir, 'engine-worker.mjs');
-    const file = buildWorkerBundle();
+    const file = buildBundle(ENGINE_WORKER);
     delete process.env.ENGINE_WORKER_FILE;
     const pool = new Piscina({ filename: pathToFileURL(file).href, minThreads: 1, maxThreads: 1 });
     try {
