@@ -104,6 +104,10 @@ export type {
   SignalPredicate,
 } from './faults/fault-card';
 export {
+  /** The device types each device fault applies to, by kind (from the engine's device catalogue). */
+  FAULT_DEVICE_TYPES,
+} from './cell/devices';
+export {
   /** The zod schema of a fault card. */
   faultCardSchema,
   /** Every fault kind, in catalogue order. */
@@ -173,10 +177,6 @@ export {
   /** Writes an address in its canonical text. */
   formatAddress,
 } from './address/address';
-export {
-  /** A zeroed I/Q/M process image, as a compiled sheet scans it. */
-  createProcessImage,
-} from './address/process-image';
 
 // ---- the controller's point map
 export {

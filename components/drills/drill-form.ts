@@ -14,7 +14,7 @@ export const OPS = ['==', '!=', '>', '>=', '<', '<='] as const;
 export const RULE_KINDS = ['never', 'always', 'after', 'eventually'] as const;
 
 /** Which fields each fault kind needs (the engine's faultCardSchema). */
-export const FAULT_FIELDS: Record<(typeof FAULT_KINDS)[number], ('device' | 'row' | 'rows' | 'module' | 'periodMs' | 'probability' | 'factor' | 'ratePerS')[]> = {
+export const FAULT_FIELDS: Record<(typeof FAULT_KINDS)[number], ('device' | 'row' | 'rows' | 'module' | 'periodMs' | 'probability' | 'factor' | 'ratePerS' | 'volts' | 'leakMa')[]> = {
   'stuck-on': ['device'],
   'stuck-off': ['device'],
   'open-wire': ['row'],
@@ -28,6 +28,8 @@ export const FAULT_FIELDS: Record<(typeof FAULT_KINDS)[number], ('device' | 'row
   'analog-drift': ['device', 'ratePerS'],
   'analog-loss': ['device'],
   'sensor-type-mismatch': ['device'],
+  'supply-sag': ['volts'],
+  'sensor-leakage': ['device', 'leakMa'],
 };
 
 /** A condition as the builder edits it: the engine's predicate tree. */
@@ -61,6 +63,8 @@ export const drillFormSchema = z.object({
       probability: z.number().min(0).max(1),
       factor: z.number().min(1).max(1000),
       ratePerS: z.number().min(-100).max(100),
+      volts: z.number().min(0).max(36),
+      leakMa: z.number().min(0).max(10),
       trigger: z.enum(['now', 'at', 'when']),
       atMs: z.number().int().min(0),
       when: optionalCondition,
@@ -100,7 +104,7 @@ export const drillFormSchemaChecked = drillFormSchema.superRefine((v, ctx) => {
 export const emptyCondition = (): ConditionValue => newTraceLeaf();
 
 export function newFault(index: number): DrillFormValues['faults'][number] {
-  return { id: `f${index + 1}`, label: '', kind: 'open-wire', device: '', row: '', row2: '', module: '', periodMs: 200, probability: 0.3, factor: 4, ratePerS: 0.5, trigger: 'now', atMs: 0, when: emptyCondition() };
+  return { id: `f${index + 1}`, label: '', kind: 'open-wire', device: '', row: '', row2: '', module: '', periodMs: 200, probability: 0.3, factor: 4, ratePerS: 0.5, volts: 12, leakMa: 1.5, trigger: 'now', atMs: 0, when: emptyCondition() };
 }
 
 export function newRule(index: number): DrillFormValues['rules'][number] {
@@ -172,6 +176,8 @@ export function toFormValues(d: (DrillInput & { id?: string }) | null, defaults:
         probability: typeof any.probability === 'number' ? any.probability : base.probability,
         factor: typeof any.factor === 'number' ? any.factor : base.factor,
         ratePerS: typeof any.ratePerS === 'number' ? any.ratePerS : base.ratePerS,
+        volts: typeof any.volts === 'number' ? any.volts : base.volts,
+        leakMa: typeof any.leakMa === 'number' ? any.leakMa : base.leakMa,
         trigger: f.when ? 'when' : f.at !== undefined ? 'at' : 'now',
         atMs: f.at ?? 0,
         when: toCondition(f.when),
@@ -215,6 +221,8 @@ export function toDrillInput(v: DrillFormValues): DrillInput {
       if (need.includes('probability')) card.probability = f.probability;
       if (need.includes('factor')) card.factor = f.factor;
       if (need.includes('ratePerS')) card.ratePerS = f.ratePerS;
+      if (need.includes('volts')) card.volts = f.volts;
+      if (need.includes('leakMa')) card.leakMa = f.leakMa;
       if (f.trigger === 'at') card.at = f.atMs;
       if (f.trigger === 'when') card.when = fromCondition(f.when);
       return card as FaultCard;

@@ -66,7 +66,7 @@ export function FaultCardEditor({ index, control, register, err, document, signa
   const devices = document ? devicePlaces(document, kind) : [];
   const wires = document ? wirePlaces(document) : [];
   const modules = document ? modulePlaces(document) : [];
-  const small = (name: 'periodMs' | 'probability' | 'factor' | 'ratePerS', label: string, step: string) => (
+  const small = (name: 'periodMs' | 'probability' | 'factor' | 'ratePerS' | 'volts' | 'leakMa', label: string, step: string) => (
     <Labelled id={`${p}.${name}`} label={label} error={err(`${p}.${name}`)}>
       <input id={`${p}.${name}`} type="number" step={step} className={inputCls} {...register(`${p}.${name}`, { valueAsNumber: true })} />
     </Labelled>
@@ -114,6 +114,8 @@ export function FaultCardEditor({ index, control, register, err, document, signa
         {need.includes('probability') ? small('probability', 'Open probability (0–1)', '0.05') : null}
         {need.includes('factor') ? small('factor', 'Slower by factor', '0.5') : null}
         {need.includes('ratePerS') ? small('ratePerS', 'Drift (V or mA per s)', '0.1') : null}
+        {need.includes('volts') ? small('volts', 'Supply sags to (V)', '0.5') : null}
+        {need.includes('leakMa') ? small('leakMa', 'Off-state leakage (mA)', '0.1') : null}
         <Labelled id={`${p}.trigger`} label="Appears">
           <select id={`${p}.trigger`} className={inputCls} {...register(`${p}.trigger`)}>
             <option value="now">from the start</option>

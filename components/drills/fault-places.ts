@@ -4,25 +4,16 @@
  * controller modules, the point-map rows. A trainer picks "w-guard — Front guard → %IX0.4"
  * instead of typing `w-guard`.
  */
-import type { CellDocument, FaultKind } from '@/simulator';
+import { FAULT_DEVICE_TYPES, type CellDocument, type FaultKind } from '@/simulator';
 import { endpointText } from '@/components/field/endpoint-text';
 
 export type Place = { id: string; label: string; group: 'device' | 'wire' | 'module' | 'point-map row' };
 
-const SENSORS = ['proximity-sensor', 'photo-eye', 'part-sensor'];
-
 /**
- * Device types each device fault applies to. The engine arms a card only on these (its check
- * is in simulator/cell/cell.ts, where a card is armed); a card on any other device is refused.
+ * Device types each device fault applies to: the engine's own table (its device catalogue),
+ * so a card the form offers is one the engine arms.
  */
-export const FAULT_DEVICE_TYPES: Partial<Record<FaultKind, readonly string[]>> = {
-  'stuck-on': ['push-button', 'illuminated-button', 'selector-switch', 'e-stop', 'guard-switch', 'gripper', 'vacuum-cup', 'conveyor', ...SENSORS],
-  'stuck-off': ['push-button', 'illuminated-button', 'selector-switch', 'e-stop', 'guard-switch', 'gripper', 'vacuum-cup', 'conveyor', ...SENSORS],
-  'slow-actuator': ['gripper', 'vacuum-cup', 'conveyor'],
-  'analog-drift': ['potentiometer'],
-  'analog-loss': ['potentiometer'],
-  'sensor-type-mismatch': SENSORS,
-};
+export { FAULT_DEVICE_TYPES };
 
 /** Devices a fault kind applies to (every device when the kind names none). */
 export function devicePlaces(doc: CellDocument, kind?: FaultKind): Place[] {

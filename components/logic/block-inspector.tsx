@@ -35,12 +35,16 @@ function TextCommit({ label, value, onCommit, disabled, mono }: { label: string;
   );
 }
 
-function NumberCommit({ field, value, onCommit, disabled }: { field: Extract<ParamField, { kind: 'number' }>; value: unknown; onCommit(v: number): void; disabled: boolean }) {
+function NumberCommit({ field, value, onCommit, disabled }: { field: Extract<ParamField, { kind: 'number' }>; value: unknown; onCommit(v: number | undefined): void; disabled: boolean }) {
   const shown = typeof value === 'number' ? String(value) : '';
   const [text, setText] = useDraft(shown);
   const [error, setError] = useState<string | null>(null);
   const commit = () => {
     if (text === shown) return;
+    if (field.optional && text.trim() === '') {
+      setError(null);
+      return onCommit(undefined);
+    }
     const n = Number(text);
     if (text.trim() === '' || !Number.isFinite(n)) return setError('enter a number');
     if (field.integer && !Number.isInteger(n)) return setError('enter a whole number');
@@ -53,6 +57,7 @@ function NumberCommit({ field, value, onCommit, disabled }: { field: Extract<Par
     <label className="block text-xs text-slate-600">
       {field.label}
       {field.unit ? ` (${field.unit})` : ''}
+      {field.optional ? <span className="block text-[11px] text-slate-500">empty: {field.optional}</span> : null}
       <input
         inputMode="decimal"
         aria-invalid={error ? true : undefined}

@@ -95,8 +95,8 @@ function paramSummary(block: Block): string {
       return `${p.value ?? 0}`;
     case 'CONST_BOOL':
       return p.value ? 'TRUE' : 'FALSE';
-    case 'SCALE':
-      return `${p.inMin}..${p.inMax} → ${p.outMin}..${p.outMax}${p.clamp ? ' clamped' : ''}`;
+    case 'SPAN_MAP':
+      return `${p.inMin === undefined ? 'input span' : `${p.inMin}..${p.inMax}`} → ${p.outMin}..${p.outMax}${p.clamp ? ' clamped' : ''}`;
     case 'WORD_IN':
       return p.signed ? 'signed' : '';
     case 'PREV_BOOL':
@@ -147,7 +147,6 @@ function PortRow({ input, output, blockId }: { input?: PortSpec; output?: PortSp
 
 function BlockNodeView({ data, selected }: NodeProps<BlockFlowNode>) {
   const { block, problems, inLoop } = data;
-  const known = isBlockType(block.type);
   const { inputs, outputs } = portsOf(block);
   const rows = Math.max(inputs.length, outputs.length);
   const address = (block.params as Record<string, unknown> | undefined)?.address;
@@ -158,7 +157,7 @@ function BlockNodeView({ data, selected }: NodeProps<BlockFlowNode>) {
       data-testid={`block-${block.id}`}
       data-problem={hasProblem ? 'true' : undefined}
       data-loop={inLoop ? 'true' : undefined}
-      title={known ? blockCatalogue[block.type].summary : undefined}
+      title={isBlockType(block.type) ? blockCatalogue[block.type].summary : undefined}
       className={cn(
         'w-[176px] rounded-md border bg-white text-slate-900 shadow-sm',
         selected ? 'border-accent-600 ring-2 ring-accent-300' : hasProblem ? 'border-red-500' : 'border-slate-300',

@@ -196,6 +196,8 @@ export function setBlockParam(sheet: Sheet, blockId: string, name: string, value
   const block = sheet.blocks.find((b) => b.id === blockId);
   if (!block) return sheet;
   const params = { ...((block.params ?? {}) as Record<string, unknown>), [name]: value };
+  // An optional parameter set to nothing is left out (the engine's default stands in).
+  if (value === undefined) delete params[name];
   const next = { ...block, params } as Block;
   let connections = sheet.connections;
   if (isBlockType(block.type) && blockCatalogue[block.type].variadic?.param === name) {
@@ -241,7 +243,7 @@ export function paletteGroups(): { group: string; types: BlockType[] }[] {
 /** The parameters a block type shows in its editor, by kind of input. */
 export type ParamField =
   | { name: string; kind: 'address'; label: string }
-  | { name: string; kind: 'number'; label: string; integer?: boolean; min?: number; max?: number; unit?: string }
+  | { name: string; kind: 'number'; label: string; integer?: boolean; min?: number; max?: number; unit?: string; optional?: string }
   | { name: string; kind: 'boolean'; label: string };
 
 /**
@@ -251,7 +253,9 @@ export type ParamField =
  */
 export function paramFields(type: BlockType): ParamField[] {
   const spec = blockCatalogue[type];
-  return Object.entries(spec.defaultParams).map(([name, dflt]): ParamField => {
+  // Optional numbers (a SPAN_MAP's raw span) first, empty meaning "what the engine says stands in".
+  const optional = Object.entries(spec.optionalParams ?? {}).map(([name, standsIn]): ParamField => ({ name, kind: 'number', label: name, optional: standsIn }));
+  return [...optional, ...Object.entries(spec.defaultParams).map(([name, dflt]): ParamField => {
     if (typeof dflt === 'string') return { name, kind: 'address', label: 'Address' };
     if (typeof dflt === 'boolean') return { name, kind: 'boolean', label: name };
     if (spec.variadic?.param === name) {
@@ -260,7 +264,7 @@ export function paramFields(type: BlockType): ParamField[] {
     if (name === 'PT') return { name, kind: 'number', label: 'PT', integer: true, min: 0, unit: 'ms' };
     if (name === 'PV') return { name, kind: 'number', label: 'PV', integer: true };
     return { name, kind: 'number', label: name };
-  });
+  })];
 }
 
 function portSignature(ports: { inputs: PortSpec[]; outputs: PortSpec[] }): string {

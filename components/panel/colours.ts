@@ -29,3 +29,8 @@ export const CAP: Record<DeviceColour, { off: string; lit: string; text: string 
 
 /** The colours the edit form offers. */
 export const COLOURS = Object.keys(COLOUR_MEANING) as DeviceColour[];
+
+/** What a button does, as the document names it; the engine checks its colour (IEC 60204-1 §10.2.1). */
+export type ButtonFunction = NonNullable<Extract<CellDocument['panel'][number], { type: 'push-button' }>['function']>;
+/** The functions the edit form offers. */
+export const BUTTON_FUNCTIONS: readonly ButtonFunction[] = ['start', 'stop', 'reset', 'start-stop', 'other'];

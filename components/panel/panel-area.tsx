@@ -8,7 +8,7 @@ type DeviceSnapshot = CellSnapshot['devices'][number];
 import { shallowEqual, useEditDocument, useSelection, useSnapshot, useWorkspace } from '@/components/workspace/contract';
 import { PanelDeviceView } from './panel-device';
 import { useRelated } from '@/components/workspace/use-related';
-import { COLOURS, COLOUR_MEANING, type DeviceColour } from './colours';
+import { BUTTON_FUNCTIONS, COLOURS, COLOUR_MEANING, type DeviceColour } from './colours';
 import { PANEL_KINDS, newPanelDevice } from './new-device';
 
 /** One plate millimetre in screen pixels. */
@@ -29,6 +29,8 @@ export function PanelArea() {
   const related = useRelated();
   const byId = new Map((devices ?? []).map((d) => [d.id, d]));
   const selectedDevice = selection?.kind === 'device' ? panel.find((d) => d.id === selection.id) : undefined;
+  // The engine's IEC 60204-1 colour warnings about the panel (the cell runs anyway).
+  const warnings = useWorkspace((s) => s.engine.warnings).filter((w) => w.path[0] === 'panel');
 
   const width = Math.max(640, ...panel.map((d) => d.position.x + CELL_W)) * SCALE;
   const height = Math.max(260, ...panel.map((d) => d.position.y + CELL_H)) * SCALE;
@@ -64,6 +66,13 @@ export function PanelArea() {
           ))}
           {panel.length === 0 ? <p className="p-6 text-sm text-slate-600">No panel devices yet. Switch to edit mode to add some.</p> : null}
         </div>
+        {warnings.length > 0 ? (
+          <ul aria-label="Panel colour warnings" data-testid="panel-warnings" className="mt-3 space-y-1 rounded border border-amber-300 bg-amber-50 p-2 text-xs text-amber-900">
+            {warnings.map((w) => (
+              <li key={`${w.path.join('.')}|${w.code}`}>{w.message}</li>
+            ))}
+          </ul>
+        ) : null}
       </section>
       {editMode ? (
         <aside className="w-full space-y-4 lg:w-72" aria-label="Panel editor">
@@ -221,8 +230,45 @@ function DeviceForm({ device }: { device: PanelDevice }) {
           ))}
         </select>
       </label>
+      {device.type === 'e-stop' ? (
+        <label className="block">
+          <span className="text-xs font-semibold text-slate-700">Background</span>
+          <select
+            value={device.background ?? 'yellow'}
+            onChange={(e) => update('Set background of', (d) => void ((d as typeof device).background = e.target.value as DeviceColour))}
+            className="mt-1 w-full rounded border border-slate-300 px-2 py-1"
+          >
+            {COLOURS.map((c) => (
+              <option key={c} value={c}>
+                {c}
+              </option>
+            ))}
+          </select>
+        </label>
+      ) : null}
       {device.type === 'push-button' || device.type === 'illuminated-button' ? (
         <>
+          <label className="block">
+            <span className="text-xs font-semibold text-slate-700">Function</span>
+            <select
+              value={device.function ?? ''}
+              onChange={(e) =>
+                update('Set function of', (d) => {
+                  const b = d as typeof device;
+                  if (e.target.value === '') delete b.function;
+                  else b.function = e.target.value as NonNullable<typeof device.function>;
+                })
+              }
+              className="mt-1 w-full rounded border border-slate-300 px-2 py-1"
+            >
+              <option value="">not said</option>
+              {BUTTON_FUNCTIONS.map((f) => (
+                <option key={f} value={f}>
+                  {f}
+                </option>
+              ))}
+            </select>
+          </label>
           <label className="block">
             <span className="text-xs font-semibold text-slate-700">Kind</span>
             <select

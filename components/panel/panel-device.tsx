@@ -105,8 +105,9 @@ function EStop({ device, state, operable }: { device: Extract<PanelDevice, { typ
   const latched = Boolean(state?.latched);
   return (
     <div className="flex flex-col items-center gap-1">
-      {/* Yellow background disc with a red mushroom head (IEC 60204-1 §10.7.3). */}
-      <div className="grid h-20 w-20 place-items-center rounded-full bg-yellow-400 ring-1 ring-yellow-600">
+      {/* The background disc and the mushroom head as the document colours them: red on yellow
+          per IEC 60204-1 §10.7.3 (anything else raises a panel warning). */}
+      <div className={cn('grid h-20 w-20 place-items-center rounded-full ring-1 ring-slate-600', CAP[device.background ?? 'yellow'].lit)}>
         <button
           type="button"
           aria-pressed={latched}
@@ -115,8 +116,8 @@ function EStop({ device, state, operable }: { device: Extract<PanelDevice, { typ
           data-testid={`panel-${device.id}`}
           onClick={() => operable && !latched && send({ type: 'press', device: device.id })}
           className={cn(
-            'h-14 w-14 rounded-full border-4 border-red-900 bg-red-600 shadow-[inset_0_-5px_0_rgba(0,0,0,0.35)]',
-            latched && 'scale-90 bg-red-700 shadow-[inset_0_4px_8px_rgba(0,0,0,0.6)]',
+            'h-14 w-14 rounded-full border-4 border-slate-900/60 shadow-[inset_0_-5px_0_rgba(0,0,0,0.35)]',
+            latched ? cn('scale-90 shadow-[inset_0_4px_8px_rgba(0,0,0,0.6)]', CAP[device.colour].off) : CAP[device.colour].lit,
           )}
         />
       </div>

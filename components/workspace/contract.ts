@@ -138,6 +138,8 @@ export type EngineState = {
   speed: RunSpeed;
   /** Problems of the current document (createCell's validation), with paths into the document. */
   problems: Problem[];
+  /** Warnings about a document that runs (IEC 60204-1 panel colours, the supply's tolerance), with paths. */
+  warnings: Problem[];
   /** The last event the cell rejected, with why; null when the last event was accepted. */
   lastRejection: { event: CellEvent; problems: Problem[] } | null;
   /** Every signal name the cell exposes (scope and rule pickers). */

@@ -37,7 +37,7 @@ export function connectEngineWorker(sink: EngineSink): EngineConnection {
         if (frame === null) frame = requestAnimationFrame(draw);
         break;
       case 'loaded':
-        if (m.ok) sink.patch({ status: 'ready', problems: [], signalNames: m.signalNames, lastRejection: null });
+        if (m.ok) sink.patch({ status: 'ready', problems: [], warnings: m.warnings, signalNames: m.signalNames, lastRejection: null });
         else sink.patch({ status: 'invalid', problems: m.problems, running: false });
         break;
       case 'accepted':

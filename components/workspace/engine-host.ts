@@ -116,7 +116,7 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
     traceSent = 0;
     traceReset = true;
     scanPeriodMs = cell.snapshot().plc.scanPeriodMs;
-    post({ type: 'loaded', ok: true, signalNames: cell.signalNames() });
+    post({ type: 'loaded', ok: true, signalNames: cell.signalNames(), warnings: cell.warnings });
     snapshotDue = true;
     // A fresh cell must show at once even if the previous frame has not been acknowledged.
     awaitingFrame = false;

@@ -26,7 +26,7 @@ export type TraceChunk = { reset: boolean; signals: string[]; samples: [number, 
 
 /** Worker → main thread. */
 export type FromEngine =
-  | { type: 'loaded'; ok: true; signalNames: string[] }
+  | { type: 'loaded'; ok: true; signalNames: string[]; warnings: Problem[] }
   | { type: 'loaded'; ok: false; problems: Problem[] }
   | { type: 'snapshot'; snapshot: CellSnapshot; eventCount: number; trace: TraceChunk }
   | { type: 'rejected'; event: CellEvent; problems: Problem[] }

@@ -23,6 +23,7 @@ const INITIAL_ENGINE: EngineState = {
   running: false,
   speed: 1,
   problems: [],
+  warnings: [],
   lastRejection: null,
   signalNames: [],
   eventCount: 0,

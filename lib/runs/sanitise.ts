@@ -27,6 +27,8 @@ export function sanitiseSnapshot(s: CellSnapshot): SanitisedSnapshot {
     }),
     plc: s.plc,
     link: s.link,
+    // The supply voltage is a symptom a meter shows; it names no card.
+    supply: s.supply,
     controller: s.controller,
     arm: s.arm,
     forces: s.forces,

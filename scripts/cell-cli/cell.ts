@@ -82,7 +82,8 @@ function validate(file: string): Exit {
   }
   const r = validateCellDocument(doc.value);
   if (r.ok) {
-    print({ ok: true, problems: [] });
+    // Warnings (IEC 60204-1 panel colours, the supply's tolerance) do not fail validation.
+    print({ ok: true, problems: [], warnings: r.value.warnings.map((p) => ({ ...p, at: p.path.join('.') })) });
     return 0;
   }
   print({ ok: false, problems: r.errors.map((p) => ({ ...p, at: p.path.join('.') })) });

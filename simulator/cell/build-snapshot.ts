@@ -4,6 +4,7 @@
  */
 import { formatAddress, readAddress } from '@/simulator/address';
 import { INPUT_FAMILIES } from '@/simulator/controller/point-map';
+import { supplyWithinTolerance } from '@/simulator/electrical';
 import { deviceSnapshot } from './devices';
 import type { CellParts } from './parts';
 import type { CellSnapshot, WireSnapshot } from './snapshot';
@@ -64,6 +65,7 @@ export function buildSnapshot(parts: CellParts): CellSnapshot {
       moduleFaults: doc.plc.modules.filter((m) => faults.moduleDead(m.id)).map((m) => m.id),
     },
     link: { kind: doc.link.kind, healthy: wiring.linkHealthy(), lastUpdateMs: wiring.lastBusMs },
+    supply: { volts: faults.supplyV, withinTolerance: supplyWithinTolerance(faults.supplyV) },
     controller: {
       state,
       detail,

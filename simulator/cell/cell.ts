@@ -15,6 +15,7 @@
  * Everything that varies is derived from the document, the event log and the seed, so a
  * replay gives the same trace.
  */
+import { NOMINAL_SUPPLY_V } from '@/simulator/electrical';
 import type { Problem, Result } from '@/simulator/shared/result';
 import type { CompiledSheet } from '@/simulator/plc';
 import type { CellDocument } from '@/simulator/schema/cell-document';
@@ -78,6 +79,11 @@ export type Cell = {
    * next time: an incremental read of {@link trace}'s `samples` (same signals, same order).
    */
   traceSince(from: number): { samples: TraceSample[]; next: number };
+  /**
+   * Warnings about the cell's document: panel colours against IEC 60204-1, a supply outside
+   * IEC 61131-2's tolerance (schema/warnings.ts). The cell runs anyway.
+   */
+  readonly warnings: Problem[];
   /** Stops the controller actor and drops listeners; later calls are rejected. */
   dispose(): void;
 };
@@ -95,7 +101,7 @@ function err(code: string, message: string, path: (string | number)[] = []): { o
 export function createCell(document: unknown, options: CellOptions = {}): Result<Cell, Problem> {
   const v = validateCellDocument(document);
   if (!v.ok) return v;
-  const { document: doc, sheet, plans } = v.value;
+  const { document: doc, sheet, plans, warnings } = v.value;
   if (options.seed !== undefined && !(Number.isInteger(options.seed) && options.seed >= 0 && options.seed <= 0xffffffff)) {
     return err('invalid_seed', 'the seed must be an integer 0..4294967295', ['options', 'seed']);
   }
@@ -114,7 +120,7 @@ export function createCell(document: unknown, options: CellOptions = {}): Result
     return { ok: false, errors: problems };
   }
   rt.start();
-  return { ok: true, value: rt.api() };
+  return { ok: true, value: rt.api(warnings) };
 }
 
 /** The rooms of one cell, the clock over them, its log, trace and listeners. */
@@ -129,7 +135,7 @@ class RunningCell {
   constructor(doc: CellDocument, sheet: CompiledSheet, plans: RowPlan[], seed: number) {
     const clock: Clock = { now: 0 };
     const forces = new Map<string, number>();
-    const faults = new FaultState();
+    const faults = new FaultState(doc.supply?.volts ?? NOMINAL_SUPPLY_V);
     const devices = new Map<string, DevState>();
     const devOf = new Map<object, DevState>();
     const init = doc.initial.devices ?? {};
@@ -266,7 +272,7 @@ class RunningCell {
     this.parts.controller.actor.stop();
   }
 
-  api(): Cell {
+  api(warnings: Problem[]): Cell {
     const { parts, signals, log } = this;
     const clock = parts.clock;
     return {
@@ -293,6 +299,7 @@ class RunningCell {
       },
       trace: () => this.recorder?.trace(clock.now) ?? { signals: [], samples: [], endMs: clock.now },
       traceSince: (from) => this.recorder?.since(from) ?? { samples: [], next: 0 },
+      warnings,
       dispose: () => this.dispose(),
     };
   }

@@ -10,6 +10,7 @@ import { contactClosed, engineeringToSignal, SIGNAL_SPANS } from '@/simulator/el
 import type { Problem, Result } from '@/simulator/shared/result';
 import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/cell-document';
 import type { Clock } from './clock';
+import type { FaultKind } from '@/simulator/faults/fault-card';
 import type { CellEvent } from './events';
 import type { DevFaults } from './fault-state';
 import type { DeviceSnapshot } from './snapshot';
@@ -51,7 +52,7 @@ type Output =
 
 /** The operator events that move devices. */
 type OperatorEvent = Extract<CellEvent, { type: 'press' | 'release' | 'toggle' | 'set-selector' | 'set-analog' | 'set-field' }>;
-type FaultKindOnDevice = 'stuck-on' | 'stuck-off' | 'slow-actuator' | 'analog-drift' | 'analog-loss' | 'sensor-type-mismatch';
+type FaultKindOnDevice = 'stuck-on' | 'stuck-off' | 'slow-actuator' | 'analog-drift' | 'analog-loss' | 'sensor-type-mismatch' | 'sensor-leakage';
 
 /** One catalogue entry. */
 type Kind = {
@@ -72,7 +73,7 @@ type Kind = {
 /** A conveyor's run-up (and run-down) to full speed, ms (our model). */
 const CONVEYOR_RAMP_MS = 200;
 const STUCK: FaultKindOnDevice[] = ['stuck-on', 'stuck-off'];
-const SENSOR_FAULTS: FaultKindOnDevice[] = ['stuck-on', 'stuck-off', 'sensor-type-mismatch'];
+const SENSOR_FAULTS: FaultKindOnDevice[] = ['stuck-on', 'stuck-off', 'sensor-type-mismatch', 'sensor-leakage'];
 const ACTUATOR_FAULTS: FaultKindOnDevice[] = ['stuck-on', 'stuck-off', 'slow-actuator'];
 const BUTTON_EVENTS: OperatorEvent['type'][] = ['press', 'release', 'toggle'];
 const FIELD_EVENTS: OperatorEvent['type'][] = ['press', 'release', 'toggle', 'set-field'];
@@ -177,6 +178,14 @@ export function typesTaking(what: { event: string } | { fault: string }): Device
   });
 }
 
+/**
+ * Device types each device fault card applies to, by kind (from the catalogue): a card on any
+ * other device is refused when it is armed.
+ */
+export const FAULT_DEVICE_TYPES: Readonly<Partial<Record<FaultKind, readonly DeviceType[]>>> = Object.freeze(
+  Object.fromEntries((['stuck-on', 'stuck-off', 'slow-actuator', 'analog-drift', 'analog-loss', 'sensor-type-mismatch', 'sensor-leakage'] as const).map((k) => [k, typesTaking({ fault: k })])),
+);
+
 /** True for devices an output drives on and off (lamps and displays only show what they get). */
 export function isActuator(dev: Device): boolean {
   return DEVICE_CATALOGUE[dev.type].strokeMs !== undefined;
@@ -257,7 +266,10 @@ export function deviceSource(d: DevState, terminal: string, t: number): Src {
     case 'sensor': {
       const stage = dev.type === 'proximity-sensor' || dev.type === 'photo-eye' || dev.type === 'part-sensor' ? dev.output : 'PNP';
       const fitted = f?.mismatch ? (stage === 'PNP' ? 'NPN' : 'PNP') : stage;
-      return SENSOR[fitted][detecting(d) ? 1 : 0];
+      const on = detecting(d);
+      // Switched off, a leaky sensor still passes a little current through the input.
+      if (!on && f && f.leakMa > 0) return { k: 'sensor', out: fitted, on: false, leakMa: f.leakMa };
+      return SENSOR[fitted][on ? 1 : 0];
     }
     case 'analog': {
       if (dev.type !== 'potentiometer') return OFF;

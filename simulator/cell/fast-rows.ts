@@ -11,7 +11,7 @@ import type { InputReading } from '@/simulator/electrical';
 import type { Clock } from './clock';
 import { fastDeviceSource, type DevState } from './devices';
 import type { FaultState } from './fault-state';
-import { digitalOn, DRIVE_ON, OFF, type Src, type SrcReader } from './sources';
+import { digitalOn, DRIVE_ON, inputTypeOf, OFF, supplyReadsOn, type Src, type SrcReader } from './sources';
 
 /** What a fault-free row delivers now (0/1, or the word). */
 export type RowReader = () => number;
@@ -56,6 +56,9 @@ function fastRow(w: FastRowsSource, p: RowPlan, i: number): RowReader | null {
     };
   }
   if (p.bits === 1 && (sink.kind === 'plc-bit' || sink.kind === 'controller')) {
+    // Exact only while the full supply reads ON on this input (else the generic reading
+    // classifies the voltage); 0 V is OFF for every type.
+    if (!supplyReadsOn(w.host.faults.supplyV, inputTypeOf(sink))) return null;
     const src = fastSource(w, p, i, 0);
     if (!src) return null;
     const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;

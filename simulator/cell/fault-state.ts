@@ -26,10 +26,19 @@ export type DevFaults = {
   slow: number;
   drift: { rate: number; since: number } | null;
   loss: boolean;
+  /** A sensor's off-state leakage through its input, mA (0: none). */
+  leakMa: number;
 };
 
 /** Every fault in effect now. */
 export class FaultState {
+  /** The supply voltage in effect now: the document's, or lower while a supply-sag card is active. */
+  supplyV: number;
+
+  constructor(readonly documentV: number) {
+    this.supplyV = documentV;
+  }
+
   /** Per wiring row (plan order): its faults, or null for a healthy row. */
   rowFaults: (RowFaults | null)[] = [];
   devFaults = new Map<string, DevFaults>();
@@ -47,6 +56,7 @@ export class FaultState {
     this.devFaults = new Map();
     this.deadModules = new Set();
     this.linkLoss = false;
+    this.supplyV = this.documentV;
   }
 
   /** The faults of row `i`, created healthy on first use. */
@@ -57,7 +67,7 @@ export class FaultState {
   /** The faults of a device, created healthy on first use. */
   device(id: string): DevFaults {
     let f = this.devFaults.get(id);
-    if (!f) this.devFaults.set(id, (f = { stuckOn: false, stuckOff: false, mismatch: false, slow: 1, drift: null, loss: false }));
+    if (!f) this.devFaults.set(id, (f = { stuckOn: false, stuckOff: false, mismatch: false, slow: 1, drift: null, loss: false, leakMa: 0 }));
     return f;
   }
 }

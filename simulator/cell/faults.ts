@@ -40,7 +40,7 @@ type KindEntry<K extends FaultKind> = {
 };
 
 type RowKind = 'open-wire' | 'short-24v' | 'short-0v';
-type DeviceKind = 'stuck-on' | 'stuck-off' | 'slow-actuator' | 'analog-drift' | 'analog-loss' | 'sensor-type-mismatch';
+type DeviceKind = 'stuck-on' | 'stuck-off' | 'slow-actuator' | 'analog-drift' | 'analog-loss' | 'sensor-type-mismatch' | 'sensor-leakage';
 
 const onRow = <K extends RowKind>(set: (f: ReturnType<FaultState['row']>) => void): KindEntry<K> => ({
   check: (card, t) => t.row((card as Card<RowKind>).row, ['row']),
@@ -104,6 +104,11 @@ const KINDS: { [K in FaultKind]: KindEntry<K> } = {
   'analog-drift': onDevice((card, state, at) => void (state.device(card.device).drift = { rate: card.ratePerS, since: at.since })),
   'analog-loss': onDevice((card, state) => void (state.device(card.device).loss = true)),
   'sensor-type-mismatch': onDevice((card, state) => void (state.device(card.device).mismatch = true)),
+  'supply-sag': { check: () => undefined, apply: (card, state) => void (state.supplyV = Math.min(state.supplyV, card.volts)) },
+  'sensor-leakage': onDevice((card, state) => {
+    const f = state.device(card.device);
+    f.leakMa = Math.max(f.leakMa, card.leakMa);
+  }),
 };
 
 function entry(card: FaultCard): KindEntry<FaultKind> {

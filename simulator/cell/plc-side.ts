@@ -71,7 +71,8 @@ export class PlcSide {
           setBit(this.image, 'I', ch >> 3, ch & 7, ((r.value >> b) & 1) === 1);
         }
       } else if (sink.kind === 'plc-analog') {
-        const counts = signalToCounts(r.value, { range: sink.module.signal, bits: sink.module.resolutionBits });
+        // Saturating at the module's format limits; negative counts land as two's complement.
+        const counts = signalToCounts(r.value, { range: sink.module.signal, bits: sink.module.resolutionBits, format: sink.module.format });
         setWord(this.image, 'I', sink.address.byte, counts & 0xffff);
       }
     }

@@ -82,6 +82,8 @@ export type CellSnapshot = {
     moduleFaults: string[];
   };
   link: { kind: 'hardwired' | 'fieldbus'; healthy: boolean; lastUpdateMs: number | null };
+  /** The 24 V control supply now (a supply-sag card lowers it) and whether it is within IEC 61131-2's 20.4–28.8 V. */
+  supply: { volts: number; withinTolerance: boolean };
   controller: {
     state: ControllerStateName;
     /** Sub-state while e-stopped: braking (category 1) or halted. */

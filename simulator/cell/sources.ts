@@ -3,11 +3,13 @@
  * output (PNP or NPN, switched or not), a driven output (a PLC or controller output), an
  * analog signal (V or mA) or a word. The wiring turns these into what the destination reads.
  */
+import { inputReading, type InputType } from '@/simulator/electrical';
+import type { RowSink } from '@/simulator/schema/wiring-plan';
 
 /** One source's signal on a row. */
 export type Src =
   | { k: 'contact'; closed: boolean }
-  | { k: 'sensor'; out: 'PNP' | 'NPN'; on: boolean }
+  | { k: 'sensor'; out: 'PNP' | 'NPN'; on: boolean; leakMa?: number }
   | { k: 'drive'; on: boolean }
   | { k: 'analog'; value: number; unit: 'V' | 'mA' }
   | { k: 'word'; value: number };
@@ -39,4 +41,17 @@ export function contact(closed: boolean): Src {
  */
 export function digitalOn(s: Src, sinking: boolean): boolean {
   return s.k === 'contact' ? s.closed : s.k === 'drive' ? s.on && sinking : s.k === 'sensor' ? s.on && (s.out === 'PNP') === sinking : false;
+}
+
+/**
+ * The IEC 61131-2 type of a digital input: a PLC module's declared type; the controller's own
+ * input channels are taken as type 1 (the document does not type them).
+ */
+export function inputTypeOf(sink: RowSink): InputType {
+  return sink.kind === 'plc-bit' ? sink.module.inputType : 1;
+}
+
+/** True when the full supply reads ON on an input of this type (then a closed contact is simply ON). */
+export function supplyReadsOn(supplyV: number, type: InputType): boolean {
+  return inputReading(type, { volts: supplyV }).reading === 'on';
 }

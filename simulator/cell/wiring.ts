@@ -9,7 +9,7 @@
  * was in play are held until something invalidates them (see {@link Wiring.invalidate}).
  */
 import { readAddress, type ProcessImage } from '@/simulator/address';
-import { classifyDigitalInput, decodeWord, ne43Status, SIGNAL_SPANS, type InputReading } from '@/simulator/electrical';
+import { decodeWord, inputReading, ne43Status, SIGNAL_SPANS, type InputReading } from '@/simulator/electrical';
 import { chatterOpen } from '@/simulator/faults/fault-card';
 import type { CellDocument } from '@/simulator/schema/cell-document';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
@@ -17,7 +17,7 @@ import type { Clock } from './clock';
 import { command, deviceSource, isActuator, travelAt, type DevState } from './devices';
 import { fastRowReaders, type RowReader } from './fast-rows';
 import type { FaultState } from './fault-state';
-import { digitalOn, DRIVE_ON, OFF, ZERO_WORD, type Src } from './sources';
+import { digitalOn, DRIVE_ON, inputTypeOf, OFF, supplyReadsOn, ZERO_WORD, type Src } from './sources';
 
 /** What a destination sees: the level on the wire, its unit, the input's reading and value. */
 export type Reading = { level: number; unit: 'V' | 'mA' | 'word'; reading: InputReading; value: number; loop?: string };
@@ -294,19 +294,23 @@ export class Wiring {
       return { level: word, unit: 'word', reading: word !== 0 ? 'on' : 'off', value: word };
     }
     const src = this.rowSource(i, 0);
+    const supply = this.host.faults.supplyV;
     if (sink.kind === 'device') {
       const on = w.short24 || (!w.open && !w.short0 && src.k === 'drive' && src.on);
-      return { level: on ? 24 : 0, unit: 'V', reading: on ? 'on' : 'off', value: on ? 1 : 0 };
+      return { level: on ? supply : 0, unit: 'V', reading: on ? 'on' : 'off', value: on ? 1 : 0 };
     }
     const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;
-    const inputType = sink.kind === 'plc-bit' ? sink.module.inputType : 1;
-    let volts: number;
-    if (w.short24) volts = sinking ? 24 : 0;
-    else if (w.short0) volts = sinking ? 0 : 24;
-    else if (w.open) volts = 0;
-    else volts = digitalOn(src, sinking) ? 24 : 0;
-    const reading = classifyDigitalInput(volts, inputType);
-    // In the transition band an input keeps its last state (what a real input most often does).
+    const inputType = inputTypeOf(sink);
+    let drive: { volts: number } | { leakMa: number };
+    if (w.short24) drive = { volts: sinking ? supply : 0 };
+    else if (w.short0) drive = { volts: sinking ? 0 : supply };
+    else if (w.open) drive = { volts: 0 };
+    // A switched-off sensor whose output stage suits the input leaks its current through it.
+    else if (src.k === 'sensor' && !src.on && src.leakMa && (src.out === 'PNP') === sinking) drive = { leakMa: src.leakMa };
+    else drive = { volts: digitalOn(src, sinking) ? supply : 0 };
+    const { volts, reading } = inputReading(inputType, drive);
+    // In the transition band an input keeps its last state, as IEC 61131-2 leaves it (what a
+    // real input most often does).
     const value = reading === 'on' ? 1 : reading === 'off' ? 0 : this.prevReading[i] === 'on' ? 1 : 0;
     if (reading !== 'undefined' && commit) this.prevReading[i] = reading;
     return { level: volts, unit: 'V', reading, value };
@@ -315,7 +319,7 @@ export class Wiring {
   /**
    * The value row `i` delivers (0/1 for digital rows), committing the input's state: the fast
    * path for fault-free digital rows, where the input sees either the full supply or nothing
-   * (ON or OFF for every input type), else the generic walk.
+   * (ON or OFF for its type), else the generic walk.
    */
   readValue(i: number): number {
     const fast = this.fastRows[i];
@@ -327,10 +331,13 @@ export class Wiring {
         const src = this.rowSource(i, 0);
         return src.k === 'drive' && src.on ? 1 : 0;
       }
-      if (sink.kind === 'plc-bit' || (sink.kind === 'controller' && sink.module.type !== 'analog-in')) {
-        const on = digitalOn(this.rowSource(i, 0), sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true);
-        this.prevReading[i] = on ? 'on' : 'off';
-        return on ? 1 : 0;
+      if ((sink.kind === 'plc-bit' || (sink.kind === 'controller' && sink.module.type !== 'analog-in')) && supplyReadsOn(this.host.faults.supplyV, inputTypeOf(sink))) {
+        const src = this.rowSource(i, 0);
+        if (src.k !== 'sensor' || !src.leakMa) {
+          const on = digitalOn(src, sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true);
+          this.prevReading[i] = on ? 'on' : 'off';
+          return on ? 1 : 0;
+        }
       }
     }
     return this.readRow(i, true).value;

@@ -35,9 +35,9 @@ export const pickAndPlaceCell: CellDocumentInput = {
     'Start, NC stop, two-channel NC e-stop, guard switch, part sensor, gripper with feedback, stack light.',
   seed: 20260301,
   panel: [
-    { id: 'start', type: 'push-button', label: 'Cycle start', colour: 'green', position: pos(), contact: 'NO', action: 'momentary' },
-    { id: 'stop', type: 'push-button', label: 'Cycle stop', colour: 'red', position: pos(), contact: 'NC', action: 'momentary' },
-    { id: 'reset', type: 'push-button', label: 'Fault reset', colour: 'blue', position: pos(), contact: 'NO', action: 'momentary' },
+    { id: 'start', type: 'push-button', label: 'Cycle start', colour: 'green', position: pos(), contact: 'NO', action: 'momentary', function: 'start' },
+    { id: 'stop', type: 'push-button', label: 'Cycle stop', colour: 'red', position: pos(), contact: 'NC', action: 'momentary', function: 'stop' },
+    { id: 'reset', type: 'push-button', label: 'Fault reset', colour: 'blue', position: pos(), contact: 'NO', action: 'momentary', function: 'reset' },
     { id: 'estop', type: 'e-stop', label: 'Emergency stop', colour: 'red', position: pos() },
     { id: 'job', type: 'selector-switch', label: 'Job', colour: 'black', position: pos(), positions: ['Job 1', 'Job 2'] },
     { id: 'readyLamp', type: 'pilot-light', label: 'Robot ready', colour: 'white', position: pos() },

@@ -17,8 +17,8 @@ export const starterCell: CellDocumentInput = {
     'and show a 4–20 mA speed setpoint in percent.',
   seed: 7,
   panel: [
-    { id: 'start', type: 'push-button', label: 'Start', colour: 'green', position: at(40, 60), contact: 'NO', action: 'momentary' },
-    { id: 'stop', type: 'push-button', label: 'Stop', colour: 'red', position: at(160, 60), contact: 'NC', action: 'momentary' },
+    { id: 'start', type: 'push-button', label: 'Start', colour: 'green', position: at(40, 60), contact: 'NO', action: 'momentary', function: 'start' },
+    { id: 'stop', type: 'push-button', label: 'Stop', colour: 'red', position: at(160, 60), contact: 'NC', action: 'momentary', function: 'stop' },
     { id: 'estop', type: 'e-stop', label: 'Emergency stop', colour: 'red', position: at(280, 60) },
     { id: 'running', type: 'pilot-light', label: 'Running', colour: 'green', position: at(400, 60) },
     { id: 'speed', type: 'potentiometer', label: 'Speed setpoint', colour: 'black', position: at(40, 200), signal: '4-20mA', min: 0, max: 100, unit: '%' },
@@ -44,7 +44,8 @@ export const starterCell: CellDocumentInput = {
         { id: 'runPermit', type: 'AND', position: at(300, 90), params: { inputs: 3 } },
         { id: 'runCoil', type: 'COIL', position: at(450, 90), params: { address: '%QX0.0' } },
         { id: 'speedRaw', type: 'WORD_IN', position: at(0, 260), params: { address: '%IW4', signed: true } },
-        { id: 'speedPct', type: 'SCALE', position: at(150, 260), params: { inMin: 0, inMax: 4095, outMin: 0, outMax: 100, clamp: true } },
+        // No raw span of its own: it takes the 12-bit analog module's 0..4095 (see plc.modules).
+        { id: 'speedPct', type: 'SPAN_MAP', position: at(150, 260), params: { outMin: 0, outMax: 100, clamp: true } },
         { id: 'speedOut', type: 'WORD_OUT', position: at(300, 260), params: { address: '%QW2' } },
       ],
       connections: [

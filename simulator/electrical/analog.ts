@@ -37,42 +37,58 @@ export function engineeringToSignal(value: number, range: SignalRange, lo: numbe
   return scaleLinear(value, lo, hi, s.lo, s.hi);
 }
 
+/**
+ * How an analog input module reports a reading in its word (the module's declared format):
+ * - `unsigned`: the converter's code, 0 at the bottom of the nominal span and 2^bits − 1 at
+ *   the top (a 16-bit module: 0..65535);
+ * - `signed`: 0 at the bottom and 2^(bits−1) − 1 at the top (a 16-bit module: 0..32767), the
+ *   sign bit left for readings below the span, down to −2^(bits−1).
+ * Right-aligned binary codes of an n-bit converter, as common practice (any data-acquisition
+ * text); the word carries them as 16-bit two's complement.
+ */
+export type CountFormat = 'unsigned' | 'signed';
+
 /** How an analog input module turns a signal into a number. */
 export type AnalogModuleSpec = {
   range: SignalRange;
-  /** Converter resolution over the nominal span, 8..16 bits. */
+  /** Converter resolution, 8..16 bits. */
   bits: number;
-  /**
-   * Raw value reported at the top of the nominal span. Defaults to 2^bits − 1 (the
-   * converter code itself). Many modules report a fixed number instead, commonly 27648
-   * for the nominal span whatever the converter's resolution (common practice, from memory).
-   */
-  fullScale?: number;
-  /** Lowest and highest raw value the module reports (over/under-range clamp); default −32768..32767. */
-  rawMin?: number;
-  rawMax?: number;
+  /** The count format (default `unsigned`). */
+  format?: CountFormat;
 };
 
 /**
- * Raw counts for a signal. The signal's fraction of the nominal span is quantised to the
- * converter's resolution first (2^bits − 1 steps), then expressed on the module's full
- * scale and clamped to its raw limits. So a 12-bit module with fullScale 27648 reports
- * multiples of 27648/4095 rounded to integers.
+ * The counts a module reports: 0 at the bottom of the nominal span, `spanMax` at its top,
+ * and nothing below `min` or above `max` — the converter saturates there, so a signal beyond
+ * its reach reads `min` (the underflow reading) or `max` (the overflow reading), never a
+ * wrapped word.
+ */
+export function countRange(spec: Pick<AnalogModuleSpec, 'bits' | 'format'>): { min: number; max: number; spanMax: number } {
+  if (spec.format === 'signed') {
+    const top = 2 ** (spec.bits - 1) - 1;
+    return { min: -(2 ** (spec.bits - 1)), max: top, spanMax: top };
+  }
+  const top = 2 ** spec.bits - 1;
+  return { min: 0, max: top, spanMax: top };
+}
+
+/**
+ * Raw counts for a signal: its fraction of the nominal span, quantised to the format's
+ * steps (`spanMax` steps over the span), saturating at the format's limits. A signal that is
+ * not a number (no reading at all) reads the underflow value.
  */
 export function signalToCounts(signal: number, spec: AnalogModuleSpec): number {
   const s = SIGNAL_SPANS[spec.range];
-  const steps = 2 ** spec.bits - 1;
-  const code = Math.round(((signal - s.lo) / (s.hi - s.lo)) * steps);
-  const full = spec.fullScale ?? steps;
-  const raw = Math.round((code * full) / steps);
-  return Math.min(spec.rawMax ?? 32767, Math.max(spec.rawMin ?? -32768, raw));
+  const { min, max, spanMax } = countRange(spec);
+  if (Number.isNaN(signal)) return min;
+  const code = Math.round(((signal - s.lo) / (s.hi - s.lo)) * spanMax);
+  return Math.min(max, Math.max(min, code));
 }
 
 /** Signal (V or mA) for raw counts: the inverse of {@link signalToCounts} without quantisation. */
 export function countsToSignal(counts: number, spec: AnalogModuleSpec): number {
   const s = SIGNAL_SPANS[spec.range];
-  const full = spec.fullScale ?? 2 ** spec.bits - 1;
-  return scaleLinear(counts, 0, full, s.lo, s.hi);
+  return scaleLinear(counts, 0, countRange(spec).spanMax, s.lo, s.hi);
 }
 
 /** NAMUR NE 43 reading of a 4–20 mA loop current. */

@@ -50,6 +50,31 @@ export function classifyDigitalInput(volts: number, type: InputType, currentMa?:
   return 'undefined';
 }
 
+/**
+ * The input as a resistor (our model, not the standard's): sized so that at the type's
+ * lowest ON voltage it draws its lowest ON current with a 25 % margin, R = 0.8 · U_H min /
+ * I_H min — 6 kΩ (type 1), ≈1.47 kΩ (type 2), 4.4 kΩ (type 3). Type 2's low resistance is
+ * why it tolerates a two-wire sensor's leakage: the same current makes a smaller voltage.
+ */
+export const INPUT_OHMS: Readonly<Record<InputType, number>> = Object.freeze({
+  1: (0.8 * IEC_61131_2_BANDS[1].onMinV) / (IEC_61131_2_BANDS[1].onMinMa / 1000),
+  2: (0.8 * IEC_61131_2_BANDS[2].onMinV) / (IEC_61131_2_BANDS[2].onMinMa / 1000),
+  3: (0.8 * IEC_61131_2_BANDS[3].onMinV) / (IEC_61131_2_BANDS[3].onMinMa / 1000),
+});
+
+/**
+ * What a 24 V DC input of a given type reads when `volts` stand across it, its current
+ * following from its resistance ({@link INPUT_OHMS}) — or, for a source that pushes a fixed
+ * current through it (a sensor's off-state leakage), from that current: the voltage is then
+ * I × R. The reading classifies both per IEC 61131-2 ({@link classifyDigitalInput}).
+ */
+export function inputReading(type: InputType, drive: { volts: number } | { leakMa: number }): { volts: number; currentMa: number; reading: InputReading } {
+  const R = INPUT_OHMS[type];
+  const volts = 'volts' in drive ? drive.volts : (drive.leakMa / 1000) * R;
+  const currentMa = 'volts' in drive ? (drive.volts / R) * 1000 : drive.leakMa;
+  return { volts, currentMa, reading: classifyDigitalInput(volts, type, currentMa) };
+}
+
 /** Nominal control voltage. */
 export const NOMINAL_SUPPLY_V = 24;
 /**

@@ -13,6 +13,7 @@ import {
   ne43Valid,
   scaleLinear,
   sensorInputVoltage,
+  countRange,
   signalToCounts,
   supplyWithinTolerance,
   voltageToEngineering,
@@ -97,19 +98,46 @@ describe('analog scaling (linear 4–20 mA and 0–10 V: common practice)', () =
   });
   it('inverse and general linear map', () => {
     expect(engineeringToSignal(5, '4-20mA', 0, 10)).toBe(12);
-    expect(scaleLinear(13824, 0, 27648, 0, 100)).toBe(50);
+    expect(scaleLinear(2048, 0, 4096, 0, 100)).toBe(50);
     expect(() => scaleLinear(1, 2, 2, 0, 1)).toThrow(RangeError);
   });
   it('raw counts at module resolution', () => {
     // 12-bit converter: 2^12 − 1 = 4095 steps; mid-span 0.5 × 4095 = 2047.5 → 2048.
     expect(signalToCounts(12, { range: '4-20mA', bits: 12 })).toBe(2048);
-    // Full scale reported as 27648 (common practice, from memory): 20 mA → 27648, 4 mA → 0.
-    expect(signalToCounts(20, { range: '4-20mA', bits: 15, fullScale: 27648 })).toBe(27648);
-    expect(signalToCounts(4, { range: '4-20mA', bits: 15, fullScale: 27648 })).toBe(0);
-    expect(signalToCounts(5, { range: '0-10V', bits: 16, fullScale: 27648 })).toBe(13824);
-    // Over-range is clamped to the module's raw limit.
-    expect(signalToCounts(30, { range: '0-10V', bits: 16, fullScale: 27648 })).toBe(32767);
-    expect(countsToSignal(13824, { range: '4-20mA', bits: 16, fullScale: 27648 })).toBe(12);
+    expect(countsToSignal(2048, { range: '4-20mA', bits: 12 })).toBeCloseTo(12.0020, 4);
+  });
+});
+
+describe('analog count formats: counts follow the declared format of the module and saturate', () => {
+  // Right-aligned n-bit converter codes (common practice, any data-acquisition text):
+  // unsigned 0..2^n − 1 over the span; signed 0..2^(n−1) − 1 with negatives below the span.
+  it('a 16-bit unsigned module spans 0..65535: 12 mA is mid-scale, not capped at half scale', () => {
+    const spec = { range: '4-20mA', bits: 16, format: 'unsigned' } as const;
+    expect(countRange(spec)).toEqual({ min: 0, max: 65535, spanMax: 65535 });
+    expect(signalToCounts(4, spec)).toBe(0);
+    expect(signalToCounts(12, spec)).toBe(32768); // 0.5 × 65535 = 32767.5 → 32768
+    expect(signalToCounts(20, spec)).toBe(65535);
+  });
+
+  it('a 16-bit signed module spans 0..32767 and reads below the span as negative counts', () => {
+    const spec = { range: '4-20mA', bits: 16, format: 'signed' } as const;
+    expect(countRange(spec)).toEqual({ min: -32768, max: 32767, spanMax: 32767 });
+    expect(signalToCounts(12, spec)).toBe(16384); // 0.5 × 32767 = 16383.5 → 16384
+    expect(signalToCounts(20, spec)).toBe(32767);
+    expect(signalToCounts(3, spec)).toBe(-2048); // (3 − 4) / 16 × 32767 = −2047.9 → −2048
+    expect(signalToCounts(0, spec)).toBe(-8192); // a lost loop: (0 − 4) / 16 × 32767 = −8191.75
+  });
+
+  it('converters saturate at their bit width instead of wrapping: the overflow and underflow readings', () => {
+    const u12 = { range: '0-10V', bits: 12 } as const;
+    expect(signalToCounts(24, u12)).toBe(4095); // a 0–10 V input shorted to 24 V: overflow reading
+    expect(signalToCounts(-3, u12)).toBe(0); // below the span on an unsigned format: underflow reading
+    expect(signalToCounts(Number.NaN, u12)).toBe(0);
+    const s16 = { range: '4-20mA', bits: 16, format: 'signed' } as const;
+    expect(signalToCounts(40, s16)).toBe(32767);
+    expect(signalToCounts(-100, s16)).toBe(-32768);
+    const u16 = { range: '4-20mA', bits: 16 } as const;
+    expect(signalToCounts(22, u16)).toBe(65535); // NE 43 failure level on the high side: saturated
   });
 });
 

@@ -15,6 +15,8 @@ export type {
 export {
   IEC_61131_2_BANDS,
   NOMINAL_SUPPLY_V,
+  INPUT_OHMS,
+  inputReading,
   SUPPLY_MIN_V,
   SUPPLY_MAX_V,
   classifyDigitalInput,
@@ -24,13 +26,14 @@ export {
   applyInvert,
   sensorInputVoltage,
 } from './digital';
-export type { SignalRange, AnalogModuleSpec, Ne43Status, WordEncoding } from './analog';
+export type { SignalRange, AnalogModuleSpec, CountFormat, Ne43Status, WordEncoding } from './analog';
 export {
   SIGNAL_SPANS,
   scaleLinear,
   currentToEngineering,
   voltageToEngineering,
   engineeringToSignal,
+  countRange,
   signalToCounts,
   countsToSignal,
   ne43Status,

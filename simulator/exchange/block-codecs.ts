@@ -16,7 +16,8 @@
  *   coil, in plain FBD;
  * - WORD_IN: the address through the standard conversion (WORD_TO_UINT, WORD_TO_INT, …);
  *   WORD_OUT: our CW_TO_WORD (or _BYTE, _DWORD) into an `outVariable`;
- * - SCALE: our function block CW_SCALE, its span as instance initial values;
+ * - SPAN_MAP: our function block CW_SPAN_MAP, its spans as instance initial values (a raw span
+ *   left to the analog input stays left out: no IN_MIN / IN_MAX);
  * - CONST, CONST_BOOL: an `inVariable` holding the literal;
  * - PREV_BOOL / PREV_NUM: a variable read where the block stands and written by an
  *   `outVariable` executed after everything else (its initial value is the block's).
@@ -90,12 +91,20 @@ const WORD_IN_CONVERSIONS: Record<Exclude<Size, 'X'>, [string, string]> = {
 };
 /** Cellwright's number-to-bit-string functions for WORD_OUT, by size (declared in the document). */
 export const WORD_OUT_FUNCTIONS: Record<Exclude<Size, 'X'>, string> = { B: 'CW_TO_BYTE', W: 'CW_TO_WORD', D: 'CW_TO_DWORD' };
-/** Cellwright's scaling function block for SCALE (declared in the document). */
-export const SCALE_FB = 'CW_SCALE';
+/** Cellwright's function block for SPAN_MAP (declared in the document). */
+export const SPAN_FB = 'CW_SPAN_MAP';
+/** The same block's name in files exported before SPAN_MAP had its name; still read. */
+const LEGACY_SPAN_FB = 'CW_SCALE';
 
 type MemberKind = 'time' | 'int' | 'real' | 'bool';
-type Member = { member: string; param: string; kind: MemberKind; dflt: number | boolean };
-/** Parameters kept as instance initial values; `dflt` is the type's declared initial value. */
+type Member = { member: string; param: string; kind: MemberKind; dflt: number | boolean; optional?: true };
+/**
+ * Parameters kept as instance initial values; `dflt` is the type's declared initial value.
+ * An `optional` parameter left out of a block is left out of its instance, and an instance
+ * without it gives a block without it (SPAN_MAP's raw span, which then comes from the analog
+ * input it reads); its declared initial value, a 16-bit unsigned word's range, only stands
+ * in where the function block is used on its own.
+ */
 const MEMBERS: Partial<Record<BlockType, Member[]>> = {
   TON: [{ member: 'PT', param: 'PT', kind: 'time', dflt: 0 }],
   TOF: [{ member: 'PT', param: 'PT', kind: 'time', dflt: 0 }],
@@ -103,9 +112,9 @@ const MEMBERS: Partial<Record<BlockType, Member[]>> = {
   CTU: [{ member: 'PV', param: 'PV', kind: 'int', dflt: 0 }],
   CTD: [{ member: 'PV', param: 'PV', kind: 'int', dflt: 0 }],
   CTUD: [{ member: 'PV', param: 'PV', kind: 'int', dflt: 0 }],
-  SCALE: [
-    { member: 'IN_MIN', param: 'inMin', kind: 'real', dflt: 0 },
-    { member: 'IN_MAX', param: 'inMax', kind: 'real', dflt: 27648 },
+  SPAN_MAP: [
+    { member: 'IN_MIN', param: 'inMin', kind: 'real', dflt: 0, optional: true },
+    { member: 'IN_MAX', param: 'inMax', kind: 'real', dflt: 65535, optional: true },
     { member: 'OUT_MIN', param: 'outMin', kind: 'real', dflt: 0 },
     { member: 'OUT_MAX', param: 'outMax', kind: 'real', dflt: 100 },
     { member: 'CLAMP', param: 'clamp', kind: 'bool', dflt: false },
@@ -212,7 +221,8 @@ function standardFb(typeName: string): Codec {
       const name = ctx.nameOf(b);
       const members = presetMembers(b.type);
       const params = b.params as Record<string, unknown>;
-      const initial = members.length > 0 ? { members: Object.fromEntries(members.map((m) => [m.member, formatMember(m.kind, params[m.param])])) } : undefined;
+      const given = members.filter((m) => !(m.optional && params[m.param] === undefined));
+      const initial = given.length > 0 ? { members: Object.fromEntries(given.map((m) => [m.member, formatMember(m.kind, params[m.param])])) } : undefined;
       ctx.declare(initial ? { name, type: typeName, derived: true, initial } : { name, type: typeName, derived: true });
       const el = fbdBlock(ctx, b, typeName, spec.inputs.map((p) => pin(p.name)), spec.outputs.map((p) => p.name), name);
       return {
@@ -238,6 +248,7 @@ function standardFb(typeName: string): Codec {
         const byUpper = new Map(Object.entries(given).map(([k, v]) => [k.toUpperCase(), v]));
         for (const m of members) {
           const text = byUpper.get(m.member);
+          if (text === undefined && m.optional) continue;
           const value = text === undefined ? m.dflt : parseMember(m.kind, text);
           if (value === undefined) {
             ctx.report([...ctx.pathOfVariable(instance), 'initialValue', m.member], 'invalid_value', `${m.member} := ${text} is not a ${m.kind === 'time' ? 'TIME' : m.kind === 'bool' ? 'BOOL' : 'number'} literal`);
@@ -249,6 +260,16 @@ function standardFb(typeName: string): Codec {
       const k = (p: string) => pinKey(main.localId, p);
       return decoded(params, spec.inputs.map((p) => [k(p.name), p.name]), spec.outputs.map((p) => [k(p.name), p.name]));
     },
+  };
+}
+
+/** SPAN_MAP as CW_SPAN_MAP, reading files that still call it by its former name as well. */
+function spanFb(): Codec {
+  const current = standardFb(SPAN_FB);
+  const legacy = standardFb(LEGACY_SPAN_FB);
+  return {
+    ...current,
+    decode: (main, parts, ctx, type) => (main.kind === 'block' && main.typeName.toUpperCase() === LEGACY_SPAN_FB ? legacy : current).decode(main, parts, ctx, type),
   };
 }
 
@@ -455,7 +476,7 @@ const CODECS: Record<BlockType, Codec> = {
   RESET_COIL: coil,
   ...(Object.fromEntries(STANDARD_FUNCTIONS.map((t) => [t, standardFunction(t)])) as Record<(typeof STANDARD_FUNCTIONS)[number], Codec>),
   ...(Object.fromEntries(STANDARD_FBS.map((t) => [t, standardFb(t)])) as Record<(typeof STANDARD_FBS)[number], Codec>),
-  SCALE: standardFb(SCALE_FB),
+  SPAN_MAP: spanFb(),
   WORD_IN: wordIn,
   WORD_OUT: wordOut,
   CONST: constant(false),
@@ -471,7 +492,7 @@ export function codecFor(type: BlockType): Codec {
 
 /** Whether the exporter must name a block (an FB instance or a previous-scan variable). */
 export function needsName(type: BlockType): boolean {
-  return (STANDARD_FBS as readonly string[]).includes(type) || type === 'SCALE' || type === 'PREV_BOOL' || type === 'PREV_NUM';
+  return (STANDARD_FBS as readonly string[]).includes(type) || type === 'SPAN_MAP' || type === 'PREV_BOOL' || type === 'PREV_NUM';
 }
 
 /**
@@ -483,7 +504,7 @@ export function inferBlockType(el: FbdElement): BlockType | undefined {
   if (el.kind === 'block') {
     const name = el.typeName.toUpperCase();
     if ((STANDARD_FBS as readonly string[]).includes(name) || (STANDARD_FUNCTIONS as readonly string[]).includes(name)) return name as BlockType;
-    return name === SCALE_FB ? 'SCALE' : undefined;
+    return name === SPAN_FB || name === LEGACY_SPAN_FB ? 'SPAN_MAP' : undefined;
   }
   // By its form only: an address out of range still reads as one, and the sheet validator
   // then says what is wrong with it.

@@ -32,7 +32,7 @@ export function plainDecimal(x: number): string {
   return `${sign}0.${'0'.repeat(-exp - 1)}${digits}`;
 }
 
-/** A finite number as an IEC literal: integers plain (`27648`, `-5`), others as reals (`2.5`, `1.0E-7`). */
+/** A finite number as an IEC literal: integers plain (`4095`, `-5`), others as reals (`2.5`, `1.0E-7`). */
 export function iecNumber(x: number): string {
   if (Number.isInteger(x) && !Object.is(x, -0) && Math.abs(x) < 1e21) return String(x);
   return iecReal(x);
@@ -136,7 +136,7 @@ const RESERVED = new Set(
     'REPLACE RESOURCE RETAIN RETURN RIGHT ROL ROR RS S1 SEL SHL SHR SIN SINGLE SINT SQRT SR STEP STRING STRUCT SUB SUPER TAN ' +
     'TASK THEN THIS TIME TIME_OF_DAY TO TOD TOF TON TP TRANSITION TRUE TRUNC TYPE UDINT UINT ULINT UNTIL USING USINT VAR ' +
     'VAR_ACCESS VAR_CONFIG VAR_EXTERNAL VAR_GLOBAL VAR_IN_OUT VAR_INPUT VAR_OUTPUT VAR_TEMP WCHAR WHILE WITH WORD WSTRING XOR ' +
-    'T D TIME_TO_LREAL LREAL_TO_TIME CW_SCALE CW_TO_BYTE CW_TO_WORD CW_TO_DWORD'
+    'T D TIME_TO_LREAL LREAL_TO_TIME CW_SPAN_MAP CW_SCALE CW_TO_BYTE CW_TO_WORD CW_TO_DWORD'
   )
     .split(' ')
     .map((w) => w.toUpperCase()),

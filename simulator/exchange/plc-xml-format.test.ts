@@ -116,12 +116,12 @@ describe('IEC 61131-10 document structure (from memory)', () => {
     expect(at(data, 'cw:block', '@_type')).toBe('R_TRIG');
   });
 
-  it('declares the Cellwright blocks it calls (CW_SCALE, CW_TO_DWORD) with Structured Text bodies', () => {
-    const scale = exportOf(sheetForType('SCALE', true)).doc;
+  it('declares the Cellwright blocks it calls (CW_SPAN_MAP, CW_TO_DWORD) with Structured Text bodies', () => {
+    const scale = exportOf(sheetForType('SPAN_MAP', true)).doc;
     const word = exportOf(sheetForType('WORD_OUT', true)).doc;
     const pous = (doc: Node) => (at(doc, 'project', 'types', 'pous', 'pou') as unknown as Node[]).map((p) => [p['@_name'], p['@_pouType']]);
-    // The test sheets' numeric outputs drive WORD_OUTs on %QW…, hence CW_TO_WORD beside CW_SCALE.
-    expect(pous(scale)).toEqual([['CellLogic', 'program'], ['CW_SCALE', 'functionBlock'], ['CW_TO_WORD', 'function']]);
+    // The test sheets' numeric outputs drive WORD_OUTs on %QW…, hence CW_TO_WORD beside CW_SPAN_MAP.
+    expect(pous(scale)).toEqual([['CellLogic', 'program'], ['CW_SPAN_MAP', 'functionBlock'], ['CW_TO_WORD', 'function']]);
     // SAMPLE_PARAMS writes WORD_OUT to %QD8 (a double word), so CW_TO_DWORD.
     // WORD_OUT has no outputs, so its sheet has no word sinks of its own.
     expect(pous(word)).toEqual([['CellLogic', 'program'], ['CW_TO_DWORD', 'function']]);

@@ -83,3 +83,31 @@ describe('round trip of random sheets', () => {
     expect(r.ok ? [] : r.errors.map((e) => [e.code, e.path.join('.')])).toEqual([['negative_time', 'blocks.0.params.PT']]);
   });
 });
+
+describe('SPAN_MAP with its raw span left to the analog input', () => {
+  const sheet: LogicSheetInput = {
+    scanPeriodMs: 10,
+    blocks: [
+      { id: 'raw', type: 'WORD_IN', params: { address: '%IW4', signed: false }, position: { x: 0, y: 0 } },
+      { id: 'level', type: 'SPAN_MAP', params: { outMin: 0, outMax: 100, clamp: true }, position: { x: 200, y: 0 } },
+    ],
+    connections: [{ id: 'w', from: { block: 'raw', port: 'OUT' }, to: { block: 'level', port: 'IN' } }],
+  };
+
+  it('round-trips without inventing IN_MIN / IN_MAX', () => {
+    const { expected, xml, back } = roundTrip(sheet);
+    expect(xml).not.toContain('member="IN_MAX"');
+    expect(xml).not.toContain('member="IN_MIN"');
+    expect(back.ok ? back.value : back.errors).toEqual(expected);
+    if (back.ok) expect(back.value.blocks[1].params).toEqual({ outMin: 0, outMax: 100, clamp: true });
+  });
+
+  it('a file that still names the block CW_SCALE imports as SPAN_MAP', () => {
+    const explicit = { ...sheet, blocks: [sheet.blocks[0], { ...sheet.blocks[1], params: { inMin: 0, inMax: 4095, outMin: 0, outMax: 100, clamp: false } }] } as LogicSheetInput;
+    const xml = sheetToPlcXml(explicit);
+    if (!xml.ok) throw new Error(JSON.stringify(xml.errors));
+    const old = xml.value.replaceAll('CW_SPAN_MAP', 'CW_SCALE').replaceAll('type="SPAN_MAP"', 'type="SCALE"');
+    const back = plcXmlToSheet(old);
+    expect(back.ok ? back.value.blocks[1] : back.errors).toMatchObject({ type: 'SPAN_MAP', params: { inMin: 0, inMax: 4095 } });
+  });
+});

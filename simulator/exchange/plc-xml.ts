@@ -197,7 +197,9 @@ export function plcXmlToSheet(xml: string, options: PlcXmlImportOptions = {}): R
   const owned = new Set<string>();
   for (const el of owners) {
     const meta = el.meta?.kind === 'block' ? el.meta : undefined;
-    const type: BlockType | undefined = meta ? (isBlockType(meta.type) ? meta.type : undefined) : inferBlockType(el);
+    // Our own older exports name SPAN_MAP by its former name.
+    const metaType = meta?.type === 'SCALE' ? 'SPAN_MAP' : meta?.type;
+    const type: BlockType | undefined = meta ? (metaType !== undefined && isBlockType(metaType) ? metaType : undefined) : inferBlockType(el);
     if (!type) {
       failed.add(el.localId);
       const what = meta ? `block type "${meta.type}"` : el.kind === 'block' ? `block type "${el.typeName}"` : `${el.kind} "${el.expression}"`;

@@ -135,7 +135,7 @@ describe('Structured Text export', () => {
       scanPeriodMs: 20,
       blocks: [
         blk('raw', 'WORD_IN', { address: '%IW4' }),
-        blk('level', 'SCALE', { inMin: 4, inMax: 20, outMin: 0, outMax: 100 }),
+        blk('level', 'SPAN_MAP', { inMin: 4, inMax: 20, outMin: 0, outMax: 100 }),
         blk('p1', 'PREV_BOOL', { initial: true }),
         blk('p2', 'PREV_BOOL'),
         blk('alarm', 'NO_CONTACT', { address: '%IX0.5' }),
@@ -146,8 +146,8 @@ describe('Structured Text export', () => {
       connections: [w('r', 'raw', 'OUT', 'level', 'IN'), w('x', 'p2', 'Q', 'p1', 'IN'), w('y', 'p1', 'Q', 'p2', 'IN'), w('z', 'alarm', 'Q', 'latch', 'IN'), w('n', 'TON', 'Q', 'a.b', 'IN')],
     };
     const text = st(sheet);
-    // (x - inMin) * (outMax - outMin) / (inMax - inMin), the engine's SCALE, with the spans worked out.
-    expect(text).toContain('level := (UINT_TO_LREAL(raw) - 4.0) * 100.0 / 16.0; (* SCALE 4.0..20.0 -> 0.0..100.0 *)\n');
+    // (x - inMin) * (outMax - outMin) / (inMax - inMin), the engine's SPAN_MAP, with the spans worked out.
+    expect(text).toContain('level := (UINT_TO_LREAL(raw) - 4.0) * 100.0 / 16.0; (* SPAN_MAP 4.0..20.0 -> 0.0..100.0 *)\n');
     expect(text).toContain('raw := WORD_TO_UINT(IW4);\n');
     expect(text).toContain('IF IX0_5 THEN MX1_0 := TRUE; END_IF; (* latch; set coil *)\n');
     // Two previous-scan blocks feeding each other: both new values are taken before either is stored.

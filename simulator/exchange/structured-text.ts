@@ -10,7 +10,7 @@
  * changes during a scan); a contact on %Q or %M gets its own variable, because a coil later
  * in the scan may change the bit it read.
  *
- * Blocks without a standard counterpart become expressions with a comment: SCALE as its
+ * Blocks without a standard counterpart become expressions with a comment: SPAN_MAP as its
  * formula, WORD_OUT as LINT_TO_WORD(LREAL_TO_LINT(…)), SET_COIL / RESET_COIL as IF … THEN,
  * PREV_BOOL / PREV_NUM as a variable assigned at the end of the scan.
  *
@@ -213,8 +213,10 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
       case 'LIMIT':
         say(`${name} := LIMIT(MN := ${real(i, 'MN')}, IN := ${real(i, 'IN')}, MX := ${real(i, 'MX')});`);
         break;
-      case 'SCALE': {
-        const { inMin, inMax, outMin, outMax, clamp } = b.params;
+      case 'SPAN_MAP': {
+        const { outMin, outMax, clamp } = b.params;
+        // The raw span as the engine runs it (the block's own, or that of the word it reads).
+        const { inMin, inMax } = a.spans[i] as { inMin: number; inMax: number };
         // The engine's formula, term by term, with zero terms left out (they change nothing).
         const x = operand(real(i, 'IN'));
         const shifted = inMin === 0 ? x : `(${x} - ${operand(iecReal(inMin))})`;
@@ -222,7 +224,7 @@ export function sheetToStructuredText(sheet: LogicSheetInput, options: Structure
         const y = outMin === 0 ? scaled : `${iecReal(outMin)} + ${scaled}`;
         const lo = iecReal(Math.min(outMin, outMax));
         const hi = iecReal(Math.max(outMin, outMax));
-        say(clamp ? `${name} := LIMIT(MN := ${lo}, IN := ${y}, MX := ${hi});` : `${name} := ${y};`, `SCALE ${iecReal(inMin)}..${iecReal(inMax)} -> ${iecReal(outMin)}..${iecReal(outMax)}${clamp ? ', clamped' : ''}`);
+        say(clamp ? `${name} := LIMIT(MN := ${lo}, IN := ${y}, MX := ${hi});` : `${name} := ${y};`, `SPAN_MAP ${iecReal(inMin)}..${iecReal(inMax)} -> ${iecReal(outMin)}..${iecReal(outMax)}${clamp ? ', clamped' : ''}`);
         break;
       }
       case 'WORD_IN': {

@@ -42,7 +42,7 @@ export const SAMPLE_PARAMS: Record<BlockType, Record<string, unknown>> = {
   MOVE: {},
   SEL: {},
   LIMIT: {},
-  SCALE: { inMin: 4, inMax: 20, outMin: -50, outMax: 150, clamp: true },
+  SPAN_MAP: { inMin: 4, inMax: 20, outMin: -50, outMax: 150, clamp: true },
   WORD_IN: { address: '%IB6', signed: true },
   WORD_OUT: { address: '%QD8' },
   CONST: { value: 2.5 },
@@ -95,7 +95,7 @@ export function createRng(seed: number): { int(n: number): number; pick<T>(xs: r
   return { int: (n) => Math.floor(next() * n), pick: (xs) => xs[Math.floor(next() * xs.length)], chance: (p) => next() < p };
 }
 
-const AWKWARD_IDS = ['TON', 'end_if', 'a.b', 'x:y', 'has-dash', '9lives', 'A', 'a', 'IX0_0', 'CW_SCALE', 'WORD_TO_INT', 'T', '__x__', 'CellLogic'];
+const AWKWARD_IDS = ['TON', 'end_if', 'a.b', 'x:y', 'has-dash', '9lives', 'A', 'a', 'IX0_0', 'CW_SPAN_MAP', 'WORD_TO_INT', 'T', '__x__', 'CellLogic'];
 const AWKWARD_LABELS = [undefined, 'Plain label', 'tab\there', 'line\nbreak', '<&"\'>', 'ctrl\u0001char', 'emoji 😀', 'lone \ud800 surrogate', '(* not a comment *)', '  spaced  '];
 const POSITIONS = [0, -0, -12.5, 1e-7, 1e21, 123.456, 640];
 
@@ -125,8 +125,8 @@ function randomParams(type: BlockType, r: ReturnType<typeof createRng>): Record<
     case 'CTD':
     case 'CTUD':
       return { PV: r.pick([-3, 0, 2, 32767]) };
-    case 'SCALE':
-      return { inMin: r.pick([0, 4, -1.25]), inMax: r.pick([20, 27648]), outMin: r.pick([0, -50]), outMax: r.pick([100, 1e-7]), clamp: r.chance(0.5) };
+    case 'SPAN_MAP':
+      return { inMin: r.pick([0, 4, -1.25]), inMax: r.pick([20, 4095, 65535]), outMin: r.pick([0, -50]), outMax: r.pick([100, 1e-7]), clamp: r.chance(0.5) };
     case 'WORD_IN':
       return { address: word(['I', 'Q', 'M'], 8), signed: r.chance(0.5) };
     case 'WORD_OUT':
@@ -165,11 +165,11 @@ export function randomSheet(seed: number): LogicSheetInput {
   const connections: ConnectionInput[] = [];
   blocks.forEach((b, i) => {
     const prev = b.type === 'PREV_BOOL' || b.type === 'PREV_NUM';
-    for (const p of blockPorts(b.type, b.params as Record<string, unknown>).inputs) {
+    for (const p of blockPorts(b.type as BlockType, b.params as Record<string, unknown>).inputs) {
       if (!r.chance(0.7)) continue;
       const sources = blocks.flatMap((s, j) =>
         (j < i || prev || ((s.type === 'PREV_BOOL' || s.type === 'PREV_NUM') && j !== i)) && j !== i
-          ? blockPorts(s.type, s.params as Record<string, unknown>).outputs.filter((o) => compatible(o.type, p.type)).map((o) => ({ block: s.id, port: o.name }))
+          ? blockPorts(s.type as BlockType, s.params as Record<string, unknown>).outputs.filter((o) => compatible(o.type, p.type)).map((o) => ({ block: s.id, port: o.name }))
           : [],
       );
       if (sources.length === 0) continue;

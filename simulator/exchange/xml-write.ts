@@ -8,7 +8,7 @@
  * `addData/data[@name = CELLWRIGHT_NS]`, which the format reserves for tool-specific data.
  */
 import { create } from 'xmlbuilder2';
-import { formatMember, presetMembers, SCALE_FB, WORD_OUT_FUNCTIONS } from './block-codecs';
+import { formatMember, presetMembers, SPAN_FB, WORD_OUT_FUNCTIONS } from './block-codecs';
 import { CELLWRIGHT_FORMAT_VERSION, CELLWRIGHT_NS, IEC_61131_10_NS, type ElementMeta, type FbdElement, type FbdInput, type FbdProgram, type InterfaceVariable, type WireMeta } from './fbd-model';
 import { isAttributeSafe, plainDecimal } from './iec-text';
 
@@ -112,20 +112,20 @@ function stBody(pou: XMLBuilder, text: string): void {
   pou.ele('body').ele('ST').ele(XHTML_NS, 'xhtml:p').txt(text);
 }
 
-/** Declares CW_SCALE: Cellwright's SCALE block as a function block, with the engine's formula. */
-function writeScaleFb(pous: XMLBuilder): void {
-  const pou = pous.ele('pou', { name: SCALE_FB, pouType: 'functionBlock' });
+/** Declares CW_SPAN_MAP: Cellwright's SPAN_MAP block as a function block, with the engine's formula. */
+function writeSpanFb(pous: XMLBuilder): void {
+  const pou = pous.ele('pou', { name: SPAN_FB, pouType: 'functionBlock' });
   const iface = pou.ele('interface');
   const inputs = iface.ele('inputVars');
   writeVariable(inputs, { name: 'IN', type: 'LREAL', derived: false });
-  for (const m of presetMembers('SCALE')) {
+  for (const m of presetMembers('SPAN_MAP')) {
     writeVariable(inputs, { name: m.member, type: m.kind === 'bool' ? 'BOOL' : 'LREAL', derived: false, initial: { simple: formatMember(m.kind, m.dflt) } });
   }
   writeVariable(iface.ele('outputVars'), { name: 'OUT', type: 'LREAL', derived: false });
   stBody(
     pou,
     [
-      '(* Cellwright SCALE: maps IN_MIN..IN_MAX linearly onto OUT_MIN..OUT_MAX; CLAMP keeps OUT inside that range. *)',
+      '(* Cellwright SPAN_MAP: maps the raw span IN_MIN..IN_MAX linearly onto OUT_MIN..OUT_MAX; CLAMP keeps OUT inside that range. *)',
       'OUT := OUT_MIN + (IN - IN_MIN) * (OUT_MAX - OUT_MIN) / (IN_MAX - IN_MIN);',
       'IF CLAMP THEN',
       '    OUT := LIMIT(MN := MIN(OUT_MIN, OUT_MAX), IN := OUT, MX := MAX(OUT_MIN, OUT_MAX));',
@@ -171,7 +171,7 @@ export function writePlcXml(program: FbdProgram, options: WriteOptions): string 
 
   // Declare the Cellwright blocks the program calls, so the document stands on its own.
   const used = new Set(program.elements.flatMap((el) => (el.kind === 'block' ? [el.typeName] : [])));
-  if (used.has(SCALE_FB)) writeScaleFb(pous);
+  if (used.has(SPAN_FB)) writeSpanFb(pous);
   for (const name of Object.values(WORD_OUT_FUNCTIONS)) if (used.has(name)) writeWordOutFunction(pous, name);
 
   if (program.taskInterval !== undefined) {

@@ -66,6 +66,14 @@ export const faultCardSchema = z.discriminatedUnion('kind', [
   z.object({ ...common, kind: z.literal('analog-loss'), device: id }),
   /** A sensor replaced by one of the other output type (PNP ↔ NPN). */
   z.object({ ...common, kind: z.literal('sensor-type-mismatch'), device: id }),
+  /** The 24 V control supply sags to `volts` (an overloaded or failing power supply): every contact, sensor and output delivers that. */
+  z.object({ ...common, kind: z.literal('supply-sag'), volts: z.number().min(0).max(36) }),
+  /**
+   * A sensor that leaks `leakMa` through the input while it is off (a worn sensor, or a
+   * two-wire one where a three-wire one belongs): the input sees the leakage times its own
+   * resistance, which may land in its IEC 61131-2 transition band.
+   */
+  z.object({ ...common, kind: z.literal('sensor-leakage'), device: id, leakMa: z.number().min(0).max(10) }),
 ]);
 
 /** A fault card. */
@@ -88,6 +96,8 @@ export const FAULT_KINDS: readonly FaultKind[] = [
   'analog-drift',
   'analog-loss',
   'sensor-type-mismatch',
+  'supply-sag',
+  'sensor-leakage',
 ];
 
 /** What a technician would see for each fault kind, for drill briefs and the fault catalogue. */
@@ -105,6 +115,8 @@ export const FAULT_SYMPTOMS: Record<FaultKind, string> = {
   'analog-drift': 'the analog value creeps away from the dial setting',
   'analog-loss': 'the analog value drops to 0 V / 0 mA; a 4–20 mA loop reads as failed',
   'sensor-type-mismatch': 'the sensor LED lights but the input stays off',
+  'supply-sag': 'the supply measures low; type 1 inputs hold their last state or waver while type 2 and 3 inputs still read on down to 11 V',
+  'sensor-leakage': 'with the sensor off, a few volts stay on its input; a type 1 input holds its last state, type 2 and 3 inputs read off',
 };
 
 /** Whether a chatter fault holds its wire open at `timeMs`: stateless (window index → seeded hash), so replay-safe. */

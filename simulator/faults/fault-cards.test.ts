@@ -21,7 +21,7 @@ const demo = () => cellOf(pickAndPlaceCell);
 
 describe('fault cards produce the symptom a technician would see', () => {
   it('covers every fault kind in this file', () => {
-    expect(FAULT_KINDS).toHaveLength(13);
+    expect(FAULT_KINDS).toHaveLength(15);
   });
 
   it('stuck-on: a part sensor reads a part that is not there (LED lit, input on)', () => {
@@ -211,6 +211,30 @@ describe('fault cards produce the symptom a technician would see', () => {
     must(c.advance(20));
     expect(sig(c, 'dev.part.led')).toBe(1);
     expect(sig(c, 'plc.%IX0.5')).toBe(0);
+  });
+
+  it('supply sag: the supply measures 12 V and a type 1 input wavers in its transition band (IEC 61131-2, from memory: ON from 15 V)', () => {
+    const c = demo();
+    must(c.apply({ type: 'press', device: 'start' }));
+    must(c.advance(20));
+    must(c.apply({ type: 'inject-fault', fault: { id: 'f1', kind: 'supply-sag', volts: 12 } }));
+    must(c.advance(20));
+    const s = c.snapshot();
+    expect(s.supply.volts).toBe(12);
+    expect(s.wires.find((w) => w.id === 'w-start')).toMatchObject({ level: 12, reading: 'undefined' });
+    expect(sig(c, 'plc.%IX0.0')).toBe(1); // held in the band
+  });
+
+  it('sensor leakage: with the part gone a type 1 input keeps reading it (9 V in the transition band)', () => {
+    const c = demo();
+    must(c.apply({ type: 'inject-fault', fault: { id: 'f1', kind: 'sensor-leakage', device: 'part', leakMa: 1.5 } }));
+    must(c.apply({ type: 'set-field', device: 'part', active: true }));
+    must(c.advance(20));
+    must(c.apply({ type: 'set-field', device: 'part', active: false }));
+    must(c.advance(20));
+    expect(sig(c, 'dev.part.led')).toBe(0);
+    expect(c.snapshot().wires.find((w) => w.id === 'w-part')).toMatchObject({ level: 9, reading: 'undefined' });
+    expect(sig(c, 'plc.%IX0.5')).toBe(1);
   });
 
   it('timed and triggered cards wait for their moment', () => {

@@ -72,7 +72,7 @@ export const BLOCK_TYPES = [
   'MOVE',
   'SEL',
   'LIMIT',
-  'SCALE',
+  'SPAN_MAP',
   'WORD_IN',
   'WORD_OUT',
   'CONST',
@@ -97,6 +97,8 @@ export type BlockSpec = {
   variadic?: { param: 'inputs'; prefix: 'IN'; min: number; max: number };
   /** True when the block's output does not depend on its input in the same scan. */
   breaksLoops?: boolean;
+  /** Numeric parameters that may be left out, with what stands in for them (an editor offers them empty). */
+  optionalParams?: Readonly<Record<string, string>>;
 };
 
 /** Bounds of the variadic logic blocks' input count. */
@@ -287,12 +289,16 @@ const specs: BlockSpec[] = [
     defaultParams: {},
   },
   {
-    type: 'SCALE',
+    type: 'SPAN_MAP',
     group: 'numeric',
-    summary: 'Linear scaling: maps inMin..inMax onto outMin..outMax (optionally clamped)',
+    summary: 'Span map: maps the raw span inMin..inMax linearly onto outMin..outMax (optionally clamped); without inMin/inMax the raw span is that of the analog input IN reads',
     inputs: [n('IN', 'raw value')],
-    outputs: [n('OUT', 'scaled value')],
-    defaultParams: { inMin: 0, inMax: 27648, outMin: 0, outMax: 100, clamp: false },
+    outputs: [n('OUT', 'value in engineering units')],
+    defaultParams: { outMin: 0, outMax: 100, clamp: false },
+    optionalParams: {
+      inMin: 'the bottom of the raw span read by the WORD_IN feeding IN: 0',
+      inMax: "the top of that raw span: the count range of the analog module it reads (its declared format), or the word's own range",
+    },
   },
   {
     type: 'WORD_IN',

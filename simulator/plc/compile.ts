@@ -26,7 +26,7 @@ import type { Problem, Result } from '@/simulator/shared/result';
 import type { ProcessImage } from '@/simulator/address/process-image';
 import type { BlockOutputs, CompiledSheet, OutputSlot, PlcState, SerializedPlcState } from './api';
 import { emitBlock, emitEpilogue, type Chunk, type Layout } from './emit';
-import { analyseSheet, type AnalysedSheet } from './validate';
+import { analyseSheet, type AnalysedSheet, type AnalyseOptions } from './validate';
 import type { SheetBlock } from './sheet-schema';
 
 /** Blocks per generated function. */
@@ -140,15 +140,15 @@ export function compileSheet(input: unknown): Result<CompiledSheet, Problem> {
   return compileSheetWith(input, {});
 }
 
-/** Code-generation options, for tests and benchmarks; {@link compileSheet} uses the defaults. */
-export type CompileOptions = {
+/** Compile options: what the sheet alone cannot know, and code generation for tests and benchmarks. */
+export type CompileOptions = AnalyseOptions & {
   /** Blocks per generated function (default {@link BLOCKS_PER_CHUNK}); small values exercise chunk boundaries. */
   blocksPerChunk?: number;
 };
 
 /** {@link compileSheet} with explicit code-generation options. */
 export function compileSheetWith(input: unknown, options: CompileOptions): Result<CompiledSheet, Problem> {
-  const analysed = analyseSheet(input);
+  const analysed = analyseSheet(input, options);
   if (!analysed.ok) return analysed;
   const a = analysed.value;
   const L = layout(a);

@@ -257,8 +257,10 @@ export function emitBlock(a: AnalysedSheet, L: Layout, C: Chunk, i: number): str
       return put('OUT', `${inp('G')} ? ${inp('IN1')} : ${inp('IN0')}`);
     case 'LIMIT':
       return put('OUT', `Math.min(Math.max(${inp('IN')}, ${inp('MN')}), ${inp('MX')})`);
-    case 'SCALE': {
-      const { inMin, inMax, outMin, outMax, clamp } = b.params;
+    case 'SPAN_MAP': {
+      const { outMin, outMax, clamp } = b.params;
+      // The raw span as resolved by the analysis (its own parameters, or the analog input it reads).
+      const { inMin, inMax } = a.spans[i] as { inMin: number; inMax: number };
       const y = `${lit(outMin)} + (${inp('IN')} - ${lit(inMin)}) * (${lit(outMax)} - ${lit(outMin)}) / (${lit(inMax)} - ${lit(inMin)})`;
       if (!clamp) return put('OUT', y);
       return put('OUT', `Math.min(Math.max(${y}, ${lit(Math.min(outMin, outMax))}), ${lit(Math.max(outMin, outMax))})`);

@@ -8,15 +8,17 @@ import type { Problem, Result } from '@/simulator/shared/result';
 import type { BlockOutputs, InterpretedSheet } from './api';
 import { blockCatalogue, blockPorts } from './catalogue';
 import type { LogicSheet, SheetBlock } from './sheet-schema';
-import { validateSheet } from './validate';
+import { analyseSheet, type AnalyseOptions } from './validate';
 
 type Value = boolean | number;
 
 /** Builds a reference interpreter for a sheet (validated first; same problems as compileSheet). */
-export function interpretSheet(document: unknown): Result<InterpretedSheet, Problem> {
-  const v = validateSheet(document);
+export function interpretSheet(document: unknown, options: AnalyseOptions = {}): Result<InterpretedSheet, Problem> {
+  const v = analyseSheet(document, options);
   if (!v.ok) return v;
-  const sheet: LogicSheet = v.value;
+  const sheet: LogicSheet = v.value.sheet;
+  // Only the SPAN_MAP raw spans are taken from the analysis (where a span comes from is validation).
+  const spanOf = new Map(sheet.blocks.map((b, k) => [b, v.value.spans[k]]));
   const blocks = sheet.blocks;
 
   // The source of an input: search the connection list every time (slow on purpose).
@@ -235,8 +237,9 @@ export function interpretSheet(document: unknown): Result<InterpretedSheet, Prob
       case 'LIMIT':
         out.set('OUT', Math.min(Math.max(num(b, 'IN'), num(b, 'MN')), num(b, 'MX')));
         return;
-      case 'SCALE': {
-        const { inMin, inMax, outMin, outMax, clamp } = b.params;
+      case 'SPAN_MAP': {
+        const { outMin, outMax, clamp } = b.params;
+        const { inMin, inMax } = spanOf.get(b) as { inMin: number; inMax: number };
         const y = outMin + (num(b, 'IN') - inMin) * (outMax - outMin) / (inMax - inMin);
         out.set('OUT', clamp ? Math.min(Math.max(y, Math.min(outMin, outMax)), Math.max(outMin, outMax)) : y);
         return;

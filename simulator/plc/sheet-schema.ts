@@ -82,13 +82,24 @@ const logicParams = z.object({ inputs: z.number().int().min(MIN_LOGIC_INPUTS).ma
 const block = <T extends string, P extends z.ZodType>(type: T, params: P) =>
   z.object({ ...common, type: z.literal(type), params });
 
-const scaleParams = z
-  .object({ inMin: finite, inMax: finite, outMin: finite, outMax: finite, clamp: z.boolean().default(false) })
+/**
+ * SPAN_MAP parameters: the engineering span, optional clamping, and the raw span — given
+ * both ends, or neither (then it comes from the analog input the block reads, see
+ * ./validate.ts).
+ */
+const spanParams = z
+  .object({ inMin: finite.optional(), inMax: finite.optional(), outMin: finite, outMax: finite, clamp: z.boolean().default(false) })
   .superRefine((p, ctx) => {
-    if (p.inMin === p.inMax) {
+    if ((p.inMin === undefined) !== (p.inMax === undefined)) {
+      const missing = p.inMin === undefined ? 'inMin' : 'inMax';
+      ctx.addIssue({ code: 'custom', path: [missing], message: 'give both ends of the raw span (inMin and inMax), or neither', params: { code: 'invalid_span' } });
+    } else if (p.inMin !== undefined && p.inMin === p.inMax) {
       ctx.addIssue({ code: 'custom', path: ['inMax'], message: 'inMin and inMax must differ', params: { code: 'invalid_span' } });
     }
   });
+
+/** The scaling block's name before SPAN_MAP; sheets that still use it load as SPAN_MAP. */
+const LEGACY_SPAN_TYPE = 'SCALE';
 
 /** One block of the sheet, discriminated by `type`. */
 export const blockSchema = z.discriminatedUnion('type', [
@@ -120,7 +131,9 @@ export const blockSchema = z.discriminatedUnion('type', [
   block('MOVE', empty),
   block('SEL', empty),
   block('LIMIT', empty),
-  block('SCALE', scaleParams),
+  block('SPAN_MAP', spanParams),
+  // Old documents: the same block under its former name, read as SPAN_MAP (their raw span is explicit).
+  z.object({ ...common, type: z.literal(LEGACY_SPAN_TYPE), params: spanParams }).transform((b) => ({ ...b, type: 'SPAN_MAP' as const })),
   block('WORD_IN', z.object({ address: wordRead, signed: z.boolean().default(false) })),
   block('WORD_OUT', z.object({ address: wordWrite })),
   block('CONST', z.object({ value: finite })),

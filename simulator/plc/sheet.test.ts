@@ -109,12 +109,13 @@ describe('scan semantics', () => {
     expect(run(false, true)).toBe(0);
     expect(s.scans).toBe(5);
   });
-  it('numeric blocks: word in, scale, limit, compare, select, word out', () => {
+  it('numeric blocks: word in, span map, limit, compare, select, word out', () => {
     const sheet: LogicSheetInput = {
       scanPeriodMs: 10,
       blocks: [
         blk('raw', 'WORD_IN', { address: '%IW2' }),
-        blk('sc', 'SCALE', { inMin: 0, inMax: 27648, outMin: 0, outMax: 10 }),
+        // No raw span given: SPAN_MAP takes the span of the word it reads (%IW2 unsigned: 0..65535).
+        blk('sc', 'SPAN_MAP', { outMin: 0, outMax: 10 }),
         blk('lo', 'CONST', { value: 1 }),
         blk('hi', 'CONST', { value: 8 }),
         blk('lim', 'LIMIT'),
@@ -139,11 +140,11 @@ describe('scan semantics', () => {
     if (!c.ok) throw new Error(JSON.stringify(c.errors));
     const s = c.value.createState();
     const img = createProcessImage();
-    writeAddress(img, '%IW2', 13824); // half of 27648 (common-practice full scale) → 5.0
+    writeAddress(img, '%IW2', 26214); // 26214 / 65535 × 10 = 4.0 exactly
     c.value.scan(s, img);
-    expect(c.value.readOutput(s, 'sc', 'OUT')).toBe(5);
-    expect(readAddress(img, '%QW0')).toBe(5);
-    writeAddress(img, '%IW2', 27648); // 10.0 > 8 → SEL picks 8
+    expect(c.value.readOutput(s, 'sc', 'OUT')).toBe(4);
+    expect(readAddress(img, '%QW0')).toBe(4);
+    writeAddress(img, '%IW2', 65535); // 10.0 > 8 → SEL picks 8
     c.value.scan(s, img);
     expect(c.value.readOutput(s, 'gt', 'Q')).toBe(true);
     expect(readAddress(img, '%QW0')).toBe(8);
@@ -180,7 +181,7 @@ function paramsFor(type: BlockType): fc.Arbitrary<Record<string, unknown>> {
     case 'CTD':
     case 'CTUD':
       return fc.integer({ min: -2, max: 4 }).map((PV) => ({ PV }));
-    case 'SCALE':
+    case 'SPAN_MAP':
       return fc.record({ inMin: fc.integer({ min: -5, max: 5 }), inMax: fc.integer({ min: 6, max: 20 }), outMin: fc.integer({ min: -10, max: 10 }), outMax: fc.integer({ min: -10, max: 10 }), clamp: fc.boolean() });
     case 'WORD_IN':
       return fc.tuple(fc.constantFrom('I', 'Q', 'M'), fc.constantFrom('B', 'W', 'D'), fc.boolean()).map(([a, s, signed]) => ({ address: `%${a}${s}0`, signed }));
@@ -309,5 +310,49 @@ describe('property: malformed sheets are rejected with paths', () => {
       }),
       { numRuns: 200 },
     );
+  });
+});
+
+describe('SPAN_MAP: its raw span', () => {
+  const fed = (params: Record<string, unknown>, word = '%IW2', signed = false): LogicSheetInput => ({
+    scanPeriodMs: 10,
+    blocks: [blk('raw', 'WORD_IN', { address: word, signed }), blk('sp', 'SPAN_MAP', params)],
+    connections: [wire('a', 'raw', 'OUT', 'sp', 'IN')],
+  });
+  const out = (sheet: LogicSheetInput, raw: number, options = {}) => {
+    const c = compileSheetWith(sheet, options);
+    if (!c.ok) throw new Error(JSON.stringify(c.errors));
+    const s = c.value.createState();
+    const img = createProcessImage();
+    writeAddress(img, '%IW2', raw);
+    c.value.scan(s, img);
+    return c.value.readOutput(s, 'sp', 'OUT');
+  };
+
+  it('comes from the analog module IN reads when the cell knows it, else from the word as read', () => {
+    const sheet = fed({ outMin: 0, outMax: 100 });
+    // A 12-bit unsigned module: 0..4095 over the span.
+    expect(out(sheet, 4095, { analogSpan: () => ({ lo: 0, hi: 4095 }) })).toBe(100);
+    // No module known: the unsigned word's own range 0..65535, or 0..32767 read signed.
+    expect(out(sheet, 65535)).toBe(100);
+    expect(out(fed({ outMin: 0, outMax: 100 }, '%IW2', true), 32767)).toBe(100);
+    // Given explicitly, the parameters win.
+    expect(out(fed({ inMin: 0, inMax: 1000, outMin: 0, outMax: 100 }), 500, { analogSpan: () => ({ lo: 0, hi: 4095 }) })).toBe(50);
+  });
+
+  it('is a problem when neither given nor fed by a WORD_IN, or given by half', () => {
+    const alone = compileSheet({ scanPeriodMs: 10, blocks: [blk('sp', 'SPAN_MAP', { outMin: 0, outMax: 1 })], connections: [] });
+    expect(alone.ok ? [] : alone.errors.map((p) => [p.code, p.path.join('.')])).toEqual([['raw_span_unknown', 'blocks.0.params.inMin']]);
+    const half = compileSheet(fed({ inMin: 0, outMin: 0, outMax: 1 }));
+    expect(half.ok ? [] : half.errors.map((p) => p.code)).toEqual(['invalid_span']);
+  });
+
+  it('old documents load: a block of the former name SCALE reads as SPAN_MAP with its own span', () => {
+    const sheet = fed({ inMin: 0, inMax: 4000, outMin: 0, outMax: 100 });
+    (sheet.blocks[1] as { type: string }).type = 'SCALE';
+    const c = compileSheet(sheet);
+    if (!c.ok) throw new Error(JSON.stringify(c.errors));
+    expect(c.value.sheet.blocks[1].type).toBe('SPAN_MAP');
+    expect(out(sheet, 2000)).toBe(50);
   });
 });

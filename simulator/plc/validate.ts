@@ -8,6 +8,7 @@
  * broken by a PREV_BOOL or PREV_NUM block) — each loop is reported once, naming its blocks.
  */
 import type { z } from 'zod';
+import { parseAddressCached, SIZE_BITS, type Address } from '@/simulator/address/address';
 import type { Problem, Result } from '@/simulator/shared/result';
 import { issuesToProblems } from '@/simulator/shared/zod-problems';
 import { blockCatalogue, blockPorts, portTypesCompatible, type PortSpec } from './catalogue';
@@ -24,7 +25,39 @@ export type AnalysedSheet = {
   drivers: Map<string, Driver>[];
   /** Block indices in execution order. */
   order: number[];
+  /** Per block index: a SPAN_MAP's raw span as it runs (its own parameters, or resolved); null for other blocks. */
+  spans: ({ inMin: number; inMax: number } | null)[];
 };
+
+/**
+ * The raw span of the analog input behind an address (bottom and top of its nominal span in
+ * counts), or null when no analog module covers it. A cell passes its modules' count ranges.
+ */
+export type AnalogSpanOf = (address: Address) => { lo: number; hi: number } | null;
+
+/** What the sheet alone cannot know. */
+export type AnalyseOptions = { analogSpan?: AnalogSpanOf };
+
+/**
+ * A SPAN_MAP's raw span when its parameters leave it out: the span of the WORD_IN feeding IN
+ * — the analog module's count range when `analogSpan` knows the address, else the word's own
+ * range as it is read (unsigned 0..2^n − 1, signed 0..2^(n−1) − 1). Null when IN is not fed
+ * by a WORD_IN (nothing says what the raw span is).
+ */
+function resolvedSpan(sheet: LogicSheet, drivers: Map<string, Driver>[], i: number, options: AnalyseOptions): { inMin: number; inMax: number } | null {
+  const b = sheet.blocks[i];
+  if (b.type !== 'SPAN_MAP') return null;
+  if (b.params.inMin !== undefined && b.params.inMax !== undefined) return { inMin: b.params.inMin, inMax: b.params.inMax };
+  const d = drivers[i].get('IN');
+  const src = d ? sheet.blocks[d.block] : undefined;
+  if (!src || src.type !== 'WORD_IN') return null;
+  const address = parseAddressCached(src.params.address);
+  if (!address) return null;
+  const analog = options.analogSpan?.(address);
+  if (analog) return { inMin: analog.lo, inMax: analog.hi };
+  const bits = SIZE_BITS[address.size];
+  return { inMin: 0, inMax: src.params.signed ? 2 ** (bits - 1) - 1 : 2 ** bits - 1 };
+}
 
 /** Turns zod issues into Problems with stable codes (the sheet's names for unions and sizes). */
 export function zodIssuesToProblems(issues: readonly z.core.$ZodIssue[], prefix: (string | number)[] = []): Problem[] {
@@ -35,8 +68,8 @@ export function zodIssuesToProblems(issues: readonly z.core.$ZodIssue[], prefix:
   });
 }
 
-/** Validates and analyses a sheet: every problem, or the wiring and execution order. */
-export function analyseSheet(input: unknown): Result<AnalysedSheet, Problem> {
+/** Validates and analyses a sheet: every problem, or the wiring, execution order and resolved spans. */
+export function analyseSheet(input: unknown, options: AnalyseOptions = {}): Result<AnalysedSheet, Problem> {
   const parsed = logicSheetSchema.safeParse(input);
   if (!parsed.success) return { ok: false, errors: zodIssuesToProblems(parsed.error.issues) };
   const sheet = parsed.data;
@@ -132,8 +165,14 @@ export function analyseSheet(input: unknown): Result<AnalysedSheet, Problem> {
       });
     }
   }
+  const spans = blocks.map((_, i) => resolvedSpan(sheet, drivers, i, options));
+  blocks.forEach((b, i) => {
+    if (b.type === 'SPAN_MAP' && spans[i] === null) {
+      problems.push({ path: ['blocks', i, 'params', 'inMin'], code: 'raw_span_unknown', message: `SPAN_MAP "${b.id}" has no inMin/inMax and its IN is not fed by a WORD_IN: give the raw span, or wire IN from the WORD_IN of an analog input` });
+    }
+  });
   if (problems.length > 0) return { ok: false, errors: problems };
-  return { ok: true, value: { sheet, ports, drivers, order } };
+  return { ok: true, value: { sheet, ports, drivers, order, spans } };
 }
 
 /** Kahn's algorithm; among ready blocks the lowest sheet index goes first (a binary heap). */
@@ -234,7 +273,7 @@ function cycles(n: number, succ: number[][], placed: Uint8Array): number[][] {
 }
 
 /** Validates a sheet document; returns the sheet with defaults applied, or every problem. */
-export function validateSheet(input: unknown): Result<LogicSheet, Problem> {
-  const r = analyseSheet(input);
+export function validateSheet(input: unknown, options: AnalyseOptions = {}): Result<LogicSheet, Problem> {
+  const r = analyseSheet(input, options);
   return r.ok ? { ok: true, value: r.value.sheet } : r;
 }

@@ -238,7 +238,7 @@ export function encodeSheet(a: AnalysedSheet, options: EncodeOptions): EncodedSh
       // Numeric-only blocks: their values are not encoded (consumers that turn them into BOOLs are abstracted).
       case 'SEL':
       case 'LIMIT':
-      case 'SCALE':
+      case 'SPAN_MAP':
       case 'WORD_IN':
       case 'PREV_NUM':
         break;

@@ -38,6 +38,13 @@ const panelCommon = {
   position: plateSchema,
 };
 
+/**
+ * What an operator button does on the machine, so its colour can be checked against
+ * IEC 60204-1 §10.2 (see panel-colours.ts): start, stop, reset, an alternately acting
+ * start/stop, or something else (no colour rule).
+ */
+export const buttonFunctionSchema = z.enum(['start', 'stop', 'reset', 'start-stop', 'other']);
+
 const contactKind = z.enum(['NO', 'NC']);
 const buttonAction = z.enum(['momentary', 'maintained']);
 const analogSignal = z.enum(['0-10V', '4-20mA']);
@@ -46,19 +53,21 @@ const sensorOutput = z.enum(['PNP', 'NPN']);
 
 /** Operator panel devices. Terminal names per type are listed in `deviceTerminals` (terminals.ts). */
 export const panelDeviceSchema = z.discriminatedUnion('type', [
-  z.object({ ...panelCommon, type: z.literal('push-button'), contact: contactKind, action: buttonAction }),
+  z.object({ ...panelCommon, type: z.literal('push-button'), contact: contactKind, action: buttonAction, function: buttonFunctionSchema.optional() }),
   z.object({
     ...panelCommon,
     type: z.literal('illuminated-button'),
     contact: contactKind,
     action: buttonAction,
+    function: buttonFunctionSchema.optional(),
   }),
   z.object({
     ...panelCommon,
     type: z.literal('selector-switch'),
     positions: z.array(textSchema).min(2).max(4),
   }),
-  z.object({ ...panelCommon, type: z.literal('e-stop') }),
+  /** `colour` is the actuator's; `background` the plate behind it (yellow when omitted; IEC 60204-1 §10.7.3). */
+  z.object({ ...panelCommon, type: z.literal('e-stop'), background: deviceColourSchema.optional() }),
   z.object({ ...panelCommon, type: z.literal('pilot-light') }),
   z.object({ ...panelCommon, type: z.literal('stack-light'), tiers: z.array(deviceColourSchema).min(1).max(5) }),
   z.object({
@@ -142,6 +151,12 @@ export const plcModuleSchema = z.discriminatedUnion('kind', [
     channels: z.number().int().min(1).max(16),
     signal: analogSignal,
     resolutionBits: z.number().int().min(8).max(16),
+    /**
+     * How the module reports a reading in its word (electrical/analog.ts, `CountFormat`):
+     * `unsigned` 0..2^bits − 1 over the nominal span (the default), or `signed`
+     * 0..2^(bits−1) − 1 with negative counts below the span. Either saturates at its limits.
+     */
+    format: z.enum(['unsigned', 'signed']).optional(),
   }),
 ]);
 
@@ -319,6 +334,12 @@ export const cellDocumentSchema = z.object({
     sheet: logicSheetSchema,
   }),
   wiring: z.array(wiringRowSchema).max(L.wiringRows),
+  /**
+   * The 24 V DC control supply feeding the field devices and the I/O (24 V when omitted).
+   * IEC 61131-2's tolerance is 20.4–28.8 V; a setting outside it is allowed (the inputs then
+   * read it through their type's bands) and validation warns.
+   */
+  supply: z.object({ volts: z.number().min(0).max(36) }).optional(),
   controller: controllerSchema,
   initial: initialStateSchema,
 });

@@ -6,15 +6,19 @@
 import type { z } from 'zod';
 import type { Problem, Result } from '@/simulator/shared/result';
 import { issuesToProblems } from '@/simulator/shared/zod-problems';
-import { compileSheet, type CompiledSheet } from '@/simulator/plc';
+import type { CompiledSheet } from '@/simulator/plc';
+import { compileSheetWith } from '@/simulator/plc/compile';
+import type { AnalogSpanOf } from '@/simulator/plc/validate';
+import { countRange } from '@/simulator/electrical';
 import { cellDocumentSchema, type CellDocument, type ControllerConfig, type PointMapRow } from './cell-document';
 import { CELL_LIMITS } from './limits';
-import { plcModuleBytes } from './plc-io';
+import { plcModuleBytes, plcModuleFor } from './plc-io';
+import { documentWarnings } from './warnings';
 import { planRow, sinkKeys, wiringLookups, type RowPlan } from './wiring-plan';
 import { INPUT_FAMILIES, parsePointRef, validatePointMap, type PointUse } from '@/simulator/controller/point-map';
 
-/** A document that passed validation, with its compiled sheet and wiring plans. */
-export type ValidatedCell = { document: CellDocument; sheet: CompiledSheet; plans: RowPlan[] };
+/** A document that passed validation, with its compiled sheet, wiring plans and warnings (schema/warnings.ts). */
+export type ValidatedCell = { document: CellDocument; sheet: CompiledSheet; plans: RowPlan[]; warnings: Problem[] };
 
 /** Maps zod issues to problems with stable codes (the document's names for unions, sizes, negatives). */
 export function zodProblems(issues: readonly z.core.$ZodIssue[], prefix: (string | number)[] = []): Problem[] {
@@ -50,7 +54,7 @@ function validateInner(input: unknown): Result<ValidatedCell, Problem> {
   checkController(doc.controller, problems);
 
   // Logic sheet: the PLC layer reports unknown blocks, dangling connections and loops.
-  const compiled = compileSheet(doc.plc.sheet);
+  const compiled = compileSheetWith(doc.plc.sheet, { analogSpan: analogSpanOf(doc.plc.modules) });
   if (!compiled.ok) problems.push(...compiled.errors.map((p) => ({ ...p, path: ['plc', 'sheet', ...p.path] })));
   else if (!Number.isInteger(compiled.value.scanPeriodMs)) {
     problems.push({ path: ['plc', 'sheet', 'scanPeriodMs'], code: 'invalid_scan_period', message: 'the cell clock steps in whole milliseconds: the scan period must be an integer' });
@@ -80,7 +84,7 @@ function validateInner(input: unknown): Result<ValidatedCell, Problem> {
   }
 
   if (problems.length > 0 || !compiled.ok) return { ok: false, errors: problems };
-  return { ok: true, value: { document: doc, sheet: compiled.value, plans } };
+  return { ok: true, value: { document: doc, sheet: compiled.value, plans, warnings: documentWarnings(doc) } };
 }
 
 /**
@@ -102,7 +106,7 @@ function partialProblems(input: unknown, shape: Problem[]): Problem[] {
   const controller = shapeOf.controller.safeParse(raw.controller);
   if (controller.success) checkController(controller.data, problems);
   if (plc.sheet !== undefined && !shape.some((p) => p.path[0] === 'plc' && p.path[1] === 'sheet')) {
-    const compiled = compileSheet(plc.sheet);
+    const compiled = compileSheetWith(plc.sheet, { analogSpan: modules.success ? analogSpanOf(modules.data) : undefined });
     if (!compiled.ok) problems.push(...compiled.errors.map((p) => ({ ...p, path: ['plc', 'sheet', ...p.path] })));
   }
   const seen = new Set<string>();
@@ -112,6 +116,19 @@ function partialProblems(input: unknown, shape: Problem[]): Problem[] {
     seen.add(key);
     return true;
   });
+}
+
+/**
+ * The raw span of the analog input module behind an address: 0 at the bottom of its nominal
+ * span, the top of its count range (its declared format) at the top. A SPAN_MAP reading it
+ * through a WORD_IN without a span of its own takes this one.
+ */
+function analogSpanOf(modules: CellDocument['plc']['modules']): AnalogSpanOf {
+  return (address) => {
+    const hit = plcModuleFor(modules, address);
+    if (!hit || hit.module.kind !== 'analog-in') return null;
+    return { lo: 0, hi: countRange({ bits: hit.module.resolutionBits, format: hit.module.format }).spanMax };
+  };
 }
 
 function checkDevices(panel: CellDocument['panel'], field: CellDocument['field'], problems: Problem[]): void {
