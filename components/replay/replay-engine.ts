@@ -5,7 +5,7 @@
  * from time 0 (a cell's clock only runs forward), which the deterministic engine makes exact.
  */
 import { applyLog, createCell, signalNamesOf, type Cell, type CellSnapshot, type FaultCard, type LoggedEvent, type Problem } from '@/simulator';
-import type { TraceChunk } from '@/components/workspace/engine-protocol';
+import { scopeName, scopeSignals, type TraceChunk } from '@/components/workspace/engine-protocol';
 
 export type ReplaySource = {
   document: unknown;
@@ -27,11 +27,6 @@ export type Replay = {
   previousEventBefore(t: number): number | null;
   dispose(): void;
 };
-
-/** The scope's signals of a cell, as the worker names them (PLC addresses and controller points). */
-function scopeSignals(names: readonly string[]): string[] {
-  return names.filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
-}
 
 /**
  * Creates a replay of a run. Returns the problems when the run's cell does not build (a cell
@@ -94,7 +89,7 @@ export function createReplay(src: ReplaySource): { ok: true; value: Replay } | {
       const tr = cell.traceSince(traceSent);
       const fresh = tr.samples.map(([s, i, v]) => [s, i, typeof v === 'number' ? v : Number(v) || 0] as [number, number, number]);
       traceSent = tr.next;
-      const chunk: TraceChunk = { reset, signals: reset ? signals.map((n) => n.replace(/^(plc|ctl)\./, '')) : [], samples: fresh };
+      const chunk: TraceChunk = { reset, signals: reset ? signals.map(scopeName) : [], samples: fresh };
       reset = false;
       return { snapshot: cell.snapshot(), trace: chunk };
     },

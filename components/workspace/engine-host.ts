@@ -5,7 +5,7 @@
  */
 import { createCell, nextScanMs, signalNamesOf, type Cell, type CellDocument } from '@/simulator';
 import type { RunSpeed } from './contract';
-import { MAX_SNAPSHOTS_PER_SECOND, MAX_SPEED_CHUNK_MS, MAX_SPEED_SLICE_MS, type FromEngine, type ToEngine } from './engine-protocol';
+import { MAX_SNAPSHOTS_PER_SECOND, MAX_SPEED_CHUNK_MS, MAX_SPEED_SLICE_MS, scopeName, scopeSignals, type FromEngine, type ToEngine } from './engine-protocol';
 
 /** Time and timers the host uses; the worker passes the real ones, tests a fake. */
 export type HostClock = {
@@ -105,14 +105,14 @@ export function createEngineHost(post: (message: FromEngine) => void, clock: Hos
       return;
     }
     // The scope's signals (PLC addresses and controller points) are traced at every instant.
-    const names = all.value.filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
+    const names = scopeSignals(all.value);
     const r = createCell(document, { trace: names });
     if (!r.ok) {
       post({ type: 'loaded', ok: false, problems: r.errors });
       return;
     }
     cell = r.value;
-    traceSignals = names.map((n) => n.replace(/^(plc|ctl)\./, ''));
+    traceSignals = names.map(scopeName);
     traceSent = 0;
     traceReset = true;
     scanPeriodMs = cell.snapshot().plc.scanPeriodMs;

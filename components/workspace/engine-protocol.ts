@@ -40,3 +40,16 @@ export const MAX_SNAPSHOTS_PER_SECOND = 60;
 export const MAX_SPEED_SLICE_MS = 12;
 /** Cell time advanced per chunk at 'max' speed, checked against the slice budget between chunks. */
 export const MAX_SPEED_CHUNK_MS = 20;
+
+/**
+ * The scope's signals among a cell's signal names: PLC addresses and controller points, the
+ * ones traced at every instant for the scope (the worker and the replay both use these).
+ */
+export function scopeSignals(names: readonly string[]): string[] {
+  return names.filter((n) => n.startsWith('plc.%') || /^ctl\.[A-Z]{2}\d+$/.test(n));
+}
+
+/** A scope signal as the scope names it: `%IX0.0`, `DI3` (the engine's `plc.` / `ctl.` dropped). */
+export function scopeName(signal: string): string {
+  return signal.replace(/^(plc|ctl)\./, '');
+}

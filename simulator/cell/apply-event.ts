@@ -4,17 +4,13 @@
  */
 import { formatAddress, parseAddress, writeAddress } from '@/simulator/address';
 import { parsePointRef, resolvePointMap, restartPointMap, stagePointMap } from '@/simulator/controller/point-map';
-import type { Problem, Result } from '@/simulator/shared/result';
+import { rejected, type Problem, type Result } from '@/simulator/shared/result';
 import { validateStagedRows } from '@/simulator/schema/validate';
 import { deviceFor, operate } from './devices';
 import { download } from './download';
 import type { CellEvent } from './events';
 import type { CellParts } from './parts';
 import type { Signals } from './signals';
-
-function err(code: string, message: string, path: (string | number)[]): { ok: false; errors: Problem[] } {
-  return { ok: false, errors: [{ path, code, message }] };
-}
 
 /** A force target in canonical form: a PLC address as formatted, or a controller point. */
 function forceTarget(target: string): Result<string, Problem> {
@@ -23,7 +19,7 @@ function forceTarget(target: string): Result<string, Problem> {
     if (!a.ok) return { ok: false, errors: a.errors.map((p) => ({ ...p, path: ['target'] })) };
     return { ok: true, value: formatAddress(a.value) };
   }
-  if (!parsePointRef(target)) return err('unknown_target', `"${target}" is neither a PLC address nor a controller point`, ['target']);
+  if (!parsePointRef(target)) return rejected('unknown_target', `"${target}" is neither a PLC address nor a controller point`, ['target']);
   return { ok: true, value: target };
 }
 
@@ -45,11 +41,11 @@ export function applyParsed(parts: CellParts, signals: Signals, e: CellEvent): R
       const t = forceTarget(e.target);
       if (!t.ok) return t;
       if (e.type === 'force') {
-        if (!Number.isFinite(e.value)) return err('invalid_value', 'a forced value must be finite', ['value']);
+        if (!Number.isFinite(e.value)) return rejected('invalid_value', 'a forced value must be finite', ['value']);
         forces.set(t.value, e.value);
         if (t.value.startsWith('%')) writeAddress(plc.image, t.value, e.value);
       } else {
-        if (!forces.delete(t.value)) return err('not_forced', `${t.value} is not forced`, ['target']);
+        if (!forces.delete(t.value)) return rejected('not_forced', `${t.value} is not forced`, ['target']);
         // The address returns to 0 until the wiring (inputs) or the logic (outputs, memory) writes it again.
         if (t.value.startsWith('%')) writeAddress(plc.image, t.value, 0);
       }

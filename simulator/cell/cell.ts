@@ -16,7 +16,7 @@
  * replay gives the same trace.
  */
 import { NOMINAL_SUPPLY_V } from '@/simulator/electrical';
-import type { Problem, Result } from '@/simulator/shared/result';
+import { rejected, type Problem, type Result } from '@/simulator/shared/result';
 import type { CompiledSheet } from '@/simulator/plc';
 import type { CellDocument } from '@/simulator/schema/cell-document';
 import { validateCellDocument, zodProblems } from '@/simulator/schema/validate';
@@ -90,10 +90,6 @@ export type Cell = {
 
 const MAX_ADVANCE_MS = 30 * 86_400_000;
 
-function err(code: string, message: string, path: (string | number)[] = []): { ok: false; errors: Problem[] } {
-  return { ok: false, errors: [{ path, code, message }] };
-}
-
 /**
  * Creates a cell from a document of unknown shape. An invalid document, or invalid options,
  * yields every problem with its path and no cell.
@@ -103,7 +99,7 @@ export function createCell(document: unknown, options: CellOptions = {}): Result
   if (!v.ok) return v;
   const { document: doc, sheet, plans, warnings } = v.value;
   if (options.seed !== undefined && !(Number.isInteger(options.seed) && options.seed >= 0 && options.seed <= 0xffffffff)) {
-    return err('invalid_seed', 'the seed must be an integer 0..4294967295', ['options', 'seed']);
+    return rejected('invalid_seed', 'the seed must be an integer 0..4294967295', ['options', 'seed']);
   }
   const rt = new RunningCell(doc, sheet, plans, options.seed ?? doc.seed);
   const problems: Problem[] = [];
@@ -204,10 +200,10 @@ class RunningCell {
   }
 
   advance(ms: unknown): Result<{ timeMs: number }> {
-    if (this.disposed) return err('disposed', 'the cell has been disposed');
-    if (typeof ms !== 'number' || !Number.isInteger(ms)) return err('invalid_time', `advance takes whole milliseconds, not ${String(ms)}`);
-    if (ms < 0) return err('negative_time', `time cannot run backwards (${ms} ms)`);
-    if (ms > MAX_ADVANCE_MS) return err('time_range', `advance at most ${MAX_ADVANCE_MS} ms at once`);
+    if (this.disposed) return rejected('disposed', 'the cell has been disposed');
+    if (typeof ms !== 'number' || !Number.isInteger(ms)) return rejected('invalid_time', `advance takes whole milliseconds, not ${String(ms)}`);
+    if (ms < 0) return rejected('negative_time', `time cannot run backwards (${ms} ms)`);
+    if (ms > MAX_ADVANCE_MS) return rejected('time_range', `advance at most ${MAX_ADVANCE_MS} ms at once`);
     const clock = this.parts.clock;
     const end = clock.now + ms;
     // Only due instants run: where advance() stops is not an instant, so how a caller slices
@@ -225,7 +221,7 @@ class RunningCell {
   // ---------------------------------------------------------------- events
 
   apply(input: unknown): Result<{ timeMs: number }> {
-    if (this.disposed) return err('disposed', 'the cell has been disposed');
+    if (this.disposed) return rejected('disposed', 'the cell has been disposed');
     const parsed = cellEventSchema.safeParse(input);
     if (!parsed.success) return { ok: false, errors: downloadPathsIntoDocument(input, zodProblems(parsed.error.issues)) };
     const e = parsed.data;
@@ -288,9 +284,9 @@ class RunningCell {
         return () => this.listeners.delete(l);
       },
       readSignal: (n) => {
-        if (this.disposed) return err('disposed', 'the cell has been disposed');
+        if (this.disposed) return rejected('disposed', 'the cell has been disposed');
         const r = signals.reader(n);
-        return r ? { ok: true, value: r() } : err('unknown_signal', `no signal "${n}"`);
+        return r ? { ok: true, value: r() } : rejected('unknown_signal', `no signal "${n}"`);
       },
       signalNames: () => signalNamesFrom({ doc: parts.doc, plans: parts.wiring.plans, outputSlots: parts.plc.sheet.outputSlots, pointRefs: parts.controller.resolved.byRef.keys() }),
       eventLog: (from = 0) => log.slice(Math.max(0, Math.trunc(from) || 0)).map((l) => ({ t: l.t, event: l.event })),

@@ -7,7 +7,7 @@
  * from the same entry.
  */
 import { contactClosed, engineeringToSignal, SIGNAL_SPANS } from '@/simulator/electrical';
-import type { Problem, Result } from '@/simulator/shared/result';
+import { rejected, type Problem, type Result } from '@/simulator/shared/result';
 import type { CellDocument, FieldDevice, PanelDevice } from '@/simulator/schema/cell-document';
 import type { Clock } from './clock';
 import type { FaultKind } from '@/simulator/faults/fault-card';
@@ -330,15 +330,11 @@ export function deviceSignalProperties(dev: Device): string[] {
 
 // ---------------------------------------------------------------- operator events
 
-function err(code: string, message: string, path: (string | number)[]): { ok: false; errors: Problem[] } {
-  return { ok: false, errors: [{ path, code, message }] };
-}
-
 /** Finds a device an event may move, or the reason it may not. */
 export function deviceFor(devices: ReadonlyMap<string, DevState>, id: string, event: OperatorEvent['type']): Result<DevState, Problem> {
   const d = devices.get(id);
-  if (!d) return err('unknown_device', `no device "${id}"`, ['device']);
-  if (!DEVICE_CATALOGUE[d.dev.type].events.includes(event)) return err('wrong_device_type', `"${id}" is a ${d.dev.type}; this event needs a ${typesTaking({ event }).join(' or ')}`, ['device']);
+  if (!d) return rejected('unknown_device', `no device "${id}"`, ['device']);
+  if (!DEVICE_CATALOGUE[d.dev.type].events.includes(event)) return rejected('wrong_device_type', `"${id}" is a ${d.dev.type}; this event needs a ${typesTaking({ event }).join(' or ')}`, ['device']);
   return { ok: true, value: d };
 }
 
@@ -357,18 +353,18 @@ export function operate(d: DevState, e: OperatorEvent): Result<true, Problem> {
           d.pressed = e.type === 'press';
         } else d.pressed = e.type === 'toggle' ? !d.pressed : e.type === 'press';
       } else {
-        if (e.type !== 'toggle') return err('wrong_device_type', `"${dev.id}" is a ${dev.type}: use set-field or toggle`, ['type']);
+        if (e.type !== 'toggle') return rejected('wrong_device_type', `"${dev.id}" is a ${dev.type}: use set-field or toggle`, ['type']);
         d.active = !d.active;
       }
       return { ok: true, value: true };
     case 'set-selector':
       if (dev.type !== 'selector-switch') return { ok: true, value: true };
-      if (e.position >= dev.positions.length) return err('out_of_range', `"${dev.id}" has positions 0..${dev.positions.length - 1}`, ['position']);
+      if (e.position >= dev.positions.length) return rejected('out_of_range', `"${dev.id}" has positions 0..${dev.positions.length - 1}`, ['position']);
       d.position = e.position;
       return { ok: true, value: true };
     case 'set-analog':
       if (dev.type !== 'potentiometer') return { ok: true, value: true };
-      if (!(e.value >= dev.min && e.value <= dev.max)) return err('out_of_range', `"${dev.id}" ranges ${dev.min}..${dev.max} ${dev.unit}`, ['value']);
+      if (!(e.value >= dev.min && e.value <= dev.max)) return rejected('out_of_range', `"${dev.id}" ranges ${dev.min}..${dev.max} ${dev.unit}`, ['value']);
       d.value = e.value;
       return { ok: true, value: true };
     case 'set-field':

@@ -4,7 +4,7 @@
  * document is validated first; a rejected download changes nothing. docs/engine.md
  * ("Downloading edits") gives the full semantics.
  */
-import type { Problem, Result } from '@/simulator/shared/result';
+import { rejected, type Problem, type Result } from '@/simulator/shared/result';
 import type { CellDocument } from '@/simulator/schema/cell-document';
 import { validateCellDocument } from '@/simulator/schema/validate';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
@@ -29,7 +29,7 @@ function adoptPlan(parts: CellParts, p: RowPlan): RowPlan {
  */
 export function download(parts: CellParts, signals: Signals, e: DownloadEvent): Result<true, Problem> {
   if (e.logic === undefined && e.wiring === undefined && e.routine === undefined) {
-    return { ok: false, errors: [{ path: [], code: 'empty_download', message: 'a download carries a logic sheet, wiring rows or a routine' }] };
+    return rejected('empty_download', 'a download carries a logic sheet, wiring rows or a routine');
   }
   const doc = parts.doc;
   const merged: CellDocument = {

@@ -4,7 +4,7 @@
  * the cards (armed or active), fires them at their time or trigger, and rebuilds the
  * {@link FaultState} the layers read whenever a card fires, clears or loses its row.
  */
-import type { Problem, Result } from '@/simulator/shared/result';
+import { rejected, type Problem, type Result } from '@/simulator/shared/result';
 import { faultCardSchema, type FaultCard, type FaultKind } from '@/simulator/faults/fault-card';
 import type { CellDocument } from '@/simulator/schema/cell-document';
 import { zodProblems } from '@/simulator/schema/validate';
@@ -177,7 +177,7 @@ export class FaultBoard {
   /** Removes a card, active or armed. */
   clear(id: string): Result<true, Problem> {
     const i = this.cards.findIndex((c) => c.card.id === id);
-    if (i < 0) return { ok: false, errors: [{ path: ['id'], code: 'unknown_fault', message: `no fault card "${id}"` }] };
+    if (i < 0) return rejected('unknown_fault', `no fault card "${id}"`, ['id']);
     this.rebaseDevices();
     this.cards.splice(i, 1);
     this.rebuild();

@@ -18,3 +18,8 @@ export type Problem = {
 
 /** Success with a value, or failure with every problem found (never only the first). */
 export type Result<T, E = Problem> = { ok: true; value: T } | { ok: false; errors: E[] };
+
+/** A failed {@link Result} with one problem: what a rejected call of the engine returns. */
+export function rejected(code: string, message: string, path: (string | number)[] = []): { ok: false; errors: Problem[] } {
+  return { ok: false, errors: [{ path, code, message }] };
+}
