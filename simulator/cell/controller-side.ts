@@ -8,7 +8,7 @@
  * closed-form function of time.
  */
 import { createActor, type Actor } from 'xstate';
-import { decodeWord, encodeWord } from '@/simulator/electrical';
+import { applyInvert, decodeWord, encodeWord } from '@/simulator/electrical';
 import { controllerMachine, type ControllerStateName } from '@/simulator/controller/controller.machine';
 import { evaluateCondition, isAtPose, roleOn, samplePath, type ControllerContext } from '@/simulator/controller/routine';
 import { moveTime } from '@/simulator/controller/motion';
@@ -149,7 +149,7 @@ export class ControllerSide {
           this.wordValue[k] = v;
         }
       } else if (pt.family === 'AI') v = arr[pt.channel];
-      else v = (arr[pt.channel] !== 0) !== pt.invert ? 1 : 0;
+      else v = applyInvert(arr[pt.channel] !== 0, pt.invert) ? 1 : 0;
       if (this.forces.size > 0) {
         const f = this.forces.get(pt.ref);
         if (f !== undefined) v = f;
@@ -315,7 +315,7 @@ export class ControllerSide {
         const raw = enc.ok ? enc.value : 0;
         for (let b = 0; b < pt.bits; b++) arr[pt.channel + b] = (raw >> b) & 1;
       } else if (pt.family === 'AO') arr[pt.channel] = v;
-      else arr[pt.channel] = (v !== 0) !== pt.invert ? 1 : 0;
+      else arr[pt.channel] = applyInvert(v !== 0, pt.invert) ? 1 : 0;
     }
     wiring.updateLoads();
   }

@@ -3,7 +3,7 @@
  * output (PNP or NPN, switched or not), a driven output (a PLC or controller output), an
  * analog signal (V or mA) or a word. The wiring turns these into what the destination reads.
  */
-import { inputReading, type InputType } from '@/simulator/electrical';
+import { inputReading, sensorDrivesInput, type InputType } from '@/simulator/electrical';
 import type { RowSink } from '@/simulator/schema/wiring-plan';
 
 /** One source's signal on a row. */
@@ -35,12 +35,13 @@ export function contact(closed: boolean): Src {
 }
 
 /**
- * True when a digital input sees a source as ON at full supply: a closed contact always
- * (it carries the supply), a driven output into a sinking input, a sensor whose output stage
- * matches the input (PNP into sinking, NPN into sourcing; common practice, any PLC textbook).
+ * True when a source drives a digital input (puts the supply across it): a closed contact
+ * always (it carries the supply), a switched output into a sinking input (it sources +24 V,
+ * as a PNP stage does), a sensor whose output stage suits the input
+ * ({@link sensorDrivesInput}).
  */
 export function digitalOn(s: Src, sinking: boolean): boolean {
-  return s.k === 'contact' ? s.closed : s.k === 'drive' ? s.on && sinking : s.k === 'sensor' ? s.on && (s.out === 'PNP') === sinking : false;
+  return s.k === 'contact' ? s.closed : s.k === 'drive' ? s.on && sinking : s.k === 'sensor' ? s.on && sensorDrivesInput(s.out, sinking ? 'sinking' : 'sourcing') : false;
 }
 
 /**

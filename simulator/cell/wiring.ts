@@ -9,7 +9,7 @@
  * was in play are held until something invalidates them (see {@link Wiring.invalidate}).
  */
 import { readAddress, type ProcessImage } from '@/simulator/address';
-import { decodeWord, inputReading, ne43Status, SIGNAL_SPANS, type InputReading } from '@/simulator/electrical';
+import { decodeWord, inputReading, inputVolts, ne43Status, sensorDrivesInput, SIGNAL_SPANS, type InputReading } from '@/simulator/electrical';
 import { chatterOpen } from '@/simulator/faults/fault-card';
 import type { CellDocument } from '@/simulator/schema/cell-document';
 import type { RowPlan, RowSink, RowSource } from '@/simulator/schema/wiring-plan';
@@ -301,13 +301,11 @@ export class Wiring {
     }
     const sinking = sink.kind === 'plc-bit' ? sink.module.wiring === 'sinking' : true;
     const inputType = inputTypeOf(sink);
-    let drive: { volts: number } | { leakMa: number };
-    if (w.short24) drive = { volts: sinking ? supply : 0 };
-    else if (w.short0) drive = { volts: sinking ? 0 : supply };
-    else if (w.open) drive = { volts: 0 };
+    const kind = sinking ? 'sinking' : 'sourcing';
+    const wire = w.short24 ? 'short_to_24v' : w.short0 ? 'short_to_0v' : w.open ? 'open' : 'ok';
     // A switched-off sensor whose output stage suits the input leaks its current through it.
-    else if (src.k === 'sensor' && !src.on && src.leakMa && (src.out === 'PNP') === sinking) drive = { leakMa: src.leakMa };
-    else drive = { volts: digitalOn(src, sinking) ? supply : 0 };
+    const leaks = wire === 'ok' && src.k === 'sensor' && !src.on && src.leakMa && sensorDrivesInput(src.out, kind);
+    const drive = leaks ? { leakMa: src.leakMa as number } : { volts: inputVolts(digitalOn(src, sinking), wire, kind, supply) };
     const { volts, reading } = inputReading(inputType, drive);
     // In the transition band an input keeps its last state, as IEC 61131-2 leaves it (what a
     // real input most often does).

@@ -97,30 +97,28 @@ export function contactClosed(kind: ContactKind, actuated: boolean): boolean {
   return kind === 'NO' ? actuated : !actuated;
 }
 
-/** The state of the wire between a field contact and its input terminal. */
+/** The state of the wire between a source and its input terminal. */
 export type WireCondition = 'ok' | 'open' | 'short_to_24v' | 'short_to_0v';
 
 /**
- * Voltage at a PLC input fed from the supply through a field contact (sourcing wiring:
- * +24 V → contact → input). An open wire reads 0 V whatever the contact does, so an NO
- * circuit looks "not actuated" (a start button that cannot start) and an NC circuit looks
- * "actuated" (a stop or e-stop that reads as pressed) — why stop circuits are wired NC
- * (common practice; IEC 60204-1 relies on the same fail-to-stop behaviour).
+ * Voltage across a digital input: the supply while its source drives it and the wire is
+ * sound, 0 V through an open wire whatever the source does, and a short to a supply rail
+ * puts that rail on the input — across a sinking input only +24 V drives current, across a
+ * sourcing one only 0 V. So an open wire makes an NO circuit look "not actuated" (a start
+ * button that cannot start) and an NC circuit look "actuated" (a stop or e-stop that reads
+ * as pressed) — why stop circuits are wired NC (common practice; IEC 60204-1 relies on the
+ * same fail-to-stop behaviour).
  */
-export function contactInputVolts(
-  kind: ContactKind,
-  actuated: boolean,
-  wire: WireCondition = 'ok',
-  supplyV: number = NOMINAL_SUPPLY_V,
-): number {
+export function inputVolts(driven: boolean, wire: WireCondition, module: InputModuleKind, supplyV: number = NOMINAL_SUPPLY_V): number {
   switch (wire) {
-    case 'open':
-    case 'short_to_0v':
-      return 0;
     case 'short_to_24v':
-      return supplyV;
+      return module === 'sinking' ? supplyV : 0;
+    case 'short_to_0v':
+      return module === 'sinking' ? 0 : supplyV;
+    case 'open':
+      return 0;
     case 'ok':
-      return contactClosed(kind, actuated) ? supplyV : 0;
+      return driven ? supplyV : 0;
   }
 }
 
@@ -138,26 +136,12 @@ export type SensorOutput = 'PNP' | 'NPN';
  */
 export type InputModuleKind = 'sinking' | 'sourcing';
 
-/** What a three-wire sensor does to an input. */
-export type SensorReading = {
-  /** Voltage across the input circuit, as the module's input sees it. */
-  inputVolts: number;
-  /** The sensor's own indicator, which shows detection regardless of the wiring. */
-  sensorIndicator: boolean;
-};
-
 /**
- * Voltage a PNP or NPN sensor puts across a sinking or sourcing input. Matched pairs
- * (PNP → sinking, NPN → sourcing) give the supply voltage while detecting and 0 V
- * otherwise. A mismatch never drives current through the input: the sensor's indicator
- * lights on detection but the input stays off (common practice).
+ * Whether a three-wire sensor's output stage can drive an input: PNP (sourcing) into a
+ * sinking input, NPN (sinking) into a sourcing one. A mismatch never drives current through
+ * the input: the sensor's own indicator lights on detection but the input stays off
+ * (common practice, any PLC textbook).
  */
-export function sensorInputVoltage(
-  sensor: SensorOutput,
-  module: InputModuleKind,
-  detecting: boolean,
-  supplyV: number = NOMINAL_SUPPLY_V,
-): SensorReading {
-  const matched = (sensor === 'PNP' && module === 'sinking') || (sensor === 'NPN' && module === 'sourcing');
-  return { inputVolts: matched && detecting ? supplyV : 0, sensorIndicator: detecting };
+export function sensorDrivesInput(sensor: SensorOutput, module: InputModuleKind): boolean {
+  return (sensor === 'PNP') === (module === 'sinking');
 }

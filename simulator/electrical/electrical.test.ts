@@ -3,7 +3,7 @@ import {
   applyInvert,
   classifyDigitalInput,
   contactClosed,
-  contactInputVolts,
+  inputVolts,
   countsToSignal,
   currentToEngineering,
   decodeWord,
@@ -12,7 +12,7 @@ import {
   ne43Status,
   ne43Valid,
   scaleLinear,
-  sensorInputVoltage,
+  sensorDrivesInput,
   countRange,
   signalToCounts,
   supplyWithinTolerance,
@@ -60,12 +60,15 @@ describe('contacts and wiring (IEC 60947-5-1; NC stop circuits: common practice)
     expect(contactClosed('NC', true)).toBe(false);
   });
   it('an open wire reads 0 V: NO looks released, NC looks pressed (fail to stop)', () => {
-    expect(contactInputVolts('NO', true, 'ok')).toBe(24);
-    expect(contactInputVolts('NO', true, 'open')).toBe(0);
-    expect(contactInputVolts('NC', false, 'ok')).toBe(24);
-    expect(contactInputVolts('NC', false, 'open')).toBe(0);
-    expect(contactInputVolts('NC', true, 'short_to_24v')).toBe(24);
-    expect(contactInputVolts('NO', true, 'short_to_0v')).toBe(0);
+    expect(inputVolts(contactClosed('NO', true), 'ok', 'sinking')).toBe(24);
+    expect(inputVolts(contactClosed('NO', true), 'open', 'sinking')).toBe(0);
+    expect(inputVolts(contactClosed('NC', false), 'ok', 'sinking')).toBe(24);
+    expect(inputVolts(contactClosed('NC', false), 'open', 'sinking')).toBe(0);
+    expect(inputVolts(contactClosed('NC', true), 'short_to_24v', 'sinking')).toBe(24);
+    expect(inputVolts(contactClosed('NO', true), 'short_to_0v', 'sinking')).toBe(0);
+    // On a sourcing input the rails swap roles; a sagging supply delivers what it has.
+    expect(inputVolts(false, 'short_to_0v', 'sourcing')).toBe(24);
+    expect(inputVolts(true, 'ok', 'sinking', 12)).toBe(12);
   });
   it('invert flips the logical state', () => {
     expect(applyInvert(true, true)).toBe(false);
@@ -75,13 +78,12 @@ describe('contacts and wiring (IEC 60947-5-1; NC stop circuits: common practice)
 
 describe('PNP/NPN sensors on sinking/sourcing inputs (common practice, any PLC textbook)', () => {
   it('matched pairs pass the signal', () => {
-    expect(sensorInputVoltage('PNP', 'sinking', true)).toEqual({ inputVolts: 24, sensorIndicator: true });
-    expect(sensorInputVoltage('NPN', 'sourcing', true)).toEqual({ inputVolts: 24, sensorIndicator: true });
-    expect(sensorInputVoltage('PNP', 'sinking', false)).toEqual({ inputVolts: 0, sensorIndicator: false });
+    expect(sensorDrivesInput('PNP', 'sinking')).toBe(true);
+    expect(sensorDrivesInput('NPN', 'sourcing')).toBe(true);
   });
-  it('a mismatch lights the sensor indicator but the input stays off', () => {
-    expect(sensorInputVoltage('NPN', 'sinking', true)).toEqual({ inputVolts: 0, sensorIndicator: true });
-    expect(sensorInputVoltage('PNP', 'sourcing', true)).toEqual({ inputVolts: 0, sensorIndicator: true });
+  it('a mismatch never drives the input (the sensor indicator still lights: see the sensor-type-mismatch card of the cell)', () => {
+    expect(sensorDrivesInput('NPN', 'sinking')).toBe(false);
+    expect(sensorDrivesInput('PNP', 'sourcing')).toBe(false);
   });
 });
 

@@ -10,7 +10,6 @@ export type {
   WireCondition,
   SensorOutput,
   InputModuleKind,
-  SensorReading,
 } from './digital';
 export {
   IEC_61131_2_BANDS,
@@ -22,9 +21,9 @@ export {
   classifyDigitalInput,
   supplyWithinTolerance,
   contactClosed,
-  contactInputVolts,
+  inputVolts,
   applyInvert,
-  sensorInputVoltage,
+  sensorDrivesInput,
 } from './digital';
 export type { SignalRange, AnalogModuleSpec, CountFormat, Ne43Status, WordEncoding } from './analog';
 export {
