@@ -21,7 +21,6 @@ export {
   cloneProcessImage,
   getBit,
   setBit,
-  getByte,
   setByte,
   getWord,
   setWord,

@@ -39,11 +39,6 @@ export function setBit(img: ProcessImage, area: Area, byte: number, bit: number,
   mem[byte] = on ? mem[byte] | (1 << bit) : mem[byte] & ~(1 << bit);
 }
 
-/** Reads an unsigned byte. */
-export function getByte(img: ProcessImage, area: Area, byte: number): number {
-  return img[area][byte];
-}
-
 /** Writes a byte (low 8 bits of the integer part). */
 export function setByte(img: ProcessImage, area: Area, byte: number, value: number): void {
   img[area][byte] = toInt(value) & 0xff;

@@ -99,12 +99,6 @@ function padTo(v: number[], n: number): number[] {
   return v.slice(0, n);
 }
 
-/** Value of a handshake input role (0 when the role is not configured or not read yet). */
-export function roleInput(ctx: ControllerContext, role: keyof ControllerConfig['handshake']['inputs']): number {
-  const ref = ctx.config.handshake.inputs[role];
-  return ref ? (ctx.inputs[ref] ?? 0) : 0;
-}
-
 /** True when a role is configured and its input is on; `fallback` when it is not configured. */
 export function roleOn(ctx: ControllerContext, role: keyof ControllerConfig['handshake']['inputs'], fallback: boolean): boolean {
   const ref = ctx.config.handshake.inputs[role];

@@ -20,7 +20,6 @@
  * updates both in place, deterministically. Snapshots: `clonePlcState`, or
  * `serializePlcState` for JSON.
  */
-import type { Problem, Result } from '@/simulator/shared/result';
 import type { ProcessImage } from '@/simulator/address/process-image';
 import type { LogicSheet } from './sheet-schema';
 import type { PortType } from './catalogue';
@@ -75,9 +74,6 @@ export interface CompiledSheet {
   /** One output's current value, or `undefined` for an unknown block or port. */
   readOutput(state: PlcState, blockId: string, port: string): boolean | number | undefined;
 }
-
-/** Signature of {@link compileSheet} (implemented in ./compile.ts). */
-export type CompileSheet = (sheet: unknown) => Result<CompiledSheet, Problem>;
 
 /** The slow, graph-walking reference interpreter used to check the compiler in tests. */
 export interface InterpretedSheet {

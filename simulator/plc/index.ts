@@ -8,7 +8,6 @@ export type {
   BlockOutputs,
   OutputSlot,
   CompiledSheet,
-  CompileSheet,
   InterpretedSheet,
   Problem,
   Result,

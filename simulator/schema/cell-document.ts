@@ -372,8 +372,6 @@ export type Pose = z.infer<typeof poseSchema>;
 export type Handshake = z.infer<typeof handshakeSchema>;
 /** The controller section of a cell document. */
 export type ControllerConfig = z.infer<typeof controllerSchema>;
-/** The PLC–controller link. */
-export type LinkConfig = z.infer<typeof linkSchema>;
 /** How a word point encodes its number: binary, BCD or Gray. */
 export type WordEncoding = z.infer<typeof wordEncoding>;
 /** A physical controller channel (rack, slot, channel from 0). */
