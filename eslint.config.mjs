@@ -59,7 +59,7 @@ const config = [
     },
   },
   {
-    ignores: ['node_modules/**', '.next/**', '.local/**', 'next-env.d.ts', 'test-results/**', 'playwright-report/**'],
+    ignores: ['node_modules/**', '.next/**', '.next-*/**', '.local/**', 'next-env.d.ts', 'test-results/**', 'playwright-report/**'],
   },
 ];
 
