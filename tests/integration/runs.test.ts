@@ -416,7 +416,8 @@ describe('run listings', () => {
 
 describe('determinism and the library', () => {
   it('the regrade of every stored run equals its stored grade and trace hash', async () => {
-    const all = await listSubmittedRuns();
+    // Runs the server graded carry a trace hash; other files mark fixture runs submitted by hand.
+    const all = (await listSubmittedRuns()).filter((r) => r.traceHash !== null);
     expect(all.length).toBeGreaterThan(0);
     for (const run of all) {
       const again = await regrade(run, run.diagnosis, run.endedMs!);
