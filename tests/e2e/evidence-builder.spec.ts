@@ -20,12 +20,34 @@ async function pick(page: Page, scope: Locator, picker: string, search: string, 
   await page.getByRole('option', { name: option }).first().click();
 }
 
+type ChangeoverRow = { id: string; title: string; cellId: string; state: string; baseVersion: number };
+
+/**
+ * The demo changeover while it still takes proofs; once another spec has signed it off (the
+ * changeover walk signs and rolls it back), a fresh one on the same cell with the same change:
+ * the demo's proposal saved again as the latest version, base v1. Interlock rules belong to the
+ * cell, so the new changeover proves the same list.
+ */
+async function openDemoChangeover(page: Page): Promise<string> {
+  const list = (await (await page.request.get('/api/changeovers')).json()) as { changeovers: ChangeoverRow[] };
+  const demo = list.changeovers.find((c) => c.title === DEMO_CHANGEOVER);
+  if (!demo) throw new Error('the demo changeover is missing: seed the database');
+  const open = list.changeovers.find((c) => c.cellId === demo.cellId && (c.state === 'drafting' || c.state === 'checked'));
+  if (open) return open.id;
+  const versions = (await (await page.request.get(`/api/cells/${demo.cellId}/versions`)).json()) as { versions: { version: number }[] };
+  const proposal = (await (await page.request.get(`/api/cells/${demo.cellId}/versions/2`)).json()) as { version: { document: unknown } };
+  const saved = await page.request.post(`/api/cells/${demo.cellId}/versions`, { data: { baseVersion: versions.versions[0].version, document: proposal.version.document, message: 'The rear door proposal again' } });
+  expect(saved.status()).toBe(201);
+  const made = await page.request.post('/api/changeovers', { data: { cellId: demo.cellId, baseVersion: 1, title: `${DEMO_CHANGEOVER} (second look)` } });
+  expect(made.status()).toBe(201);
+  return ((await made.json()) as { changeover: { id: string } }).changeover.id;
+}
+
 test('a lead builds an interlock rule with the pickers, sees its verdict and opens a counterexample', async ({ browser }) => {
   test.setTimeout(180_000);
   const page = await pageFor(browser, DEMO.lead);
-  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Changeovers' }).click();
-  await page.getByRole('link', { name: DEMO_CHANGEOVER }).first().click();
-  await page.waitForURL(/\/changeovers\/[0-9a-f-]{36}$/);
+  const id = await openDemoChangeover(page);
+  await page.goto(`/changeovers/${id}`);
   const changeoverUrl = page.url();
   const proofs = page.getByTestId('proofs-section');
   await expect(proofs.getByTestId('proof-rule-0')).toContainText(BROKEN);
