@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { STUDENT, newPickAndPlaceCell, openArea, signIn } from './workspace-helpers';
+import { STUDENT, newPickAndPlaceCell, openArea, signIn, waitCellTime } from './workspace-helpers';
 
 /**
  * Point-map edits are staged and take effect only after a controller restart (DESIGN.md).
@@ -32,7 +32,7 @@ test('a point-map edit stays staged until the controller restarts', async ({ pag
     await expect(row).toHaveAttribute('data-state', 'staged');
     await expect(page.getByTestId('point-map-why-pm-do')).toContainText('first channel 0 → 8');
     // Nothing changes in the run: give it a second of cell time and look again.
-    await page.waitForTimeout(1000);
+    await waitCellTime(page, 1000);
     await expect(state).toHaveAttribute('data-state', 'ready');
     await expect(ch0).toHaveAttribute('data-on', 'true');
     await expect(ch8).toHaveAttribute('data-on', 'false');

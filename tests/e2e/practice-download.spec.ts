@@ -1,5 +1,5 @@
-import { expect, test, type Page } from '@playwright/test';
-import { openArea, sharedDemoCellId, signIn, STUDENT } from './workspace-helpers';
+import { expect, test } from '@playwright/test';
+import { cellTimeMs, openArea, sharedDemoCellId, signIn, STUDENT } from './workspace-helpers';
 
 /*
  * Free practice on the demo pick-and-place cell (simulator/demo/pick-and-place.ts): the student
@@ -8,12 +8,6 @@ import { openArea, sharedDemoCellId, signIn, STUDENT } from './workspace-helpers
  * part of the saved run's event log, so its replay runs it too.
  */
 
-/** Cell time shown in the run strip (`m:ss.mmm`) in ms. */
-async function cellTimeMs(page: Page): Promise<number> {
-  const text = (await page.getByTestId('cell-time').textContent()) ?? '';
-  const [m, s] = text.trim().split(':');
-  return Math.round((Number(m) * 60 + Number(s)) * 1000);
-}
 
 test('a student downloads a logic edit into a running practice cell; the run goes on and is saved with the download', async ({ page }) => {
   test.setTimeout(90_000);
@@ -55,8 +49,7 @@ test('a student downloads a logic edit into a running practice cell; the run goe
   await expect(page.getByTestId('download-status')).toContainText('Edited, not yet in the running cell: logic sheet');
   const beforeDownload = await cellTimeMs(page);
   expect(beforeDownload).toBeGreaterThan(1_000);
-  await page.waitForTimeout(300);
-  expect(await cellTimeMs(page)).toBeGreaterThan(beforeDownload);
+  await expect.poll(() => cellTimeMs(page)).toBeGreaterThan(beforeDownload);
 
   await bar.getByRole('button', { name: 'Download to PLC' }).click();
   await expect(page.getByTestId('download-status')).toHaveText('The running cell has your edits.');
@@ -64,8 +57,7 @@ test('a student downloads a logic edit into a running practice cell; the run goe
   await expect(page.getByTestId('event-refused')).toHaveCount(0);
   await expect(block).toContainText('PT 250 ms');
   // Cell time keeps counting from where it was (a reload would have started again at 0).
-  await page.waitForTimeout(300);
-  expect(await cellTimeMs(page)).toBeGreaterThan(beforeDownload);
+  await expect.poll(() => cellTimeMs(page)).toBeGreaterThan(beforeDownload);
   await expect(page.getByTestId('engine-status')).toHaveText('ready');
   // Still the first run of the session: nothing restarted the cell.
   await expect(page.getByTestId('practice-recording')).not.toContainText('the cell restarted');

@@ -35,13 +35,43 @@ export async function openArea(page: Page, name: 'Panel' | 'Field' | 'Logic' | '
   await expect(page.getByRole('tab', { name })).toHaveAttribute('aria-selected', 'true');
 }
 
-/** Presses a momentary panel button with the keyboard and holds it long enough for several PLC scans. */
+/** Presses a momentary panel button with the keyboard and holds it for `holdMs` of cell time (several PLC scans). */
 export async function pressButton(page: Page, deviceId: string, holdMs = 250) {
   const button = page.getByTestId(`panel-${deviceId}`);
   await button.focus();
   await page.keyboard.down('Space');
   await expect(button).toHaveAttribute('aria-pressed', 'true');
-  await page.waitForTimeout(holdMs);
+  await waitCellTime(page, holdMs);
   await page.keyboard.up('Space');
   await expect(button).toHaveAttribute('aria-pressed', 'false');
+}
+
+/** Cell time shown in the run strip (`m:ss.mmm`) in ms. */
+export async function cellTimeMs(page: Page): Promise<number> {
+  const text = (await page.getByTestId('cell-time').textContent()) ?? '';
+  const [m, s] = text.trim().split(':');
+  return Math.round((Number(m) * 60 + Number(s)) * 1000);
+}
+
+/** Waits until the running cell has advanced `ms` of cell time past where it is now. */
+export async function waitCellTime(page: Page, ms: number): Promise<void> {
+  const from = await cellTimeMs(page);
+  await expect.poll(() => cellTimeMs(page), { timeout: 15_000 }).toBeGreaterThanOrEqual(from + ms);
+}
+
+/** Waits until the shown cell time stops changing (a paused cell's last frame has arrived); returns it. */
+export async function settledCellTime(page: Page): Promise<string> {
+  let last = '';
+  await expect
+    .poll(
+      async () => {
+        const now = (await page.getByTestId('cell-time').textContent()) ?? '';
+        const same = now === last;
+        last = now;
+        return same;
+      },
+      { intervals: [250], timeout: 10_000 },
+    )
+    .toBe(true);
+  return last;
 }

@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { expect, test } from '@playwright/test';
-import { openArea, pressButton, sharedDemoCellId, signIn, STUDENT } from './workspace-helpers';
+import { cellTimeMs, openArea, pressButton, settledCellTime, sharedDemoCellId, signIn, STUDENT, waitCellTime } from './workspace-helpers';
 
 /*
  * The demo pick-and-place cell (simulator/demo/pick-and-place.ts) run live in the browser:
@@ -65,7 +65,7 @@ test('a student runs the demo cell: handshake, guard hold, e-stop, reset, restar
   await page.getByTestId('panel-estop-release').click();
   await pressButton(page, 'reset');
   await expect(page.getByTestId('controller-state')).toHaveText(/^ready/, { timeout: 5_000 });
-  await page.waitForTimeout(1_500);
+  await waitCellTime(page, 1_500);
   await expect(page.getByTestId('controller-state')).toHaveText(/^ready/);
   await expect(page.getByTestId('arm-state')).not.toHaveText(/^moving/);
 
@@ -116,14 +116,22 @@ test('run controls: pause holds the clock, one scan steps it by the scan period'
   await page.goto(`/cells/${id}`);
   await expect(page.getByTestId('engine-status')).toHaveText('ready');
   await page.getByRole('button', { name: 'Run ×10', exact: true }).click();
-  await page.waitForTimeout(500);
+  await expect.poll(() => cellTimeMs(page)).toBeGreaterThan(0);
   await page.getByRole('button', { name: 'Pause' }).click();
   await expect(page.getByTestId('run-speed')).toHaveText('paused');
-  // The frame already on its way when Pause was pressed may still arrive.
-  await page.waitForTimeout(300);
-  const held = await page.getByTestId('cell-time').textContent();
-  await page.waitForTimeout(500);
-  await expect(page.getByTestId('cell-time')).toHaveText(held!);
+  // The frame already on its way when Pause was pressed may still arrive: wait until the time settles.
+  const held = await settledCellTime(page);
+  // It stays held over several more reads.
+  let reads = 0;
+  await expect
+    .poll(
+      async () => {
+        expect(await page.getByTestId('cell-time').textContent()).toBe(held);
+        return ++reads;
+      },
+      { intervals: [250] },
+    )
+    .toBeGreaterThanOrEqual(3);
   await page.getByRole('button', { name: 'Step one scan' }).click();
   await expect(page.getByTestId('cell-time')).not.toHaveText(held!);
   const toMs = (t: string) => {

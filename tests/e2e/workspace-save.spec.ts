@@ -32,8 +32,10 @@ test('undo, redo and the autosaved draft survive a reload', async ({ page }) => 
   await page.keyboard.press('Control+Shift+Z');
   await expect(page.getByTestId('plate-slot-start')).toContainText('Go now');
 
-  // The draft is written shortly after the edit; a reload restores it with a notice.
-  await page.waitForTimeout(800);
+  // The draft is written shortly after the edit (browser storage); a reload restores it with a notice.
+  await expect
+    .poll(() => page.evaluate(() => Object.keys(localStorage).filter((k) => k.startsWith('cellwright:draft:')).map((k) => localStorage.getItem(k) ?? '').join('')))
+    .toContain('Go now');
   await page.reload();
   await expect(page.getByTestId('draft-notice')).toContainText('Restored your unsaved draft');
   await expect(page.getByTestId('plate-slot-start')).toContainText('Go now');
