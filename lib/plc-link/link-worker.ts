@@ -7,8 +7,11 @@
  * event log replays exactly on the stored cell version):
  * 1. at t = 0 a `download` of an empty logic sheet (same scan period) takes the sheet out;
  * 2. at t = 0 every output address of the register map is forced to 0;
- * 3. each coil or holding-register write from the PLC becomes a `force` of that address, at
- *    the cell time it arrived. The snapshot therefore marks these addresses as forced.
+ * 3. each coil or holding-register write from the PLC that changes the value in effect becomes a
+ *    `force` of that address, at the cell time it arrived. A PLC rewrites every output on every
+ *    scan; repeating an unchanged value would add nothing to the trace, so the event log grows
+ *    with the changes only (and each request costs one map lookup per unchanged address).
+ *    The snapshot marks these addresses as forced.
  * A silent PLC (no request for `linkTimeoutMs`) is a lost link: every coil and holding
  * register is forced to 0 — de-energised outputs, the safe state — until requests resume and
  * the PLC writes again.
@@ -43,7 +46,15 @@ function start(): void {
   const map = registerMap(data.document as never);
   const tables = tablesOf(map);
   const outputs = [...tables.coil, ...tables['holding-register']];
-  for (const a of outputs) must(cell.apply({ type: 'force', target: a, value: 0 }));
+  // The value each output address is forced to now (the PLC's write, or 0 while the link is lost).
+  const inEffect = new Map<string, number>();
+  const forceAll = (value: number) => {
+    for (const a of outputs) {
+      must(cell.apply({ type: 'force', target: a, value }));
+      inEffect.set(a, value);
+    }
+  };
+  forceAll(0);
 
   const t0 = performance.now();
   // Cell time follows the wall clock in whole ms; one request reading many addresses catches up once.
@@ -79,8 +90,10 @@ function start(): void {
   };
   const write = (address: string | undefined, value: number) => {
     if (address === undefined) throw illegalAddress();
+    if (inEffect.get(address) === value) return;
     catchUp();
     must(cell.apply({ type: 'force', target: address, value }));
+    inEffect.set(address, value);
   };
 
   const vector = {
@@ -124,7 +137,7 @@ function start(): void {
     catchUp();
     if (!lost && lastRequestAt !== null && performance.now() - lastRequestAt > data.linkTimeoutMs) {
       lost = true;
-      for (const a of outputs) must(cell.apply({ type: 'force', target: a, value: 0 }));
+      forceAll(0);
     }
   }, 5);
   const report = setInterval(() => {

@@ -127,6 +127,8 @@ describe('PLC link', () => {
     expect(inputs.data.slice(0, 8)).toEqual([false, true, true, false, true, true, false, false]);
     // What the demo's sheet would write: guard pass-through, part pass-through, no stop, job 1.
     await client.writeCoils(0, [false, false, false, true, false, true, false, false]);
+    // A PLC rewrites every output each scan: the same values again change nothing.
+    await client.writeCoils(0, [false, false, false, true, false, true, false, false]);
     await client.writeRegisters(0, [1]);
     expect((await client.readHoldingRegisters(0, 1)).data).toEqual([1]);
     // The controller boots (bootMs 1500) and reports ready (%IX1.0 = discrete input 8).
@@ -189,6 +191,10 @@ describe('PLC link', () => {
     const events = batches.flatMap((b) => b.events);
     expect(events[0].event).toMatchObject({ type: 'download' });
     expect(events.some((e) => e.event.type === 'force' && e.event.target === '%QX0.0' && e.event.value === 1)).toBe(true);
+    // Only changes are logged: forced to 0 at the start, the PLC's 1 (written twice), 0 at the
+    // link loss, the PLC's 1 again after it.
+    const guardForces = events.filter((e) => e.event.type === 'force' && e.event.target === '%QX0.3').map((e) => (e.event as { value: number }).value);
+    expect(guardForces).toEqual([0, 1, 0, 1]);
     const replayed = replay(document, events, { untilMs: batches[batches.length - 1].untilMs });
     expect(replayed.ok).toBe(true);
     if (replayed.ok) expect(replayed.value.snapshot.controller.cyclesCompleted).toBe(1);
