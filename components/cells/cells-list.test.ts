@@ -34,7 +34,7 @@ const sharedCell = (id: string, name: string, myCopyId: string | null): SharedCe
   ownerName: 'Tomas Reyhill',
   latestVersion: 4,
   updatedAt: '2026-03-01T08:00:00.000Z',
-  cohorts: [{ cohortId: 'c0', cohortName: 'Harbourside evening class' }],
+  cohorts: [{ cohortId: 'c0', cohortName: 'Kestrel Vale evening class' }],
   myCopyId,
 });
 

@@ -5,9 +5,9 @@ import { templateDocument } from '@/lib/cells/templates';
 const MARKER = 'demo-cells-v1';
 
 export const DEMO_CELL_NAMES = {
-  pickAndPlace: 'Harbourside Cell B — pick and place',
-  panelStarter: 'Millbrook starter — start/stop with seal-in',
-  leadCopy: 'Dunmore line 3 rehearsal — pick and place',
+  pickAndPlace: 'Kestrel Vale Cell B — pick and place',
+  panelStarter: 'Kestrel Vale starter — start/stop with seal-in',
+  leadCopy: 'Tallowmere line 3 rehearsal — pick and place',
 } as const;
 
 /**

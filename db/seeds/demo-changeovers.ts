@@ -11,7 +11,7 @@ export const DEMO_COUNTERSIGNER = {
   name: 'Kasimir Thorne',
   role: 'lead',
   password: 'lead-demo-2026',
-  organization: 'Brennick Fasteners, Dunmore plant',
+  organization: 'Brennick Fasteners, Tallowmere plant',
 } as const;
 
 export const DEMO_CHANGEOVER = {
@@ -80,7 +80,7 @@ export function demoChangeoverProposal(base: CellDocument): CellDocument {
 }
 
 /**
- * The demo lead's changeover, once (its own marker): version 2 of "Dunmore line 3 rehearsal"
+ * The demo lead's changeover, once (its own marker): version 2 of "Tallowmere line 3 rehearsal"
  * is the proposal above, and a changeover in drafting compares it with version 1 (what runs
  * today), with the plant's shift lead asked to countersign. The interlock rules and the two
  * scenarios of the cell come from the evidence seed. Uses the Knex it is given (runs under

@@ -9,7 +9,7 @@ import { seedDemoChangeovers } from './demo-changeovers';
 
 /** The invented demo scenario: a technical college's robot-cell class and a plant's maintenance lead. */
 export const DEMO_COLLEGE = 'Kestrel Vale Technical College';
-export const DEMO_PLANT = 'Brennick Fasteners, Dunmore plant';
+export const DEMO_PLANT = 'Brennick Fasteners, Tallowmere plant';
 export const DEMO_COHORT = 'RC-27A Robot cell integration';
 
 export interface DemoAccount {

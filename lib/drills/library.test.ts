@@ -36,6 +36,12 @@ describe('built-in drill library', () => {
     );
   });
 
+  it('the ghost-parts drill says a software workaround goes through the plant\'s change procedure and defers to local codes', () => {
+    const brief = drill('chattering-part-sensor').input.brief;
+    expect(brief).toContain('management of change');
+    expect(brief).toContain('local codes and licensed practice take precedence');
+  });
+
   it.each(DRILL_LIBRARY.map((d) => [d.key]))('%s fits its base cell (faults arm, rule signals exist, answer names a place)', (key) => {
     expect(drillProblems(libraryBaseDocument(drill(key).base), input(key))).toEqual({});
   });

@@ -47,11 +47,11 @@ export function libraryBaseDocument(base: LibraryBase): CellDocumentInput {
     const di = rows.find((r) => r.id === 'pm-di')!;
     doc.controller.staged = clone(rows);
     di.firstChannel = 1;
-    doc.id = 'harbourside-cell-b-staged';
+    doc.id = 'kestrel-vale-cell-b-staged';
     doc.name = LIBRARY_BASE_NAMES['staged-restart'];
   } else if (base === 'job-encoding') {
     doc.controller.pointMap.find((r) => r.id === 'pm-wi')!.encoding = 'gray';
-    doc.id = 'harbourside-cell-b-job-encoding';
+    doc.id = 'kestrel-vale-cell-b-job-encoding';
     doc.name = LIBRARY_BASE_NAMES['job-encoding'];
   } else if (base === 'air-pressure') {
     doc.panel.push({
@@ -68,7 +68,7 @@ export function libraryBaseDocument(base: LibraryBase): CellDocumentInput {
     doc.plc.modules.push({ id: 'plc-ai4', kind: 'analog-in', address: 4, channels: 1, signal: '4-20mA', resolutionBits: 12 });
     doc.wiring.push({ id: 'w-air', from: { device: 'airPressure', terminal: 'signal' }, to: { plc: '%IW4' }, label: 'Supply air 4–20 mA' });
     doc.initial = { ...doc.initial!, devices: { ...(doc.initial?.devices ?? {}), airPressure: { value: 6 } } };
-    doc.id = 'harbourside-cell-b-air';
+    doc.id = 'kestrel-vale-cell-b-air';
     doc.name = LIBRARY_BASE_NAMES['air-pressure'];
   }
   return doc;
@@ -114,7 +114,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Cell B holds for no reason',
-      brief: `## Night shift report\n\nCell B at Harbourside ran fine at the start of the shift. Then the robot went to hold mid-cycle and now refuses to start; the yellow lamp is lit. Nobody touched the stop button.\n\nFind the cause with the monitor, the meter readings on the terminal strip and the scope. Do not bypass anything you cannot explain.\n\n${CAUTION}`,
+      brief: `## Night shift report\n\nCell B at Kestrel Vale ran fine at the start of the shift. Then the robot went to hold mid-cycle and now refuses to start; the yellow lamp is lit. Nobody touched the stop button.\n\nFind the cause with the monitor, the meter readings on the terminal strip and the scope. Do not bypass anything you cannot explain.\n\n${CAUTION}`,
       faults: [card({ id: 'f1', kind: 'open-wire', row: 'w-stop', at: 15_000, label: 'Stop circuit conductor broken in the cable chain' })],
       objectives: ['Run the cell and watch what happens when the robot holds.', 'Compare the stop button with what the PLC input reads.', 'Name the fault and the terminal-strip row.'],
       rules: [GUARD_RULE, ESTOP_RULE],
@@ -204,7 +204,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Ghost parts at the pick station',
-      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope and name the fault and where it is. Until maintenance can re-terminate the wire, debounce the part signal in the logic sheet (the robot's part-present output %QX0.5 and the start permission should only see a steady part) and download the sheet to the PLC. Take the part off the sensor before you download: a download restarts the PLC logic, and its outputs drop for a moment.\n\n${CAUTION}`,
+      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope and name the fault and where it is. Until maintenance can re-terminate the wire, debounce the part signal in the logic sheet (the robot's part-present output %QX0.5 and the start permission should only see a steady part) and download the sheet to the PLC. Take the part off the sensor before you download: a download restarts the PLC logic, and its outputs drop for a moment.\n\n> A software workaround for a hardware fault is a change to a running machine. In a real plant it goes through the site's change procedure (management of change: a review of what it hides, approval, a record, and a date to take it out once the wire is repaired) before anyone downloads it, and local codes and licensed practice take precedence. Here it is an exercise on a simulated cell.\n\n${CAUTION}`,
       faults: [card({ id: 'f1', kind: 'chatter', row: 'w-part', periodMs: 30, probability: 0.35, label: 'Loose terminal on the part-sensor input' })],
       objectives: [
         'Put the part sensor on the scope and compare it with the device.',

@@ -10,7 +10,7 @@ describe('demo cells', () => {
   it('the JSON examples for the headless runner are the shipped demo documents', () => {
     expect(example('pick-and-place.cell.json')).toEqual(JSON.parse(JSON.stringify(pickAndPlaceCell)));
     expect(example('starter.cell.json')).toEqual(JSON.parse(JSON.stringify(starterCell)));
-    expect(Object.keys(demoCells).sort()).toEqual(['harbourside-cell-b', 'millbrook-starter']);
+    expect(Object.keys(demoCells).sort()).toEqual(['kestrel-vale-cell-b', 'kestrel-vale-starter']);
   });
 
   it('the pick-and-place demo has what the brief asks for', () => {

@@ -1,5 +1,5 @@
 /**
- * Demo cell (a): the pick-and-place trainer of "Cell B" at Harbourside Technical College, an
+ * Demo cell (a): the pick-and-place trainer of "Cell B" at Kestrel Vale Technical College, an
  * invented school. A 2-axis arm picks a part from the pick station and sets it down at one of
  * two places chosen by a job number; the PLC gates the robot with the usual interlocks.
  *
@@ -28,8 +28,8 @@ const pos = () => at(40 + 120 * (px++ % 6), 60);
 /** The pick-and-place demo cell document. */
 export const pickAndPlaceCell: CellDocumentInput = {
   schemaVersion: 1,
-  id: 'harbourside-cell-b',
-  name: 'Harbourside Cell B — pick and place',
+  id: 'kestrel-vale-cell-b',
+  name: 'Kestrel Vale Cell B — pick and place',
   description:
     'Invented trainer cell: a 2-axis arm moves parts from the pick station to place 1 or place 2 (job number 1 or 2). ' +
     'Start, NC stop, two-channel NC e-stop, guard switch, part sensor, gripper with feedback, stack light.',

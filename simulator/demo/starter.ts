@@ -1,5 +1,5 @@
 /**
- * Demo cell (b): a panel-only starter exercise from "Millbrook Community College", an invented
+ * Demo cell (b): a panel-only starter exercise from "Kestrel Vale Technical College", an invented
  * school. A start/stop seal-in circuit lights a "Running" lamp; a speed potentiometer on a
  * 4–20 mA loop is scaled to 0–100 % and shown on a numeric display. No robot.
  */
@@ -10,8 +10,8 @@ const at = (x: number, y: number) => ({ x, y });
 /** The panel-only starter exercise document. */
 export const starterCell: CellDocumentInput = {
   schemaVersion: 1,
-  id: 'millbrook-starter',
-  name: 'Millbrook starter exercise — start/stop with seal-in',
+  id: 'kestrel-vale-starter',
+  name: 'Kestrel Vale starter exercise — start/stop with seal-in',
   description:
     'Invented first exercise: wire an NO start and an NC stop button to the PLC, build a seal-in so the Running lamp stays lit, ' +
     'and show a 4–20 mA speed setpoint in percent.',

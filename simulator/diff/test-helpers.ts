@@ -16,7 +16,7 @@ export function parsedCell(input: CellDocumentInput = pickAndPlaceCell): CellDoc
 export const INPUT_CARD_ROWS = ['w-estop2', 'l-start', 'l-stop', 'l-reset', 'l-guard', 'l-part', 'l-job'] as const;
 
 /**
- * The changeover proposal for Harbourside Cell B (invented):
+ * The changeover proposal for Kestrel Vale Cell B (invented):
  * 1. a second, rear guard door: guard switch `guard2` wired to %IX0.7, a contact `guard2Ok`
  *    and a fifth input on `startPermit` (connection `c6b`), starting closed;
  * 2. the controller's digital input card moved from slot 1 to slot 5: module, point-map rows

@@ -56,8 +56,8 @@ test('a student opens their own copy of a cell shared with their cohort', async 
   await signInAs(page, DEMO.student);
   await page.goto('/cells');
   const shared = page.getByTestId('shared-cells');
-  await expect(shared).toContainText('Harbourside Cell B — pick and place');
-  const open = shared.getByRole('button', { name: 'Open my copy of Millbrook starter — start/stop with seal-in' });
+  await expect(shared).toContainText('Kestrel Vale Cell B — pick and place');
+  const open = shared.getByRole('button', { name: 'Open my copy of Kestrel Vale starter — start/stop with seal-in' });
   await open.click();
   await page.waitForURL(/\/cells\/[0-9a-f-]{36}$/);
   const copyUrl = page.url();

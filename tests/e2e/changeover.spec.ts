@@ -169,7 +169,7 @@ test('a trainer opens a changeover on a cell of their own for a class, and aband
   await mainNav(trainer).getByRole('link', { name: 'Changeovers' }).click();
   await trainer.getByTestId('open-changeover').click();
   const dialog = trainer.getByRole('dialog', { name: 'Open a changeover' });
-  await dialog.getByLabel('Cell').selectOption({ label: 'Harbourside Cell B — pick and place' });
+  await dialog.getByLabel('Cell').selectOption({ label: 'Kestrel Vale Cell B — pick and place' });
   await expect(dialog.getByLabel('Base — the version that runs today')).toHaveValue('1');
   await dialog.getByLabel('Title').fill('Class example: lengthen the start pulse');
   await dialog.getByLabel('What changes and why').fill('Show the class how a parameter change reads in the diff.');

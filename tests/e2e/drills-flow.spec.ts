@@ -16,7 +16,7 @@ test('a trainer assigns a drill; the student runs it, finds the fault and submit
   await trainer.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Drills' }).click();
   await trainer.getByTestId('new-drill').click();
   await trainer.getByLabel('Title').fill(title);
-  const base = await trainer.getByLabel('Base cell').locator('option', { hasText: 'Harbourside' }).first().getAttribute('value');
+  const base = await trainer.getByLabel('Base cell').locator('option', { hasText: 'Kestrel Vale Cell B' }).first().getAttribute('value');
   await trainer.getByLabel('Base cell').selectOption(base!);
   const fault = trainer.getByTestId('fault-0');
   await fault.getByLabel('Kind').selectOption('open-wire');

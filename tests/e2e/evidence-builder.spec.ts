@@ -103,7 +103,7 @@ test('a trainer builds a drill’s grading rule and fault card from the cell ins
   await page.goto('/drills/new');
   const title = `Builder drill ${Date.now().toString(36)}`;
   await page.getByLabel('Title').fill(title);
-  const base = await page.getByLabel('Base cell').locator('option', { hasText: 'Harbourside' }).first().getAttribute('value');
+  const base = await page.getByLabel('Base cell').locator('option', { hasText: 'Kestrel Vale Cell B' }).first().getAttribute('value');
   await page.getByLabel('Base cell').selectOption(base!);
 
   const fault = page.getByTestId('fault-0');

@@ -2,7 +2,7 @@ import { expect, type Page } from '@playwright/test';
 
 /** Demo sign-ins from db/seeds/demo.ts (invented people). */
 export const STUDENT = { email: 'ada.lindqvist@kestrelvale.test', password: 'student-demo-2026' };
-export const DEMO_CELL_NAME = 'Harbourside Cell B — pick and place';
+export const DEMO_CELL_NAME = 'Kestrel Vale Cell B — pick and place';
 
 export async function signIn(page: Page, who: { email: string; password: string }) {
   await page.goto('/sign-in');

@@ -80,7 +80,7 @@ describe('authoring', () => {
     const body = res.body as { drill: { faults: { id: string }[]; answer: unknown }; document: { id: string } };
     expect(body.drill.faults.map((f) => f.id)).toEqual(['hiddenStopBreak', 'hiddenPartMismatch']);
     expect(body.drill.answer).toEqual({ kind: 'open-wire', location: 'w-stop' });
-    expect(body.document.id).toBe('harbourside-cell-b');
+    expect(body.document.id).toBe('kestrel-vale-cell-b');
   });
 
   it('updates a drill without runs and freezes it once a run exists (409)', async () => {
