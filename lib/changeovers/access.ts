@@ -3,7 +3,7 @@ import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
 import type { Changeover } from '@/db/changeovers';
 import { findChangeover } from '@/db/changeovers';
-import { CHANGEOVER_ROLES, COUNTERSIGN_ROLES } from './roles';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /**
  * Who may see and do what with a changeover (one place, used by pages, route handlers and the
@@ -17,7 +17,7 @@ import { CHANGEOVER_ROLES, COUNTERSIGN_ROLES } from './roles';
  *   admin); the sign-off rules themselves are in sign-off.ts.
  */
 function readsChangeover(user: User, co: Changeover): boolean {
-  if (!CHANGEOVER_ROLES.includes(user.role)) return false;
+  if (!ROLE_TABLE.changeovers.includes(user.role)) return false;
   if (user.role === 'admin') return true;
   return co.openedBy.id === user.id || co.cellOwnerId === user.id || co.countersigner?.id === user.id;
 }
@@ -34,7 +34,7 @@ export async function canReadChangeover(user: User, id: string): Promise<boolean
 
 /** A changeover the user may read: 403 for a role without changeovers, 404 when it is not theirs to see. */
 export async function changeoverForReader(user: User, id: string): Promise<Changeover> {
-  if (!CHANGEOVER_ROLES.includes(user.role)) throw new ApiError(403, 'Your role may not do this.');
+  if (!ROLE_TABLE.changeovers.includes(user.role)) throw new ApiError(403, 'Your role may not do this.');
   const co = await findChangeover(id);
   if (!co || !readsChangeover(user, co)) throw new ApiError(404, 'No such changeover.');
   return co;
@@ -50,7 +50,7 @@ export async function changeoverForEditor(user: User, id: string): Promise<Chang
 /** A changeover the user may countersign: readable, a countersigning role, and not the one who signed it. */
 export async function changeoverForCountersigner(user: User, id: string): Promise<Changeover> {
   const co = await changeoverForReader(user, id);
-  if (!COUNTERSIGN_ROLES.includes(user.role)) throw new ApiError(403, 'Your role may not countersign.');
+  if (!ROLE_TABLE.countersign.includes(user.role)) throw new ApiError(403, 'Your role may not countersign.');
   return co;
 }
 
@@ -58,6 +58,6 @@ export async function changeoverForCountersigner(user: User, id: string): Promis
 export function changeoverAbilities(user: User, co: Changeover): { edit: boolean; countersign: boolean } {
   return {
     edit: editsChangeover(user, co),
-    countersign: readsChangeover(user, co) && COUNTERSIGN_ROLES.includes(user.role) && co.signedBy?.id !== user.id,
+    countersign: readsChangeover(user, co) && ROLE_TABLE.countersign.includes(user.role) && co.signedBy?.id !== user.id,
   };
 }

@@ -5,7 +5,6 @@ import { findUserById } from '@/db/users';
 import { cellForOwner } from '@/lib/cells/access';
 import type { OpenChangeoverInput, UpdateChangeoverInput } from '@/lib/schemas/changeovers';
 import type { Changeover, ChangeoverState } from './types';
-import { COUNTERSIGN_ROLES } from './roles';
 import {
   findChangeover,
   openChangeover as insertChangeover,
@@ -15,6 +14,7 @@ import {
   unpinProposal,
   updateChangeoverText,
 } from '@/db/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** The state a changeover is in, in the words the pages use (also in 409 messages). */
 const STATE_WORDS: Record<ChangeoverState, string> = {
@@ -62,7 +62,7 @@ export async function updateChangeoverFor(user: User, co: Changeover, input: Upd
       await setCountersigner(co.id, user.id, null);
     } else {
       const person = await findUserById(input.countersignerId);
-      const fits = person && !person.disabled && COUNTERSIGN_ROLES.includes(person.role) && person.id !== user.id && person.id !== co.signedBy?.id;
+      const fits = person && !person.disabled && ROLE_TABLE.countersign.includes(person.role) && person.id !== user.id && person.id !== co.signedBy?.id;
       if (!person || !fits) {
         throw new ApiError(422, 'Some fields are not valid.', {
           countersignerId: ['Ask another lead, a trainer or the administrator — not yourself.'],

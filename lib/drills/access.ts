@@ -1,6 +1,5 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
-import type { Role } from '@/lib/roles';
 import type { User } from '@/db/users';
 import { findAssignment, findDrill, isCohortMember, type Assignment, type Drill } from '@/db/drills';
 import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
@@ -8,11 +7,6 @@ import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
 // sent here, so a payload search for fault kinds finds only what would be a leak.
 import type { DrillPermissions } from '@/lib/schemas/drills';
 import { assignmentState, type AssignmentState } from './assignment-window';
-
-/** Who authors drills: trainers their own, admins any. */
-export const DRILL_ROLES: readonly Role[] = ['trainer', 'admin'];
-/** Who attempts drills. */
-export const STUDENT_ROLES: readonly Role[] = ['student'];
 
 /** A drill the user may author: 404 for another trainer's (ids reveal nothing). */
 export async function drillForAuthor(user: User, id: string): Promise<Drill> {

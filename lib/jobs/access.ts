@@ -3,10 +3,9 @@ import { ApiError } from '@/lib/api/errors';
 import type { Role } from '@/lib/roles';
 import type { User } from '@/db/users';
 import { findDrill } from '@/db/drills';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { canReadChangeover } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { parseSubject } from './types';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /**
  * Who may read a job: whoever may read its subject. A job's progress and result say as much
@@ -27,8 +26,8 @@ async function canReadDrill(user: User, id: string): Promise<boolean> {
 
 /** Subject kind → who may read it. A new kind of subject is one line here. */
 export const SUBJECT_READERS: Record<string, SubjectReader> = {
-  drill: { roles: DRILL_ROLES, canRead: canReadDrill },
-  changeover: { roles: CHANGEOVER_ROLES, canRead: canReadChangeover },
+  drill: { roles: ROLE_TABLE.drills, canRead: canReadDrill },
+  changeover: { roles: ROLE_TABLE.changeovers, canRead: canReadChangeover },
 };
 
 /**

@@ -30,9 +30,6 @@ import type { StartPlcLinkInput } from './schemas';
 
 export type SessionStatus = 'starting' | 'running' | 'stopped' | 'failed';
 
-/** Who may start a PLC link: trainers and leads on cells they can read (their own, or shared with them). */
-export const PLC_LINK_ROLES = ['trainer', 'lead'] as const;
-
 interface Session {
   id: string;
   runId: string | null;

@@ -1,14 +1,10 @@
 import { z } from 'zod';
 import { eventLogSchema, faultCardSchema, interlockRuleSchema, rulesSchema } from '@/simulator';
-import type { Role } from '@/lib/roles';
 
 /**
  * Bodies and params of the changeover-evidence routes: a cell's interlock rules and scenarios,
  * keeping a run as a scenario, proofs and checks jobs, and written acceptances.
  */
-
-/** Who keeps interlock rules and scenarios with their cells: the people who open changeovers. */
-export const EVIDENCE_CELL_ROLES: readonly Role[] = ['trainer', 'lead'];
 
 export const cellRuleParamSchema = z.object({ id: z.uuid(), ruleId: z.uuid() });
 export const cellScenarioParamSchema = z.object({ id: z.uuid(), scenarioId: z.uuid() });

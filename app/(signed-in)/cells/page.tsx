@@ -3,12 +3,12 @@ import { CellsList } from '@/components/cells/cells-list';
 import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
-import { CELL_ROLES, SHARE_ROLES } from '@/lib/cells/roles';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Cells · Cellwright' };
 
 export default async function CellsPage() {
-  const { user, allowed } = await requirePageUser('/cells', CELL_ROLES);
+  const { user, allowed } = await requirePageUser('/cells', ROLE_TABLE.cells);
   if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
   const description =
     user.role === 'student'
@@ -17,7 +17,7 @@ export default async function CellsPage() {
   return (
     <>
       <PageHeader title="Cells" description={description} />
-      <CellsList canShare={SHARE_ROLES.includes(user.role)} isStudent={user.role === 'student'} />
+      <CellsList canShare={ROLE_TABLE.shareCells.includes(user.role)} isStudent={user.role === 'student'} />
     </>
   );
 }

@@ -4,17 +4,17 @@ import { ChangeoverCaution } from '@/components/changeovers/changeover-caution';
 import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
-import { CHANGEOVER_ROLES, OPEN_CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { listChangeoversFor } from '@/db/changeovers';
 import { listOwnedCells } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Changeovers · Cellwright' };
 
 /** The changeovers a lead or trainer keeps (and those they are asked to countersign); the admin sees all. */
 export default async function ChangeoversPage() {
-  const { user, allowed } = await requirePageUser('/changeovers', CHANGEOVER_ROLES);
+  const { user, allowed } = await requirePageUser('/changeovers', ROLE_TABLE.changeovers);
   if (!allowed) return <Refused role={user.role} needs="maintenance leads, trainers and administrators" />;
-  const canOpen = OPEN_CHANGEOVER_ROLES.includes(user.role);
+  const canOpen = ROLE_TABLE.openChangeovers.includes(user.role);
   const [changeovers, cells] = await Promise.all([listChangeoversFor(user), canOpen ? listOwnedCells(user.id) : Promise.resolve([])]);
   return (
     <>

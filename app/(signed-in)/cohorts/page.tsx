@@ -3,12 +3,12 @@ import { CohortList } from '@/components/cohorts/cohort-list';
 import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
-import { COHORT_ROLES } from '@/lib/roles';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Cohorts · Cellwright' };
 
 export default async function CohortsPage() {
-  const { user, allowed } = await requirePageUser('/cohorts', COHORT_ROLES);
+  const { user, allowed } = await requirePageUser('/cohorts', ROLE_TABLE.cohorts);
   if (!allowed) return <Refused role={user.role} needs="trainers and administrators" />;
   return (
     <>

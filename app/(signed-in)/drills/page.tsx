@@ -9,12 +9,13 @@ import { requirePageUser } from '@/lib/auth/session';
 import { assignmentState } from '@/lib/drills/access';
 import { listAssignmentsOfTrainer, listDrills } from '@/db/drills';
 import { ListTable } from '@/components/ui/list-table';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Drills · Cellwright' };
 
 /** Students: the drills assigned to them. Trainers (admins): their drills, a new one, their assignments. */
 export default async function DrillsPage() {
-  const { user, allowed } = await requirePageUser('/drills', ['student', 'trainer', 'admin']);
+  const { user, allowed } = await requirePageUser('/drills', ROLE_TABLE.assignments);
   if (!allowed) return <Refused role={user.role} needs="students and trainers" />;
   if (user.role === 'student') {
     return (

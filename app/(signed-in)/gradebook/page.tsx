@@ -3,14 +3,14 @@ import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { GradebookView } from '@/components/drills/gradebook';
 import { requirePageUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { listCohorts } from '@/db/cohorts';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Gradebook · Cellwright' };
 
 /** Cohort × drill grades for the cohort's trainer (admins: every cohort). */
 export default async function GradebookPage({ searchParams }: { searchParams: Promise<{ cohort?: string }> }) {
-  const { user, allowed } = await requirePageUser('/gradebook', DRILL_ROLES);
+  const { user, allowed } = await requirePageUser('/gradebook', ROLE_TABLE.drills);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
   const cohorts = await listCohorts(user.role === 'admin' ? null : user.id);
   const { cohort } = await searchParams;

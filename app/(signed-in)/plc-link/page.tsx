@@ -6,13 +6,14 @@ import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
 import { listOwnedCells } from '@/db/cells';
-import { PLC_LINK_ROLES, sessionsOf } from '@/lib/plc-link/sessions';
+import { sessionsOf } from '@/lib/plc-link/sessions';
 import { plcLinkSettings } from '@/lib/plc-link/settings';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'PLC link · Cellwright' };
 
 export default async function PlcLinkPage() {
-  const { user, allowed } = await requirePageUser('/plc-link', PLC_LINK_ROLES);
+  const { user, allowed } = await requirePageUser('/plc-link', ROLE_TABLE.plcLink);
   if (!allowed) return <Refused role={user.role} needs="trainers and maintenance leads" />;
   const cells = (await listOwnedCells(user.id)).map((c) => ({ id: c.id, name: c.name }));
   const sessions = sessionsOf(user);

@@ -5,11 +5,11 @@ import { Refused } from '@/components/ui/refused';
 import { formatDateTime } from '@/components/ui/format';
 import { formatCellTime } from '@/components/workspace/format';
 import { requirePageUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { listDrillRunsOfUser, pagePracticeRunsOfUser, type Run } from '@/db/runs';
 import { findDrill } from '@/db/drills';
 import { listCellsSharedWithMember } from '@/db/cells';
 import { ListTable } from '@/components/ui/list-table';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Runs · Cellwright' };
 
@@ -60,7 +60,7 @@ const HEAD = (
  * a time; and, for students, the shared cells to practise on.
  */
 export default async function RunsPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  const { user, allowed } = await requirePageUser('/runs', CELL_ROLES);
+  const { user, allowed } = await requirePageUser('/runs', ROLE_TABLE.cells);
   if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
   const requested = pageOf((await searchParams).page);
   const [attempts, practice, shared] = await Promise.all([

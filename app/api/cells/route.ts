@@ -1,22 +1,22 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { checkDocument } from '@/lib/cells/document';
 import { TEMPLATE_LABELS, templateDocument } from '@/lib/cells/templates';
 import { createCellSchema } from '@/lib/schemas/cells';
 import { createCell, listCellsSharedWithMember, listOwnedCells } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** My cells; for students also the cells shared with their cohorts (and their copies). */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const [cells, shared] = await Promise.all([listOwnedCells(user.id), user.role === 'student' ? listCellsSharedWithMember(user.id) : Promise.resolve([])]);
   return Response.json({ cells, shared });
 });
 
 /** Create a cell from a template (pick-and-place demo, panel starter, blank); version 1 is the template. */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const body = await parseJsonBody(req, createCellSchema);
   const checked = checkDocument(templateDocument(body.template, body.name));
   // A template that fails the engine's schema is our bug, not the caller's: 500, logged.

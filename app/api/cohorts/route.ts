@@ -1,20 +1,20 @@
 import { apiRoute, ApiError } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { COHORT_ROLES } from '@/lib/roles';
 import { createCohortSchema } from '@/lib/schemas/cohorts';
 import { createCohort, listCohorts } from '@/db/cohorts';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** Trainers list their own cohorts; admins list all. */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, COHORT_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cohorts);
   const cohorts = await listCohorts(user.role === 'admin' ? null : user.id);
   return Response.json({ cohorts });
 });
 
 /** Trainers and admins create a cohort they then own. */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, COHORT_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cohorts);
   const body = await parseJsonBody(req, createCohortSchema);
   const result = await createCohort(user.id, body);
   if (!result.ok) throw new ApiError(409, 'You already have a cohort with this name.', { name: ['Choose another name.'] });

@@ -1,20 +1,20 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { checkDrillInput } from '@/lib/drills/author';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { createDrill, listDrills } from '@/db/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** Trainers list their drills (hidden parts included: they wrote them); admins list all. */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   return Response.json({ drills: await listDrills(user.role === 'admin' ? null : user.id) });
 });
 
 /** Create a drill on one of the trainer's cell versions; fault cards and rules are checked by the engine. */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const input = await parseJsonBody(req, drillInputSchema, 'drill');
   await checkDrillInput(user, input);
   return Response.json({ drill: await createDrill(user.id, input) }, { status: 201 });

@@ -1,14 +1,15 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { PLC_LINK_ROLES, sessionsOf, startSession } from '@/lib/plc-link/sessions';
+import { sessionsOf, startSession } from '@/lib/plc-link/sessions';
 import { startPlcLinkSchema } from '@/lib/plc-link/schemas';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 
 /** The caller's PLC-link sessions on this server (live and recently finished). */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, PLC_LINK_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.plcLink);
   return Response.json({ sessions: sessionsOf(user).map(({ snapshot: _s, ...rest }) => rest) });
 });
 
@@ -18,7 +19,7 @@ export const GET = apiRoute(async (req: Request) => {
  * 503 with Retry-After at the server's cap.
  */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, PLC_LINK_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.plcLink);
   const body = await parseJsonBody(req, startPlcLinkSchema);
   const session = await startSession(user, body);
   return Response.json({ session }, { status: 201 });

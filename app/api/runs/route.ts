@@ -1,17 +1,17 @@
 import { ApiError, apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { runView } from '@/lib/runs/access';
 import { newSeed, prepareLiveRun } from '@/lib/runs/service';
 import { practiceStartSchema } from '@/lib/schemas/runs';
 import { getVersion } from '@/db/cells';
 import { createRun, listRunsOfUser } from '@/db/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** The caller's own runs, newest first (drill attempts without their hidden parts, practice runs). */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const runs = await listRunsOfUser(user.id);
   return Response.json({ runs: runs.map((r) => runView(r, r.mode === 'practice')) });
 });
@@ -23,7 +23,7 @@ export const GET = apiRoute(async (req: Request) => {
  * /api/runs/[id]/batches so it is saved and replayable.
  */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const body = await parseJsonBody(req, practiceStartSchema);
   await cellForReader(user, body.cellId);
   const version = await getVersion(body.cellId, body.version);

@@ -3,11 +3,12 @@ import { Mailbox } from '@/components/admin/mailbox';
 import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Mailbox · Cellwright' };
 
 export default async function MailboxPage() {
-  const { user, allowed } = await requirePageUser('/admin/mailbox', ['admin']);
+  const { user, allowed } = await requirePageUser('/admin/mailbox', ROLE_TABLE.administer);
   if (!allowed) return <Refused role={user.role} needs="administrators" />;
   return (
     <>

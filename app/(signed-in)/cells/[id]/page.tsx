@@ -4,10 +4,10 @@ import { Refused } from '@/components/ui/refused';
 import { Workspace } from '@/components/workspace/workspace-shell';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
 import { getVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Cell workspace · Cellwright' };
 
@@ -18,7 +18,7 @@ export const metadata: Metadata = { title: 'Cell workspace · Cellwright' };
  */
 export default async function CellWorkspacePage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/cells/${raw.id}`, CELL_ROLES);
+  const { user, allowed } = await requirePageUser(`/cells/${raw.id}`, ROLE_TABLE.cells);
   if (!allowed) return <Refused role={user.role} needs="students, trainers and maintenance leads" />;
   const { id } = paramsOrNotFound(cellIdParamSchema, raw);
   // A cell the reader may not open is not-found either way (403 or 404): its id reveals nothing.

@@ -16,10 +16,10 @@ import { StateBadge } from '@/components/changeovers/state-badge';
 import { requirePageUser } from '@/lib/auth/session';
 import { changeoverAbilities, changeoverForReader } from '@/lib/changeovers/access';
 import { changeoverDiff } from '@/lib/changeovers/diff';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
 import { listChangeoverEvents, listCountersignerCandidates } from '@/db/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Changeover · Cellwright' };
 
@@ -33,7 +33,7 @@ const linkButton =
  */
 export default async function ChangeoverPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}`, CHANGEOVER_ROLES);
+  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}`, ROLE_TABLE.changeovers);
   if (!allowed) return <Refused role={user.role} needs="maintenance leads, trainers and administrators" />;
   const { id } = paramsOrNotFound(changeoverIdParamSchema, raw);
   const co = await loadOrNotFound(changeoverForReader(user, id));

@@ -9,20 +9,21 @@ import { AssignForm } from '@/components/drills/assign-form';
 import { DrillRegrade } from '@/components/drills/drill-regrade';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
-import { DRILL_ROLES, assignmentState, drillForAuthor } from '@/lib/drills/access';
+import { assignmentState, drillForAuthor } from '@/lib/drills/access';
 import { drillAsInput } from '@/lib/drills/author';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
 import { drillHasRuns, listAssignmentsOfDrill } from '@/db/drills';
 import { findCell, listOwnedCells } from '@/db/cells';
 import { listJobs, subjectOf } from '@/lib/jobs';
 import { listCohorts } from '@/db/cohorts';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Drill · Cellwright' };
 
 /** The drill editor, its preview, and its assignments (the drill's trainer, or an admin). */
 export default async function DrillPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/drills/${raw.id}`, DRILL_ROLES);
+  const { user, allowed } = await requirePageUser(`/drills/${raw.id}`, ROLE_TABLE.drills);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
   const { id } = paramsOrNotFound(drillIdParamSchema, raw);
   const drill = await loadOrNotFound(drillForAuthor(user, id));

@@ -4,13 +4,13 @@ import { Refused } from '@/components/ui/refused';
 import { Notice } from '@/components/ui/notice';
 import { DrillEditor } from '@/components/drills/drill-editor';
 import { requirePageUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { listOwnedCells } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'New drill · Cellwright' };
 
 export default async function NewDrillPage() {
-  const { user, allowed } = await requirePageUser('/drills/new', DRILL_ROLES);
+  const { user, allowed } = await requirePageUser('/drills/new', ROLE_TABLE.drills);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
   const cells = (await listOwnedCells(user.id)).map((c) => ({ id: c.id, name: c.name, versionCount: c.versionCount }));
   return (

@@ -6,14 +6,15 @@ import { PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
 import { requirePageUser } from '@/lib/auth/session';
 import { ApiError } from '@/lib/api/errors';
-import { PLC_LINK_ROLES, sessionForOwner, sessionMap, viewOf } from '@/lib/plc-link/sessions';
+import { sessionForOwner, sessionMap, viewOf } from '@/lib/plc-link/sessions';
 import { plcLinkIdParamSchema } from '@/lib/plc-link/schemas';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'PLC link session · Cellwright' };
 
 export default async function PlcLinkSessionPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/plc-link/${raw.id}`, PLC_LINK_ROLES);
+  const { user, allowed } = await requirePageUser(`/plc-link/${raw.id}`, ROLE_TABLE.plcLink);
   if (!allowed) return <Refused role={user.role} needs="trainers and maintenance leads" />;
   const parsed = plcLinkIdParamSchema.safeParse(raw);
   if (!parsed.success) notFound();

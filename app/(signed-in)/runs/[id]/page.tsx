@@ -14,7 +14,7 @@ import { runIdParamSchema } from '@/lib/schemas/runs';
 import { findDrill } from '@/db/drills';
 import { findCell } from '@/db/cells';
 import { KeepScenarioButton } from '@/components/changeovers/keep-scenario-button';
-import { EVIDENCE_CELL_ROLES } from '@/lib/schemas/evidence';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Run · Cellwright' };
 
@@ -28,7 +28,7 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
   const drill = run.drillId ? await findDrill(run.drillId, { includeDeleted: true }) : null;
   const title = drill ? drill.title : 'Free practice';
   // A lead or trainer keeps a finished run of a cell they own as one of its scenarios.
-  const cell = run.status === 'submitted' && EVIDENCE_CELL_ROLES.includes(user.role) ? await findCell(run.cellId) : null;
+  const cell = run.status === 'submitted' && ROLE_TABLE.cellEvidence.includes(user.role) ? await findCell(run.cellId) : null;
   const keep = cell && cell.ownerId === user.id ? cell : null;
   return (
     <>

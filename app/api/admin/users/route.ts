@@ -2,10 +2,11 @@ import { apiRoute, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { userListQuerySchema } from '@/lib/schemas/admin';
 import { listUsers } from '@/db/users';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** Admin: one page of users with search, role filter and sort. */
 export const GET = apiRoute(async (req: Request) => {
-  await requireApiUser(req, ['admin']);
+  await requireApiUser(req, ROLE_TABLE.administer);
   const query = parseQuery(req, userListQuerySchema);
   const { rows, total } = await listUsers(query);
   return Response.json({ users: rows, total, page: query.page, pageSize: query.pageSize });

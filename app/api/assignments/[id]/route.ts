@@ -1,8 +1,9 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { assignmentForStudent, STUDENT_ROLES, studentDrillPayload } from '@/lib/drills/access';
+import { assignmentForStudent, studentDrillPayload } from '@/lib/drills/access';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -12,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * has opened. Never the fault cards, the rules or the answer.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, STUDENT_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.attemptDrills);
   const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
   const { assignment, drill } = await assignmentForStudent(user, id);
   const payload = await studentDrillPayload(assignment, drill);

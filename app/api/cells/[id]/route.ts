@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
 import { cellIdParamSchema, renameCellSchema } from '@/lib/schemas/cells';
 import { deleteCell, getVersion, renameCell } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * (a student reading a cell shared with their cohort: may run it, not save it).
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   const { cell, access } = await cellForReader(user, id);
   const latest = await getVersion(id);
@@ -23,7 +23,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Rename (owner only). */
 export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   const body = await parseJsonBody(req, renameCellSchema);
@@ -32,7 +32,7 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Delete (owner only; soft: versions stay for runs that cite them, the cell disappears everywhere). */
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   await deleteCell(id);

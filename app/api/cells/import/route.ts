@@ -1,10 +1,10 @@
 import { ApiError, apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { checkDocument, problemsToFields } from '@/lib/cells/document';
 import { importCellSchema } from '@/lib/schemas/cells';
 import { createCell } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /**
  * Import a cell document (as exported) as a new cell. A document that fails the engine's
@@ -12,7 +12,7 @@ import { createCell } from '@/db/cells';
  * (wiring, point map ...) are imported and listed, as on a save.
  */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const body = await parseJsonBody(req, importCellSchema, 'cell');
   const checked = checkDocument(body.document);
   if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));

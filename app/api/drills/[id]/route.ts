@@ -1,16 +1,17 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { checkDrillInput, drillAsInput } from '@/lib/drills/author';
 import { drillIdParamSchema, drillPatchSchema } from '@/lib/schemas/drills';
 import { deleteDrill, drillHasRuns, updateDrillUnlessFrozen } from '@/db/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The whole drill, for its author (or an admin). */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   return Response.json({ drill: await drillForAuthor(user, id) });
 });
@@ -20,7 +21,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
  * regrade of any stored run always gives its stored grade: duplicate the drill instead.
  */
 export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const patch = await parseJsonBody(req, drillPatchSchema, 'drill');
@@ -36,7 +37,7 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Delete (soft): runs and grades stay in the gradebook. */
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   await drillForAuthor(user, id);
   await deleteDrill(id);

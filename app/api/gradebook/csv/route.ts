@@ -1,12 +1,12 @@
 import { apiRoute, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { buildGradebook, cohortForGradebook, gradebookCsv } from '@/lib/drills/gradebook';
 import { gradebookQuerySchema } from '@/lib/schemas/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** The gradebook as a CSV download. */
 export const GET = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { cohort } = parseQuery(req, gradebookQuerySchema);
   const c = await cohortForGradebook(user, cohort);
   const csv = gradebookCsv(await buildGradebook(c));

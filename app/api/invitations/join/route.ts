@@ -3,10 +3,11 @@ import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { joinInvitationSchema } from '@/lib/schemas/auth';
 import { joinWithInvitation } from '@/db/invitations';
+import { ROLE_TABLE } from '@/lib/roles';
 
 /** A signed-in student whose address was invited joins the cohort with the link. */
 export const POST = apiRoute(async (req: Request) => {
-  const user = await requireApiUser(req, ['student']);
+  const user = await requireApiUser(req, ROLE_TABLE.joinCohorts);
   const { token } = await parseJsonBody(req, joinInvitationSchema, 'auth');
   const result = await joinWithInvitation(token, user.id);
   if (!result.ok) {

@@ -7,17 +7,17 @@ import { PrintButton } from '@/components/changeovers/print-button';
 import { SignedRecordView } from '@/components/changeovers/signed-record';
 import { requirePageUser } from '@/lib/auth/session';
 import { changeoverForReader } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
 import { findSignedRecord } from '@/db/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Changeover record · Cellwright' };
 
 /** The signed record, laid out to print (the browser's print dialog saves it as PDF too). */
 export default async function ChangeoverRecordPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}/record`, CHANGEOVER_ROLES);
+  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}/record`, ROLE_TABLE.changeovers);
   if (!allowed) return <Refused role={user.role} needs="maintenance leads, trainers and administrators" />;
   const { id } = paramsOrNotFound(changeoverIdParamSchema, raw);
   const co = await loadOrNotFound(changeoverForReader(user, id));

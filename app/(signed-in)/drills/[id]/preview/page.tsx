@@ -4,16 +4,17 @@ import { Refused } from '@/components/ui/refused';
 import { DrillPreview } from '@/components/drills/drill-preview';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Drill preview · Cellwright' };
 
 /** The drill as a student would attempt it, with the trainer's full view of the hidden faults. */
 export default async function DrillPreviewPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/drills/${raw.id}/preview`, DRILL_ROLES);
+  const { user, allowed } = await requirePageUser(`/drills/${raw.id}/preview`, ROLE_TABLE.drills);
   if (!allowed) return <Refused role={user.role} needs="trainers" />;
   const { id } = paramsOrNotFound(drillIdParamSchema, raw);
   const drill = await loadOrNotFound(drillForAuthor(user, id));

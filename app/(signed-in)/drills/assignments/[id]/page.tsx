@@ -6,10 +6,11 @@ import { PageHeader } from '@/components/ui/card';
 import { DrillAttempt } from '@/components/drills/drill-attempt';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
-import { assignmentForStudent, STUDENT_ROLES, studentDrillPayload } from '@/lib/drills/access';
+import { assignmentForStudent, studentDrillPayload } from '@/lib/drills/access';
 import { assignmentIdParamSchema, DIAGNOSIS_KINDS } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
 import { findRunOfAssignment } from '@/db/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Drill attempt · Cellwright' };
 
@@ -19,7 +20,7 @@ export const metadata: Metadata = { title: 'Drill attempt · Cellwright' };
  */
 export default async function DrillAttemptPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/drills/assignments/${raw.id}`, STUDENT_ROLES);
+  const { user, allowed } = await requirePageUser(`/drills/assignments/${raw.id}`, ROLE_TABLE.attemptDrills);
   if (!allowed) return <Refused role={user.role} needs="students (trainers preview drills from the drill editor)" />;
   const { id } = paramsOrNotFound(assignmentIdParamSchema, raw);
   const found = await loadOrNotFound(assignmentForStudent(user, id));

@@ -1,10 +1,11 @@
 import { apiRoute, ApiError, parseParams, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { assignmentState, DRILL_ROLES } from '@/lib/drills/access';
+import { assignmentState } from '@/lib/drills/access';
 import { assignmentForWatcher } from '@/lib/live/board';
 import { buildFindings, findingsCsv } from '@/lib/live/findings';
 import { findingsQuerySchema } from '@/lib/schemas/live';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -14,7 +15,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * the assignment is still open: the figures would change under the trainer.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
   const { assignment, drill } = await assignmentForWatcher(user, id);
   const { format } = parseQuery(req, findingsQuerySchema);

@@ -1,10 +1,11 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { assignmentForStudent, assignmentState, STUDENT_ROLES } from '@/lib/drills/access';
+import { assignmentForStudent, assignmentState } from '@/lib/drills/access';
 import { drillSecretsVisibleToStudent, runView } from '@/lib/runs/access';
 import { newSeed, prepareLiveRun } from '@/lib/runs/service';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
 import { findRunOfAssignment, startAssignmentRun } from '@/db/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -14,7 +15,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * not open yet, or has closed, cannot be started (403); an existing run is still returned.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, STUDENT_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.attemptDrills);
   const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
   const { assignment, drill } = await assignmentForStudent(user, id);
   const state = assignmentState(assignment);

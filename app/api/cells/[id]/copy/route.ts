@@ -1,9 +1,9 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { COPY_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
 import { openStudentCopy } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -12,7 +12,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * now, 200 when they had one already), linked to its source.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, COPY_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.copySharedCells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   const { cell, access } = await cellForReader(user, id);
   if (access !== 'shared') throw new ApiError(409, 'This is already your own cell.');

@@ -1,16 +1,16 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellIdParamSchema, duplicateCellSchema } from '@/lib/schemas/cells';
 import { createCell, getVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** Duplicate my cell: a new cell whose version 1 is this cell's latest version. */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   const source = await cellForOwner(user, id);
   const body = await parseJsonBody(req, duplicateCellSchema);

@@ -1,16 +1,16 @@
 import { ApiError, apiRoute, parseParams, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { downloadName } from '@/lib/cells/download';
 import { cellIdParamSchema, exportQuerySchema } from '@/lib/schemas/cells';
 import { getVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The cell document as a JSON file (latest version, or `?version=n`); importable as is. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   const { version } = parseQuery(req, exportQuerySchema);
   const { cell } = await cellForReader(user, id);

@@ -3,14 +3,15 @@ import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
-import { EVIDENCE_CELL_ROLES, interlockRuleInputSchema } from '@/lib/schemas/evidence';
+import { interlockRuleInputSchema } from '@/lib/schemas/evidence';
 import { createInterlockRule, listInterlockRules, MAX_RULES_PER_CELL } from '@/db/interlock-rules';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The interlock rules the cell keeps, in order (its owner: a lead or a trainer). */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   return Response.json({ rules: await listInterlockRules(id) });
@@ -18,7 +19,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Adds a rule (a title and the rule the form built; 422 naming `rule.…` when the engine refuses it). */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   const input = await parseJsonBody(req, interlockRuleInputSchema);

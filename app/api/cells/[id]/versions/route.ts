@@ -1,17 +1,17 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
 import { checkDocument, problemsToFields } from '@/lib/cells/document';
 import { cellIdParamSchema, saveVersionSchema } from '@/lib/schemas/cells';
 import { listVersions, saveVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** Every version of a cell (newest first), without documents. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForReader(user, id);
   return Response.json({ versions: await listVersions(id) });
@@ -24,7 +24,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
  * problems do not block a save: they come back as `problems`.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   const body = await parseJsonBody(req, saveVersionSchema, 'cell');

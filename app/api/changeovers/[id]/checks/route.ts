@@ -2,8 +2,8 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForEditor } from '@/lib/changeovers/access';
 import { startEvidenceJob } from '@/lib/changeovers/evidence-service';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * way when there is one (`created: false`). 409 once the changeover is signed or closed.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForEditor(user, id);
   const { run, created } = await startEvidenceJob(user, co, 'checks');

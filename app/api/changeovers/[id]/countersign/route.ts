@@ -2,9 +2,9 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForCountersigner } from '@/lib/changeovers/access';
-import { COUNTERSIGN_ROLES } from '@/lib/changeovers/roles';
 import { countersignFor } from '@/lib/changeovers/sign-off';
 import { changeoverIdParamSchema, signatureSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -14,7 +14,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * not ready, or when the signer has not signed yet.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, COUNTERSIGN_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.countersign);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForCountersigner(user, id);
   const body = await parseJsonBody(req, signatureSchema);

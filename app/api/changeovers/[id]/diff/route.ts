@@ -2,14 +2,14 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForReader } from '@/lib/changeovers/access';
 import { changeoverDiff } from '@/lib/changeovers/diff';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The structural diff of base and proposal (the pin, or the cell's latest while drafting), as JSON. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForReader(user, id);
   const { baseVersion, proposedVersion, diff } = await changeoverDiff(co);

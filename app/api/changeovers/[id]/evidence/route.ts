@@ -2,10 +2,10 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverAbilities, changeoverForReader } from '@/lib/changeovers/access';
 import { loadEvidenceDetail } from '@/lib/changeovers/evidence';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
 import { listInterlockRules } from '@/db/interlock-rules';
 import { listScenarios } from '@/db/scenarios';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -15,7 +15,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * rules and scenarios (what the next run would prove and check).
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForReader(user, id);
   const [evidence, rules, scenarios] = await Promise.all([loadEvidenceDetail(co.id, co), listInterlockRules(co.cellId), listScenarios(co.cellId)]);

@@ -3,8 +3,8 @@ import { requireApiUser } from '@/lib/auth/session';
 import { downloadName } from '@/lib/cells/download';
 import { changeoverForReader } from '@/lib/changeovers/access';
 import { changeoverIoSheet } from '@/lib/changeovers/diff';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * (columns in simulator/diff/io-sheet.ts; formula-looking cells neutralised).
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForReader(user, id);
   const { baseVersion, proposedVersion, sheet } = await changeoverIoSheet(co);

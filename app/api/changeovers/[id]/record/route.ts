@@ -1,15 +1,15 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForReader } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
 import { findSignedRecord } from '@/db/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The signed record as JSON (404 before sign-off). It never changes once written. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   await changeoverForReader(user, id);
   const record = await findSignedRecord(id);

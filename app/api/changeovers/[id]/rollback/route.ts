@@ -2,9 +2,9 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForEditor } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { rollBackFor } from '@/lib/changeovers/service';
 import { changeoverIdParamSchema, rollbackSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -14,7 +14,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * the proposal is abandoned. 409 once it has been rolled back or abandoned.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForEditor(user, id);
   await parseJsonBody(req, rollbackSchema);

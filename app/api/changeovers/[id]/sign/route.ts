@@ -2,9 +2,9 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForEditor } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { signFor, withdrawSignatureFor } from '@/lib/changeovers/sign-off';
 import { changeoverIdParamSchema, signatureSchema } from '@/lib/schemas/changeovers';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * not ready, 409 when the pin moved since the signer looked, 422 when the typed name is not theirs.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForEditor(user, id);
   const body = await parseJsonBody(req, signatureSchema);
@@ -22,7 +22,7 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** The opener takes back a signature nobody has countersigned yet. */
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id } = await parseParams(ctx.params, changeoverIdParamSchema);
   const co = await changeoverForEditor(user, id);
   return Response.json({ changeover: await withdrawSignatureFor(user, co) });

@@ -1,10 +1,11 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { BODY_LIMITS, readBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { sniffImageType } from '@/lib/drills/sniff';
 import { assetNameSchema, drillIdParamSchema, MAX_ASSET_BYTES } from '@/lib/schemas/drills';
 import { countAssets, insertAsset, listAssets } from '@/db/drill-assets';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +14,7 @@ const MAX_ASSETS_PER_DRILL = 30;
 
 /** The brief's images (metadata only). */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   await drillForAuthor(user, id);
   return Response.json({ assets: await listAssets(id) });
@@ -25,7 +26,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
  * are not trusted). Nothing is stored on any error.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   await drillForAuthor(user, id);
   let bytesIn: Uint8Array<ArrayBuffer>;

@@ -2,17 +2,18 @@ import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { sendMail } from '@/lib/mail/send';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { assignmentLink, drillAssignedMail } from '@/lib/drills/mail';
 import { assignSchema, drillIdParamSchema } from '@/lib/schemas/drills';
 import { findCohort } from '@/db/cohorts';
 import { cohortStudents, createAssignment, listAssignmentsOfDrill } from '@/db/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The drill's assignments. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   await drillForAuthor(user, id);
   return Response.json({ assignments: await listAssignmentsOfDrill(id) });
@@ -24,7 +25,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
  * (the dashboard lists it); the answer says how many were sent.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const body = await parseJsonBody(req, assignSchema);

@@ -1,9 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { drillIdParamSchema, DIAGNOSIS_KINDS } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
 import { listAssets } from '@/db/drill-assets';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +14,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * a student sees, side by side with the rules and answer.
  */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const version = await getVersion(drill.cellId, drill.cellVersion);

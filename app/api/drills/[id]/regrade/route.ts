@@ -1,9 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES, drillForAuthor } from '@/lib/drills/access';
+import { drillForAuthor } from '@/lib/drills/access';
 import { enqueueJob, isFinished, listJobs, subjectOf } from '@/lib/jobs';
 import type { DrillRegradePayload } from '@/lib/drills/regrade-report';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +14,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * 201 with the new job; 200 with the one already queued or running (one check at a time).
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const subject = subjectOf('drill', drill.id);

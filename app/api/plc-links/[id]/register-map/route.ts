@@ -2,15 +2,16 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { downloadName } from '@/lib/cells/download';
 import { registerMapCsv } from '@/lib/plc-link/register-map';
-import { PLC_LINK_ROLES, sessionForOwner, sessionMap } from '@/lib/plc-link/sessions';
+import { sessionForOwner, sessionMap } from '@/lib/plc-link/sessions';
 import { plcLinkIdParamSchema } from '@/lib/plc-link/schemas';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 type Ctx = { params: Promise<{ id: string }> };
 
 /** The session's register map: CSV (table, offset, address, label, direction), or JSON with `?format=json`. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, PLC_LINK_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.plcLink);
   const { id } = await parseParams(ctx.params, plcLinkIdParamSchema);
   const s = sessionForOwner(user, id);
   const rows = sessionMap(s);

@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { runForReader, runView } from '@/lib/runs/access';
 import { overrideSchema, runIdParamSchema } from '@/lib/schemas/runs';
 import { findRun, overrideGrade } from '@/db/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -13,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * null` removes the override. Both the grade and the audit entry are written in one transaction.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, DRILL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, runIdParamSchema);
   const { run, reader } = await runForReader(user, id);
   if (reader === 'owner' || run.mode !== 'drill') throw new ApiError(404, 'No such run.');

@@ -2,8 +2,9 @@ import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { keepRunAsScenario } from '@/lib/changeovers/scenario-service';
-import { EVIDENCE_CELL_ROLES, keepScenarioSchema } from '@/lib/schemas/evidence';
+import { keepScenarioSchema } from '@/lib/schemas/evidence';
 import { runIdParamSchema } from '@/lib/schemas/runs';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -12,7 +13,7 @@ type Ctx = { params: Promise<{ id: string }> };
  * on cells they own): 201 with the scenario and how many editing events were left out.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id } = await parseParams(ctx.params, runIdParamSchema);
   const input = await parseJsonBody(req, keepScenarioSchema);
   const { scenario, leftOut } = await keepRunAsScenario(user, id, input);

@@ -11,11 +11,11 @@ import { interlockSentence } from '@/components/rules/sentences';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { changeoverForReader } from '@/lib/changeovers/access';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { changeoverVerdictParamSchema } from '@/lib/schemas/evidence';
 import { findVerdict } from '@/db/changeover-evidence';
 import { getVersion } from '@/db/cells';
 import { counterexampleEvents, counterexampleFailsAtMs, ruleAddresses } from '@/simulator';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Counterexample · Cellwright' };
 
@@ -29,7 +29,7 @@ const TAIL_SCANS = 5;
  */
 export default async function CounterexamplePage({ params }: { params: Promise<{ id: string; verdictId: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}/counterexample/${raw.verdictId}`, CHANGEOVER_ROLES);
+  const { user, allowed } = await requirePageUser(`/changeovers/${raw.id}/counterexample/${raw.verdictId}`, ROLE_TABLE.changeovers);
   if (!allowed) return <Refused role={user.role} needs="leads, trainers and admins" />;
   const { id, verdictId } = paramsOrNotFound(changeoverVerdictParamSchema, raw);
   const co = await loadOrNotFound(changeoverForReader(user, id));

@@ -5,11 +5,11 @@ import { SafetyCaution } from '@/components/ui/safety-caution';
 import { LiveBoard } from '@/components/live/live-board';
 import { CohortFindings } from '@/components/live/cohort-findings';
 import { requirePageUser } from '@/lib/auth/session';
-import { DRILL_ROLES } from '@/lib/drills/access';
 import { assignmentForWatcher, loadBoard } from '@/lib/live/board';
 import { buildFindings } from '@/lib/live/findings';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
+import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Live board · Cellwright' };
 
@@ -20,7 +20,7 @@ export const metadata: Metadata = { title: 'Live board · Cellwright' };
  */
 export default async function LiveBoardPage({ params }: { params: Promise<{ id: string }> }) {
   const raw = await params;
-  const { user, allowed } = await requirePageUser(`/drills/assignments/${raw.id}/live`, DRILL_ROLES);
+  const { user, allowed } = await requirePageUser(`/drills/assignments/${raw.id}/live`, ROLE_TABLE.drills);
   if (!allowed) return <Refused role={user.role} needs="the drill's trainer" />;
   const { id } = paramsOrNotFound(assignmentIdParamSchema, raw);
   const { assignment, drill } = await loadOrNotFound(assignmentForWatcher(user, id));

@@ -2,13 +2,13 @@ import { z } from 'zod';
 import { ApiError, apiRoute, parseParams, parseQuery } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { CELL_ROLES } from '@/lib/cells/roles';
 import { cellForOwner, cellForReader } from '@/lib/cells/access';
 import { downloadName } from '@/lib/cells/download';
 import { importCsvIntoDocument } from '@/lib/cells/csv-import';
 import { firstProblems, ioListToCsv, MAX_REPORTED_PROBLEMS, pointMapToCsv, rowErrorsToFields } from '@/lib/cells/csv';
 import { cellCsvParamSchema, csvImportSchema } from '@/lib/schemas/cells';
 import { getVersion, saveVersion } from '@/db/cells';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; kind: string }> };
 
@@ -20,7 +20,7 @@ const exportCsvQuery = z.object({
 
 /** The point map or the I/O list of a cell version as CSV (docs/csv-formats.md). */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id, kind } = await parseParams(ctx.params, cellCsvParamSchema);
   const query = parseQuery(req, exportCsvQuery);
   const { cell } = await cellForReader(user, id);
@@ -48,7 +48,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
  * 409 `{ error, latestVersion }` when the cell changed since `baseVersion`.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cells);
   const { id, kind } = await parseParams(ctx.params, cellCsvParamSchema);
   await cellForOwner(user, id);
   const body = await parseJsonBody(req, csvImportSchema, 'csv');

@@ -2,14 +2,15 @@ import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { cellForOwner } from '@/lib/cells/access';
-import { cellRuleParamSchema, EVIDENCE_CELL_ROLES, interlockRuleInputSchema } from '@/lib/schemas/evidence';
+import { cellRuleParamSchema, interlockRuleInputSchema } from '@/lib/schemas/evidence';
 import { deleteInterlockRule, updateInterlockRule } from '@/db/interlock-rules';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; ruleId: string }> };
 
 /** Rewrites a rule's title and conditions (the proofs that ran on the old one stay as they were). */
 export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id, ruleId } = await parseParams(ctx.params, cellRuleParamSchema);
   await cellForOwner(user, id);
   const input = await parseJsonBody(req, interlockRuleInputSchema);
@@ -19,7 +20,7 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
 });
 
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id, ruleId } = await parseParams(ctx.params, cellRuleParamSchema);
   await cellForOwner(user, id);
   if (!(await deleteInterlockRule(id, ruleId))) throw new ApiError(404, 'No such rule.');

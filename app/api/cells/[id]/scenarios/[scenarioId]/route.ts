@@ -2,14 +2,15 @@ import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { cellForOwner } from '@/lib/cells/access';
-import { cellScenarioParamSchema, EVIDENCE_CELL_ROLES, scenarioPatchSchema } from '@/lib/schemas/evidence';
+import { cellScenarioParamSchema, scenarioPatchSchema } from '@/lib/schemas/evidence';
 import { deleteScenario, findScenario, updateScenario } from '@/db/scenarios';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; scenarioId: string }> };
 
 /** One scenario with its event script. */
 export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id, scenarioId } = await parseParams(ctx.params, cellScenarioParamSchema);
   await cellForOwner(user, id);
   const scenario = await findScenario(id, scenarioId);
@@ -19,7 +20,7 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Renames a scenario or rewrites its description or rules (its script stays what the run did). */
 export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id, scenarioId } = await parseParams(ctx.params, cellScenarioParamSchema);
   await cellForOwner(user, id);
   const patch = await parseJsonBody(req, scenarioPatchSchema);
@@ -30,7 +31,7 @@ export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
 });
 
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, EVIDENCE_CELL_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cellEvidence);
   const { id, scenarioId } = await parseParams(ctx.params, cellScenarioParamSchema);
   await cellForOwner(user, id);
   if (!(await deleteScenario(id, scenarioId))) throw new ApiError(404, 'No such scenario.');

@@ -1,15 +1,15 @@
 import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { COHORT_ROLES } from '@/lib/roles';
 import { invitationParamSchema } from '@/lib/schemas/cohorts';
 import { cohortForManager } from '@/lib/cohorts/access';
 import { revokeInvitation } from '@/db/invitations';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; invitationId: string }> };
 
 /** Revoke an open invitation: its link stops working. */
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, COHORT_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.cohorts);
   const { id, invitationId } = await parseParams(ctx.params, invitationParamSchema);
   await cohortForManager(user, id);
   const outcome = await revokeInvitation(id, invitationId);

@@ -3,14 +3,14 @@ import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { changeoverForEditor } from '@/lib/changeovers/access';
 import { acceptCheck, withdrawCheckAcceptance } from '@/lib/changeovers/evidence-service';
-import { CHANGEOVER_ROLES } from '@/lib/changeovers/roles';
 import { acceptanceSchema, changeoverCheckParamSchema } from '@/lib/schemas/evidence';
+import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; checkId: string }> };
 
 /** Accepts a scenario's changed outcome with a written reason: who and when are recorded. */
 export const PUT = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id, checkId } = await parseParams(ctx.params, changeoverCheckParamSchema);
   const co = await changeoverForEditor(user, id);
   const { reason } = await parseJsonBody(req, acceptanceSchema);
@@ -19,7 +19,7 @@ export const PUT = apiRoute(async (req: Request, ctx: Ctx) => {
 
 /** Takes the acceptance back. */
 export const DELETE = apiRoute(async (req: Request, ctx: Ctx) => {
-  const user = await requireApiUser(req, CHANGEOVER_ROLES);
+  const user = await requireApiUser(req, ROLE_TABLE.changeovers);
   const { id, checkId } = await parseParams(ctx.params, changeoverCheckParamSchema);
   const co = await changeoverForEditor(user, id);
   await withdrawCheckAcceptance(co, checkId);
