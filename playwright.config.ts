@@ -4,13 +4,16 @@ import { CHROMIUM_LAUNCH_OPTIONS } from './tests/chromium';
 
 /**
  * Browser tests in Debian's Chromium against the built app (`next start`) on
- * 127.0.0.1:3100 with the test database, the test mail catcher (port 2526) and a job worker.
+ * 127.0.0.1:3100 with the test database, the test mail catcher (port 2526), the test S3 fake
+ * (port 4569) and a job worker.
  * scripts/test.sh builds the app and resets the test database first. The servers get
  * process.env plus `serverEnv` (Playwright merges them), so NEXT_DIST_DIR, the folder of a
  * parallel build, reaches `next start` as it is.
  */
 const PORT = Number(process.env.E2E_PORT ?? 3100);
 const SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2526);
+// The browser tests' own S3 fake (scripts/object-store.ts), emptied each run; E2E_S3_PORT for a parallel run.
+const S3_PORT = Number(process.env.E2E_S3_PORT ?? 4569);
 const BASE_URL = `http://127.0.0.1:${PORT}`;
 
 // The server runs in production mode, which refuses any secret written in the repository
@@ -27,6 +30,11 @@ const serverEnv = {
   SMTP_HOST: '127.0.0.1',
   SMTP_PORT: String(SMTP_PORT),
   NEXT_TELEMETRY_DISABLED: '1',
+  S3_ENDPOINT: `http://127.0.0.1:${S3_PORT}`,
+  S3_BUCKET: 'cellwright-e2e',
+  S3_REGION: 'us-east-1',
+  S3_ACCESS_KEY_ID: 'S3RVER',
+  S3_SECRET_ACCESS_KEY: 'S3RVER',
 };
 
 export default defineConfig({
@@ -46,6 +54,15 @@ export default defineConfig({
     launchOptions: CHROMIUM_LAUNCH_OPTIONS,
   },
   webServer: [
+    {
+      command: 'node_modules/.bin/tsx --conditions=react-server scripts/object-store.ts',
+      port: S3_PORT,
+      env: { ...serverEnv, S3_FAKE_DIR: `.local/s3-e2e-${S3_PORT}`, S3_FAKE_RESET: '1' },
+      reuseExistingServer: false,
+      timeout: 30_000,
+      stdout: 'ignore',
+      stderr: 'pipe',
+    },
     {
       command: 'node_modules/.bin/tsx --conditions=react-server scripts/mail-catcher.ts',
       port: SMTP_PORT,

@@ -78,6 +78,17 @@ const trustedProxySchema = z
     return { entries, list };
   });
 
+/** The local S3 fake's address, bucket and key outside production (scripts/object-store.ts; s3rver accepts only this key pair). */
+export const LOCAL_S3_ENDPOINT = 'http://127.0.0.1:4568';
+export const LOCAL_S3_BUCKET = 'cellwright';
+export const LOCAL_S3_KEY = 'S3RVER';
+
+/** S3 bucket names: 3–63 characters, lower-case letters, digits, dots and hyphens, a letter or digit at each end (the S3 naming rules, simplified). */
+const BUCKET_NAME = /^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/;
+
+/** An empty variable (`S3_ENDPOINT=`) counts as unset. */
+const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+
 export type TrustedProxies = z.output<typeof trustedProxySchema>;
 
 const envSchema = z
@@ -119,6 +130,23 @@ const envSchema = z
     RESET_MAX_PER_EMAIL: z.coerce.number().int().min(1).default(3),
     RESET_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(10),
     RESET_WINDOW_MINUTES: z.coerce.number().int().min(1).default(60),
+    // ---- object storage (lib/storage): drill images, printed changeover reports, run archives
+    /** The S3 API's address; unset in production means the provider's own (credentials and region decide). */
+    S3_ENDPOINT: z.preprocess(blankToUndefined, z.string().url().optional()),
+    /** The bucket every file goes to; required in production, `cellwright` elsewhere. */
+    S3_BUCKET: z.preprocess(
+      blankToUndefined,
+      z
+        .string()
+        .regex(BUCKET_NAME, 'a bucket name is 3–63 lower-case letters, digits, dots or hyphens, starting and ending with a letter or digit')
+        .optional(),
+    ),
+    S3_REGION: z.preprocess(blankToUndefined, z.string().min(1).default('us-east-1')),
+    /** Both or neither; neither in production means the SDK's own chain (instance role, shared files). */
+    S3_ACCESS_KEY_ID: z.preprocess(blankToUndefined, z.string().optional()),
+    S3_SECRET_ACCESS_KEY: z.preprocess(blankToUndefined, z.string().optional()),
+    /** Path-style addresses (`endpoint/bucket/key`), which local fakes need; default: on when S3_ENDPOINT is set. */
+    S3_FORCE_PATH_STYLE: z.preprocess(blankToUndefined, z.enum(['true', 'false']).optional()),
   })
   .transform((e, ctx) => {
     const building = e.NEXT_PHASE === BUILD_PHASE;
@@ -129,7 +157,27 @@ const envSchema = z
         return z.NEVER;
       }
     }
-    return { ...e, NEXTAUTH_SECRET: e.NEXTAUTH_SECRET || DEVELOPMENT_SECRET };
+    if (Boolean(e.S3_ACCESS_KEY_ID) !== Boolean(e.S3_SECRET_ACCESS_KEY)) {
+      ctx.addIssue({ code: 'custom', path: [e.S3_ACCESS_KEY_ID ? 'S3_SECRET_ACCESS_KEY' : 'S3_ACCESS_KEY_ID'], message: 'set both S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY, or neither' });
+      return z.NEVER;
+    }
+    const production = e.NODE_ENV === 'production';
+    if (production && !building && !e.S3_BUCKET) {
+      ctx.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'set S3_BUCKET to the bucket that keeps images, reports and archives (bash scripts/start.sh sets the local one)' });
+      return z.NEVER;
+    }
+    // Outside production the local fake (scripts/object-store.ts, started by start.sh and the tests) is the default.
+    const endpoint = e.S3_ENDPOINT ?? (production ? undefined : LOCAL_S3_ENDPOINT);
+    const localKeys = !production && !e.S3_ACCESS_KEY_ID;
+    return {
+      ...e,
+      NEXTAUTH_SECRET: e.NEXTAUTH_SECRET || DEVELOPMENT_SECRET,
+      S3_ENDPOINT: endpoint,
+      S3_BUCKET: e.S3_BUCKET ?? LOCAL_S3_BUCKET,
+      S3_ACCESS_KEY_ID: localKeys ? LOCAL_S3_KEY : e.S3_ACCESS_KEY_ID,
+      S3_SECRET_ACCESS_KEY: localKeys ? LOCAL_S3_KEY : e.S3_SECRET_ACCESS_KEY,
+      S3_FORCE_PATH_STYLE: e.S3_FORCE_PATH_STYLE ? e.S3_FORCE_PATH_STYLE === 'true' : endpoint !== undefined,
+    };
   });
 
 export type Env = z.output<typeof envSchema>;

@@ -79,6 +79,23 @@ build_app() {
   NEXT_TELEMETRY_DISABLED=1 npx next build
 }
 
+# The local S3 fake (scripts/object-store.ts, s3rver) for the bucket in S3_BUCKET at the port of
+# S3_ENDPOINT, its files in .local/s3. Started directly (not in a subshell) so OBJECT_STORE_PID is
+# tsx itself, which passes signals on; left alone when something already listens there.
+start_object_store() {
+  local port
+  port="$(node -e "process.stdout.write(new URL(process.argv[1]).port || '80')" "$S3_ENDPOINT")"
+  if port_open "$port"; then
+    log "S3 fake already listening on 127.0.0.1:$port"
+    return
+  fi
+  log "S3 fake on 127.0.0.1:$port (files in .local/s3, log in .local/log/object-store.log)"
+  mkdir -p .local/log
+  node_modules/.bin/tsx --conditions=react-server scripts/object-store.ts >>.local/log/object-store.log 2>&1 &
+  OBJECT_STORE_PID=$!
+  wait_for_port "$port" 150
+}
+
 # HTTP 2xx check with node (a fresh machine may have no curl).
 http_ok() { node -e "fetch(process.argv[1]).then((r) => process.exit(r.ok ? 0 : 1), () => process.exit(1))" "$1"; }
 

@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# Start Cellwright with demo data at http://127.0.0.1:3000 (Ctrl-C stops the app, the job worker and the
-# mail catcher; the database keeps running until `bash db/cluster.sh stop`).
+# Start Cellwright with demo data at http://127.0.0.1:3000 (Ctrl-C stops the app, the job worker, the
+# mail catcher and the S3 fake; the database keeps running until `bash db/cluster.sh stop`).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
@@ -17,6 +17,15 @@ fi
 export NEXTAUTH_SECRET
 export SMTP_HOST="${SMTP_HOST:-127.0.0.1}"
 export SMTP_PORT="${SMTP_PORT:-2525}"
+# Files (drill images, printed reports, run archives) go to a bucket through the S3 API. With no
+# bucket set, the local S3 fake (scripts/object-store.ts) serves one on loopback, its files in .local/s3.
+if [[ -z "${S3_ENDPOINT:-}" && -z "${S3_BUCKET:-}" ]]; then
+  export S3_ENDPOINT="http://127.0.0.1:4568" S3_BUCKET="cellwright" S3_REGION="us-east-1"
+  export S3_ACCESS_KEY_ID="S3RVER" S3_SECRET_ACCESS_KEY="S3RVER"
+  LOCAL_S3=1
+else
+  LOCAL_S3=0
+fi
 export NEXT_TELEMETRY_DISABLED=1
 PORT=3000
 
@@ -43,14 +52,8 @@ ensure_postgresql
 ensure_node_modules
 start_database
 
-log "migrations"
-npx tsx db/scripts/migrate.ts latest
-log "demo data"
-npx tsx db/scripts/seed.ts --quiet
-
-build_app
-
 CATCHER_PID=""
+OBJECT_STORE_PID=""
 WORKER_PID=""
 APP_PID=""
 cleanup() {
@@ -58,8 +61,19 @@ cleanup() {
   # SIGTERM: the worker lets running jobs finish for a moment, then hands them back to the queue.
   [[ -n "$WORKER_PID" ]] && kill "$WORKER_PID" 2>/dev/null || true
   [[ -n "$CATCHER_PID" ]] && kill "$CATCHER_PID" 2>/dev/null || true
+  [[ -n "$OBJECT_STORE_PID" ]] && kill "$OBJECT_STORE_PID" 2>/dev/null || true
 }
 trap cleanup EXIT INT TERM
+
+# Before the migrations: one of them moves brief images from the database into the bucket.
+if [[ "$LOCAL_S3" == "1" ]]; then start_object_store; fi
+
+log "migrations"
+npx tsx db/scripts/migrate.ts latest
+log "demo data"
+npx tsx db/scripts/seed.ts --quiet
+
+build_app
 
 if port_open "$SMTP_PORT"; then
   log "mail catcher already listening on 127.0.0.1:$SMTP_PORT"

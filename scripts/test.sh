@@ -1,6 +1,8 @@
 #!/usr/bin/env bash
 # Run every test: lint, type-check, unit, integration (real PostgreSQL, test database),
-# Playwright (Debian's Chromium). Non-zero exit on any failure.
+# Playwright (Debian's Chromium). Non-zero exit on any failure. Each runner starts its own services: the
+# integration setup and Playwright each start a mail catcher and an S3 fake (scripts/object-store.ts)
+# on their own ports, with their own emptied bucket.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 

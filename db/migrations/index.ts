@@ -12,6 +12,8 @@ import * as mJobs from './20261204_301_jobs';
 import * as mChangeovers from './20261204_401_changeovers';
 import * as mEvidence from './20261204_402_changeover_evidence';
 import * as mLiveBoard from './20261204_601_live_board';
+import * as mRecipeRole from './20261204_701_handshake_recipe_role';
+import * as mObjectStorage from './20261204_801_object_storage';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -37,6 +39,8 @@ const migrations: ReadonlyArray<readonly [string, Migration]> = [
   ['20261204_401_changeovers', mChangeovers],
   ['20261204_402_changeover_evidence', mEvidence],
   ['20261204_601_live_board', mLiveBoard],
+  ['20261204_701_handshake_recipe_role', mRecipeRole],
+  ['20261204_801_object_storage', mObjectStorage],
 ];
 
 export const migrationSource: Knex.MigrationSource<readonly [string, Migration]> = {

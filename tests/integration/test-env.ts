@@ -2,7 +2,7 @@
  * Environment for integration tests: their own database (Playwright resets
  * cellwright_test, so the two suites never pull data from under each other) and the test catcher's
  * port (2527, so a running dev catcher on 2525 or the Playwright one on 2526 never
- * receives test mail). Imported by the global setup and by every worker.
+ * receives test mail), and the test S3 fake's bucket (port 4570). Imported by the global setup and by every worker.
  */
 export const TEST_ENV = {
   NODE_ENV: 'test',
@@ -14,6 +14,12 @@ export const TEST_ENV = {
   // TEST_SMTP_PORT lets a second run (another database via TEST_DATABASE_URL) use its own catcher.
   SMTP_PORT: process.env.TEST_SMTP_PORT ?? '2527',
   MAIL_FROM: 'Cellwright tests <tests@cellwright.test>',
+  // The tests' own S3 fake (global-setup.ts starts it, emptied each run); TEST_S3_PORT for a second run beside this one.
+  S3_ENDPOINT: `http://127.0.0.1:${process.env.TEST_S3_PORT ?? '4570'}`,
+  S3_BUCKET: 'cellwright-integration',
+  S3_REGION: 'us-east-1',
+  S3_ACCESS_KEY_ID: 'S3RVER',
+  S3_SECRET_ACCESS_KEY: 'S3RVER',
 } as const;
 
 export function applyTestEnv(): void {
