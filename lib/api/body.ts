@@ -28,8 +28,17 @@ export const BODY_LIMITS = {
 
 export type BodyLimit = keyof typeof BODY_LIMITS;
 
-function tooLarge(limit: number): ApiError {
+function tooLarge(limit: number, what?: TooLarge): ApiError {
+  if (what) return new ApiError(413, what.message, { [what.field]: [`At most ${what.bytes} bytes.`] });
   return new ApiError(413, `The request body is larger than ${limit} bytes.`, { _: [`At most ${limit} bytes.`] });
+}
+
+/** How a 413 names what was too large, when it is one field of the body (an uploaded file). */
+export interface TooLarge {
+  field: string;
+  message: string;
+  /** The limit as the caller states it (the file's own cap, without the envelope). */
+  bytes: number;
 }
 
 /**
@@ -38,11 +47,11 @@ function tooLarge(limit: number): ApiError {
  * cancelled, so the rest is never buffered). A body that claims less than it sends is cut
  * at the cap all the same.
  */
-export async function readBody(req: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
+export async function readBody(req: Request, limit: number, what?: TooLarge): Promise<Uint8Array<ArrayBuffer>> {
   const declared = req.headers.get('content-length');
   if (declared !== null && Number(declared) > limit) {
     await req.body?.cancel().catch(() => undefined);
-    throw tooLarge(limit);
+    throw tooLarge(limit, what);
   }
   if (!req.body) return new Uint8Array(0);
   const reader = req.body.getReader();
@@ -54,7 +63,7 @@ export async function readBody(req: Request, limit: number): Promise<Uint8Array<
     total += value.byteLength;
     if (total > limit) {
       await reader.cancel().catch(() => undefined);
-      throw tooLarge(limit);
+      throw tooLarge(limit, what);
     }
     chunks.push(value);
   }
@@ -109,4 +118,42 @@ export function parseJsonText<S extends z.ZodType>(text: string, schema: S): z.o
     throw new ApiError(400, 'The request body must be valid JSON.');
   }
   return parseJsonValue(raw, schema);
+}
+
+/** What {@link readFormFile} reads and how its refusals are worded. */
+export interface FormFileSpec {
+  /** The form field holding the file. */
+  field: string;
+  /** The file's own cap. */
+  maxBytes: number;
+  /** The whole body's cap: the file plus its multipart framing. */
+  limit: BodyLimit;
+  /** The 413's message ("The image is larger than 1 MiB."). */
+  tooLarge: string;
+  /** The 422's field message when the field is missing ("Choose an image file."). */
+  missing: string;
+  /** The 400's message when the body is not multipart form data. */
+  notForm: string;
+}
+
+/**
+ * One file from a multipart form body: 413 naming the field past `maxBytes` (the body is cut
+ * at its `limit` as it streams, so nothing larger is buffered), 400 when the body
+ * is not multipart form data, 422 naming the field when it is missing or empty. What the file
+ * is (its type, its name) is the caller's to check.
+ */
+export async function readFormFile(req: Request, spec: FormFileSpec): Promise<File> {
+  const tooBig: TooLarge = { field: spec.field, message: spec.tooLarge, bytes: spec.maxBytes };
+  const bytes = await readBody(req, BODY_LIMITS[spec.limit], tooBig);
+  let form: FormData;
+  try {
+    form = await new Response(bytes, { headers: { 'content-type': req.headers.get('content-type') ?? '' } }).formData();
+  } catch {
+    throw new ApiError(400, spec.notForm);
+  }
+  const file = form.get(spec.field);
+  if (!file || typeof file === 'string') throw new ApiError(422, 'Some fields are not valid.', { [spec.field]: [spec.missing] });
+  if (file.size > spec.maxBytes) throw tooLarge(spec.maxBytes, tooBig);
+  if (file.size === 0) throw new ApiError(422, 'Some fields are not valid.', { [spec.field]: ['The file is empty.'] });
+  return file;
 }

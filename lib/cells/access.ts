@@ -27,6 +27,13 @@ export async function cellForOwner(user: User, id: string): Promise<CellRecord> 
   return cell;
 }
 
+/** A cell shared with the student's cohort that they may open as their own copy: 409 when it is already their own. */
+export async function sharedCellForCopy(user: User, id: string): Promise<CellRecord> {
+  const { cell, access } = await cellForReader(user, id);
+  if (access !== 'shared') throw new ApiError(409, 'This is already your own cell.');
+  return cell;
+}
+
 /** Cohorts the user may share cells with: a trainer's own cohorts; any cohort for a lead. */
 export function shareableCohorts(user: User): Promise<CohortSummary[]> {
   if (user.role === 'trainer') return listCohorts(user.id);

@@ -1,7 +1,8 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
-import { findAssignment, findDrill, isCohortMember, type Assignment, type Drill } from '@/db/drills';
+import { findAssignment, findDrill, isCohortMember, isDrillOpenedToMember, type Assignment, type Drill } from '@/db/drills';
+import { findCohort, type CohortSummary } from '@/db/cohorts';
 import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
 // The diagnosis form's catalogue (DIAGNOSIS_KINDS in lib/schemas/drills.ts) is static and not
 // sent here, so a payload search for fault kinds finds only what would be a leak.
@@ -13,6 +14,27 @@ export async function drillForAuthor(user: User, id: string): Promise<Drill> {
   const drill = await findDrill(id);
   if (!drill || (user.role !== 'admin' && drill.trainerId !== user.id)) throw new ApiError(404, 'No such drill.');
   return drill;
+}
+
+/**
+ * A drill whose brief images the user may see: its trainer, admins, and students it is
+ * assigned to once that assignment has opened (the brief is not theirs before). Anyone else
+ * gets 404, worded as for the image (`what`), so ids reveal nothing.
+ */
+export async function drillForImageReader(user: User, id: string, what = 'No such image.'): Promise<Drill> {
+  const drill = await findDrill(id);
+  if (!drill) throw new ApiError(404, what);
+  const reads = user.role === 'admin' || drill.trainerId === user.id || (user.role === 'student' && (await isDrillOpenedToMember(id, user.id)));
+  if (!reads) throw new ApiError(404, what);
+  return drill;
+}
+
+/** A cohort the user may assign drills to: 422 naming `cohortId` when it does not exist, 403 for another trainer's (admins: any). */
+export async function cohortForAssigning(user: User, cohortId: string): Promise<CohortSummary> {
+  const cohort = await findCohort(cohortId);
+  if (!cohort) throw new ApiError(422, 'Some fields are not valid.', { cohortId: ['No such cohort.'] });
+  if (user.role !== 'admin' && cohort.trainerId !== user.id) throw new ApiError(403, 'You can assign drills only to cohorts you run.');
+  return cohort;
 }
 
 /** An assignment given to a cohort the student belongs to; anything else is 404. */

@@ -2,7 +2,7 @@ import 'server-only';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
 import { findCell, getVersion } from '@/db/cells';
-import type { Drill } from '@/db/drills';
+import { drillHasRuns, updateDrillUnlessFrozen, type Drill } from '@/db/drills';
 import type { DrillInput } from '@/lib/schemas/drills';
 import { drillProblems } from './validate';
 
@@ -35,4 +35,21 @@ export function drillAsInput(d: Drill): DrillInput {
     timeLimitMs: d.timeLimitMs,
     permissions: d.permissions,
   };
+}
+
+const frozen = () => new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
+
+/**
+ * Changes a drill with the fields given (the rest stay). Once anyone has started a run its
+ * grading inputs are frozen (409), so a regrade of any stored run always gives its stored
+ * grade: duplicate the drill instead. Checked before the work and again under the row lock.
+ */
+export async function updateDrill(user: User, drill: Drill, patch: Partial<DrillInput>): Promise<Drill> {
+  if (await drillHasRuns(drill.id)) throw frozen();
+  const input: DrillInput = { ...drillAsInput(drill), ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) };
+  await checkDrillInput(user, input);
+  const updated = await updateDrillUnlessFrozen(drill.id, input);
+  if (updated === 'frozen') throw frozen();
+  if (!updated) throw new ApiError(404, 'No such drill.');
+  return updated;
 }

@@ -4,7 +4,8 @@ import type { Role } from '@/lib/roles';
 import type { User } from '@/db/users';
 import { findDrill } from '@/db/drills';
 import { canReadChangeover } from '@/lib/changeovers/access';
-import { parseSubject } from './types';
+import { getJob } from './queue';
+import { parseSubject, type JobRecord } from './types';
 import { ROLE_TABLE } from '@/lib/roles';
 
 /**
@@ -51,4 +52,14 @@ export async function canReadSubject(user: User, subject: string): Promise<boole
     if (err instanceof ApiError) return false;
     throw err;
   }
+}
+
+/**
+ * A job the user may read, for the one-job route: a job of a subject they may not read does
+ * not exist for them (404), whatever their role, so job ids reveal nothing.
+ */
+export async function jobForReader(user: User, id: string): Promise<JobRecord> {
+  const job = await getJob(id);
+  if (!job || !(await canReadSubject(user, job.subject))) throw new ApiError(404, 'No such job.');
+  return job;
 }

@@ -31,6 +31,24 @@ export async function runForReader(user: User, id: string): Promise<{ run: Run; 
   return { run, reader: 'owner', hiddenVisible: await drillSecretsVisibleToStudent(run.drillId, user.id) };
 }
 
+/**
+ * A drill run whose grade the user may override: its drill's trainer or an admin. The run's
+ * own student and practice runs get 404 (there is no grade of theirs to override), and a run
+ * not yet submitted 409 (it has no grade yet).
+ */
+export async function runForGrader(user: User, id: string): Promise<{ run: Run; reader: RunReader }> {
+  const { run, reader } = await runForReader(user, id);
+  if (reader === 'owner' || run.mode !== 'drill') throw new ApiError(404, 'No such run.');
+  if (run.status !== 'submitted') throw new ApiError(409, 'Only a submitted run has a grade to override.');
+  return { run, reader };
+}
+
+/** The run as its owner may see it now: a practice run whole, a drill run's hidden parts only once drillSecretsVisibleToStudent allows. */
+export async function ownerRunView(run: Run) {
+  const visible = run.mode === 'practice' || (await drillSecretsVisibleToStudent(run.drillId, run.userId));
+  return runView(run, visible);
+}
+
 /** Whether a student may see a drill's hidden parts: only when no assignment of it to any of their cohorts is still open or to come. */
 export async function drillSecretsVisibleToStudent(drillId: string | null, userId: string): Promise<boolean> {
   if (!drillId) return false;

@@ -56,3 +56,6 @@ export const csvImportSchema = z.object({
 export type CsvImportInput = z.input<typeof csvImportSchema>;
 
 export const exportQuerySchema = z.object({ version: z.coerce.number().int().min(1).optional() });
+
+/** A CSV export: a version (the latest when left out) and, for the point map, the live rows or the staged ones waiting for a restart. */
+export const csvExportQuerySchema = exportQuerySchema.extend({ rows: z.enum(['live', 'staged']).default('live') });

@@ -1,8 +1,8 @@
 import { apiRoute } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentState } from '@/lib/drills/access';
 import { listAssignmentsForStudent, listAssignmentsOfTrainer } from '@/db/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /**
  * Students: the drills assigned to their cohorts, each marked upcoming / open / closed, with

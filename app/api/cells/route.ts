@@ -1,11 +1,11 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { checkDocument } from '@/lib/cells/document';
 import { TEMPLATE_LABELS, templateDocument } from '@/lib/cells/templates';
 import { createCellSchema } from '@/lib/schemas/cells';
 import { createCell, listCellsSharedWithMember, listOwnedCells } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** My cells; for students also the cells shared with their cohorts (and their copies). */
 export const GET = apiRoute(async (req: Request) => {

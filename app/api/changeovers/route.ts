@@ -1,10 +1,10 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { openChangeoverFor } from '@/lib/changeovers/service';
 import { openChangeoverSchema } from '@/lib/schemas/changeovers';
 import { listChangeoversFor } from '@/db/changeovers';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** The changeovers I may read: mine, those on my cells, those I am asked to countersign (all, for the admin). */
 export const GET = apiRoute(async (req: Request) => {

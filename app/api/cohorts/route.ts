@@ -1,9 +1,9 @@
 import { apiRoute, ApiError } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { createCohortSchema } from '@/lib/schemas/cohorts';
 import { createCohort, listCohorts } from '@/db/cohorts';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** Trainers list their own cohorts; admins list all. */
 export const GET = apiRoute(async (req: Request) => {

@@ -1,10 +1,10 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { checkDrillInput } from '@/lib/drills/author';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { createDrill, listDrills } from '@/db/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** Trainers list their drills (hidden parts included: they wrote them); admins list all. */
 export const GET = apiRoute(async (req: Request) => {

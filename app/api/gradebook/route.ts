@@ -1,8 +1,8 @@
 import { apiRoute, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { buildGradebook, cohortForGradebook } from '@/lib/drills/gradebook';
 import { gradebookQuerySchema } from '@/lib/schemas/runs';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** Cohort × drill grades with per-student detail (the cohort's trainer, admins). */
 export const GET = apiRoute(async (req: Request) => {

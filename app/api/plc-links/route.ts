@@ -1,9 +1,9 @@
 import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { sessionsOf, startSession } from '@/lib/plc-link/sessions';
 import { startPlcLinkSchema } from '@/lib/plc-link/schemas';
-import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 

@@ -1,13 +1,13 @@
 import { ApiError, apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { runView } from '@/lib/runs/access';
 import { newSeed, prepareLiveRun } from '@/lib/runs/service';
 import { practiceStartSchema } from '@/lib/schemas/runs';
 import { getVersion } from '@/db/cells';
 import { createRun, listRunsOfUser } from '@/db/runs';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** The caller's own runs, newest first (drill attempts without their hidden parts, practice runs). */
 export const GET = apiRoute(async (req: Request) => {

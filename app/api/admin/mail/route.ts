@@ -1,7 +1,7 @@
 import { apiRoute } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { listMail } from '@/db/mail';
 import { ROLE_TABLE } from '@/lib/roles';
+import { listMail } from '@/db/mail';
 
 /** Admin: the newest messages captured by the local SMTP catcher. */
 export const GET = apiRoute(async (req: Request) => {

@@ -1,8 +1,8 @@
 import { apiRoute, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { userListQuerySchema } from '@/lib/schemas/admin';
 import { listUsers } from '@/db/users';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** Admin: one page of users with search, role filter and sort. */
 export const GET = apiRoute(async (req: Request) => {

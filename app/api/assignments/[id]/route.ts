@@ -1,9 +1,9 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentForStudent, studentDrillPayload } from '@/lib/drills/access';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

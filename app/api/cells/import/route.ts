@@ -1,10 +1,10 @@
-import { ApiError, apiRoute } from '@/lib/api/errors';
+import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { checkDocument, problemsToFields } from '@/lib/cells/document';
+import { ROLE_TABLE } from '@/lib/roles';
+import { fittingDocument } from '@/lib/cells/versions';
 import { importCellSchema } from '@/lib/schemas/cells';
 import { createCell } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /**
  * Import a cell document (as exported) as a new cell. A document that fails the engine's
@@ -14,15 +14,14 @@ import { ROLE_TABLE } from '@/lib/roles';
 export const POST = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, ROLE_TABLE.cells);
   const body = await parseJsonBody(req, importCellSchema, 'cell');
-  const checked = checkDocument(body.document);
-  if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));
-  const name = body.name ?? checked.document.name;
+  const { document, problems } = fittingDocument(body.document);
+  const name = body.name ?? document.name;
   const cell = await createCell({
     ownerId: user.id,
     name,
     origin: 'import',
-    document: { ...checked.document, name },
+    document: { ...document, name },
     message: 'Imported from JSON',
   });
-  return Response.json({ cell, problems: checked.problems }, { status: 201 });
+  return Response.json({ cell, problems }, { status: 201 });
 });

@@ -1,11 +1,11 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { changeoverAbilities, changeoverForEditor, changeoverForReader } from '@/lib/changeovers/access';
 import { updateChangeoverFor } from '@/lib/changeovers/service';
 import { changeoverIdParamSchema, updateChangeoverSchema } from '@/lib/schemas/changeovers';
 import { findSignedRecord, listChangeoverEvents } from '@/db/changeovers';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

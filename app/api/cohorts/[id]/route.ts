@@ -1,9 +1,9 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { idParamSchema } from '@/lib/schemas/cohorts';
 import { cohortForManager } from '@/lib/cohorts/access';
 import { getCohortDetail } from '@/db/cohorts';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

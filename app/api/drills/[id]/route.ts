@@ -1,11 +1,11 @@
-import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { drillForAuthor } from '@/lib/drills/access';
-import { checkDrillInput, drillAsInput } from '@/lib/drills/author';
-import { drillIdParamSchema, drillPatchSchema } from '@/lib/schemas/drills';
-import { deleteDrill, drillHasRuns, updateDrillUnlessFrozen } from '@/db/drills';
 import { ROLE_TABLE } from '@/lib/roles';
+import { drillForAuthor } from '@/lib/drills/access';
+import { updateDrill } from '@/lib/drills/author';
+import { drillIdParamSchema, drillPatchSchema } from '@/lib/schemas/drills';
+import { deleteDrill } from '@/db/drills';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -16,23 +16,13 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
   return Response.json({ drill: await drillForAuthor(user, id) });
 });
 
-/**
- * Change a drill. Once anyone has started a run its grading inputs are frozen (409), so a
- * regrade of any stored run always gives its stored grade: duplicate the drill instead.
- */
+/** Change a drill (lib/drills/author.ts): 409 once students have started it, 422 when it does not fit its base cell. */
 export const PATCH = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, drillIdParamSchema);
   const drill = await drillForAuthor(user, id);
   const patch = await parseJsonBody(req, drillPatchSchema, 'drill');
-  const frozen = () => new ApiError(409, 'Students have started this drill; its faults and grading can no longer change. Create a new drill instead.');
-  if (await drillHasRuns(id)) throw frozen();
-  const input = { ...drillAsInput(drill), ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) };
-  await checkDrillInput(user, input);
-  const updated = await updateDrillUnlessFrozen(id, input);
-  if (updated === 'frozen') throw frozen();
-  if (!updated) throw new ApiError(404, 'No such drill.');
-  return Response.json({ drill: updated });
+  return Response.json({ drill: await updateDrill(user, drill, patch) });
 });
 
 /** Delete (soft): runs and grades stay in the gradebook. */

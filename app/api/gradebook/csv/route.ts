@@ -1,8 +1,8 @@
 import { apiRoute, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { buildGradebook, cohortForGradebook, gradebookCsv } from '@/lib/drills/gradebook';
 import { gradebookQuerySchema } from '@/lib/schemas/runs';
-import { ROLE_TABLE } from '@/lib/roles';
 
 /** The gradebook as a CSV download. */
 export const GET = apiRoute(async (req: Request) => {

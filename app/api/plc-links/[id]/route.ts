@@ -1,8 +1,8 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { sessionForOwner, stopOwnSession, viewOf } from '@/lib/plc-link/sessions';
 import { plcLinkIdParamSchema } from '@/lib/plc-link/schemas';
-import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 type Ctx = { params: Promise<{ id: string }> };

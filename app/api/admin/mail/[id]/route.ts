@@ -1,8 +1,8 @@
 import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { mailIdParamSchema } from '@/lib/schemas/admin';
 import { getMail } from '@/db/mail';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

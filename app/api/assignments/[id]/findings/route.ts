@@ -1,11 +1,11 @@
 import { apiRoute, ApiError, parseParams, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentState } from '@/lib/drills/access';
 import { assignmentForWatcher } from '@/lib/live/board';
 import { buildFindings, findingsCsv } from '@/lib/live/findings';
 import { findingsQuerySchema } from '@/lib/schemas/live';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

@@ -1,8 +1,8 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentForWatcher, loadBoard } from '@/lib/live/board';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

@@ -1,13 +1,13 @@
 import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentForStudent } from '@/lib/drills/access';
 import { assignmentForWatcher } from '@/lib/live/board';
 import { runMessageSchema } from '@/lib/schemas/live';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
 import { cohortStudents } from '@/db/drills';
 import { insertRunMessage, listMessagesForStudent } from '@/db/live';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

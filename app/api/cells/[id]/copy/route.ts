@@ -1,9 +1,9 @@
-import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
-import { cellForReader } from '@/lib/cells/access';
+import { ROLE_TABLE } from '@/lib/roles';
+import { sharedCellForCopy } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
 import { openStudentCopy } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -14,8 +14,7 @@ type Ctx = { params: Promise<{ id: string }> };
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, ROLE_TABLE.copySharedCells);
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
-  const { cell, access } = await cellForReader(user, id);
-  if (access !== 'shared') throw new ApiError(409, 'This is already your own cell.');
+  const cell = await sharedCellForCopy(user, id);
   const copy = await openStudentCopy(cell, user.id);
   return Response.json({ cell: copy.cell }, { status: copy.created ? 201 : 200 });
 });

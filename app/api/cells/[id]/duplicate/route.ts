@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellIdParamSchema, duplicateCellSchema } from '@/lib/schemas/cells';
 import { createCell, getVersion } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

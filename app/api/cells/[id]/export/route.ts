@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams, parseQuery } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { downloadName } from '@/lib/cells/download';
 import { cellIdParamSchema, exportQuerySchema } from '@/lib/schemas/cells';
 import { getVersion } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

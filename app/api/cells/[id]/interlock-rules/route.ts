@@ -1,11 +1,11 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
 import { interlockRuleInputSchema } from '@/lib/schemas/evidence';
 import { createInterlockRule, listInterlockRules, MAX_RULES_PER_CELL } from '@/db/interlock-rules';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

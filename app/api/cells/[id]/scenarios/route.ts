@@ -1,12 +1,12 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { addScenario } from '@/lib/changeovers/scenario-service';
 import { cellIdParamSchema } from '@/lib/schemas/cells';
 import { scenarioInputSchema } from '@/lib/schemas/evidence';
 import { listScenarios } from '@/db/scenarios';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

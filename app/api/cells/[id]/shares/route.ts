@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner, cohortForSharing, shareableCohorts } from '@/lib/cells/access';
 import { cellIdParamSchema, shareCellSchema } from '@/lib/schemas/cells';
 import { listShares, shareCell } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

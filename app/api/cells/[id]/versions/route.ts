@@ -1,11 +1,11 @@
-import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { cellForOwner, cellForReader } from '@/lib/cells/access';
-import { checkDocument, problemsToFields } from '@/lib/cells/document';
-import { cellIdParamSchema, saveVersionSchema } from '@/lib/schemas/cells';
-import { listVersions, saveVersion } from '@/db/cells';
 import { ROLE_TABLE } from '@/lib/roles';
+import { cellForOwner, cellForReader } from '@/lib/cells/access';
+import { saveCellDocument } from '@/lib/cells/versions';
+import { cellIdParamSchema, saveVersionSchema } from '@/lib/schemas/cells';
+import { listVersions } from '@/db/cells';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -18,9 +18,9 @@ export const GET = apiRoute(async (req: Request, ctx: Ctx) => {
 });
 
 /**
- * Save a new version on top of `baseVersion`. 409 `{ error, latestVersion }` when someone
- * saved in between (nothing is written; the client still holds its document); 422 with
- * every problem's path when the document does not fit the cell schema. Cross-reference
+ * Save a new version on top of `baseVersion` (lib/cells/versions.ts). 409 `{ error, latestVersion }`
+ * when someone saved in between (nothing is written; the client still holds its document); 422
+ * with every problem's path when the document does not fit the cell schema. Cross-reference
  * problems do not block a save: they come back as `problems`.
  */
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
@@ -28,15 +28,6 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const { id } = await parseParams(ctx.params, cellIdParamSchema);
   await cellForOwner(user, id);
   const body = await parseJsonBody(req, saveVersionSchema, 'cell');
-  const checked = checkDocument(body.document);
-  if (!checked.ok) throw new ApiError(422, 'The cell document does not fit the cell schema.', problemsToFields(checked.problems));
-  const result = await saveVersion(id, user.id, body.baseVersion, checked.document, body.message);
-  if (!result.ok && result.reason === 'missing') throw new ApiError(404, 'No such cell.');
-  if (!result.ok) {
-    return Response.json(
-      { error: `Someone saved version ${result.latestVersion} after the version you started from. Your changes were not saved; reload or keep a copy.`, latestVersion: result.latestVersion },
-      { status: 409, headers: { 'cache-control': 'no-store' } },
-    );
-  }
-  return Response.json({ version: result.version, problems: checked.problems }, { status: 201 });
+  const { version, problems } = await saveCellDocument(id, user.id, body);
+  return Response.json({ version, problems }, { status: 201 });
 });

@@ -1,8 +1,8 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { csvTemplate } from '@/lib/cells/csv';
 import { csvTemplateParamSchema } from '@/lib/schemas/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ kind: string }> };
 

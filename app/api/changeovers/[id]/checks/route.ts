@@ -1,9 +1,9 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { changeoverForEditor } from '@/lib/changeovers/access';
 import { startEvidenceJob } from '@/lib/changeovers/evidence-service';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

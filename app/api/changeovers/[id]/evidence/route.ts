@@ -1,11 +1,11 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { changeoverAbilities, changeoverForReader } from '@/lib/changeovers/access';
 import { loadEvidenceDetail } from '@/lib/changeovers/evidence';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
 import { listInterlockRules } from '@/db/interlock-rules';
 import { listScenarios } from '@/db/scenarios';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

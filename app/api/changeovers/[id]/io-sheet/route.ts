@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { downloadName } from '@/lib/cells/download';
 import { changeoverForReader } from '@/lib/changeovers/access';
 import { changeoverIoSheet } from '@/lib/changeovers/diff';
 import { changeoverIdParamSchema } from '@/lib/schemas/changeovers';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

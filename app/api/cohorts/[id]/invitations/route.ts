@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { idParamSchema, inviteSchema } from '@/lib/schemas/cohorts';
 import { cohortForManager } from '@/lib/cohorts/access';
 import { inviteAddresses } from '@/lib/cohorts/invite';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

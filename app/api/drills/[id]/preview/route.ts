@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { drillForAuthor } from '@/lib/drills/access';
 import { drillIdParamSchema, DIAGNOSIS_KINDS } from '@/lib/schemas/drills';
 import { getVersion } from '@/db/cells';
 import { listAssets } from '@/db/drill-assets';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

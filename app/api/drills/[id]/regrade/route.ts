@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { drillForAuthor } from '@/lib/drills/access';
 import { enqueueJob, isFinished, listJobs, subjectOf } from '@/lib/jobs';
 import type { DrillRegradePayload } from '@/lib/drills/regrade-report';
 import { drillIdParamSchema } from '@/lib/schemas/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

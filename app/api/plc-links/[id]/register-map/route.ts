@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { downloadName } from '@/lib/cells/download';
 import { registerMapCsv } from '@/lib/plc-link/register-map';
 import { sessionForOwner, sessionMap } from '@/lib/plc-link/sessions';
 import { plcLinkIdParamSchema } from '@/lib/plc-link/schemas';
-import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 type Ctx = { params: Promise<{ id: string }> };

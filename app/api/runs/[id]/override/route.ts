@@ -1,10 +1,10 @@
-import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { runForReader, runView } from '@/lib/runs/access';
+import { ROLE_TABLE } from '@/lib/roles';
+import { runForGrader, runView } from '@/lib/runs/access';
 import { overrideSchema, runIdParamSchema } from '@/lib/schemas/runs';
 import { findRun, overrideGrade } from '@/db/runs';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -15,9 +15,7 @@ type Ctx = { params: Promise<{ id: string }> };
 export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const user = await requireApiUser(req, ROLE_TABLE.drills);
   const { id } = await parseParams(ctx.params, runIdParamSchema);
-  const { run, reader } = await runForReader(user, id);
-  if (reader === 'owner' || run.mode !== 'drill') throw new ApiError(404, 'No such run.');
-  if (run.status !== 'submitted') throw new ApiError(409, 'Only a submitted run has a grade to override.');
+  const { run, reader } = await runForGrader(user, id);
   const body = await parseJsonBody(req, overrideSchema);
   await overrideGrade(run, body.grade, body.reason, user.id);
   return Response.json({ run: runView((await findRun(run.id))!, true, reader) });

@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { keepRunAsScenario } from '@/lib/changeovers/scenario-service';
 import { keepScenarioSchema } from '@/lib/schemas/evidence';
 import { runIdParamSchema } from '@/lib/schemas/runs';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string }> };
 

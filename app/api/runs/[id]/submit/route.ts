@@ -1,7 +1,7 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
-import { drillSecretsVisibleToStudent, runForOwner, runView } from '@/lib/runs/access';
+import { ownerRunView, runForOwner } from '@/lib/runs/access';
 import { submit } from '@/lib/runs/service';
 import { runIdParamSchema, submitSchema } from '@/lib/schemas/runs';
 
@@ -17,6 +17,5 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const run = await runForOwner(user, id);
   const body = await parseJsonBody(req, submitSchema);
   const done = await submit(run, body.diagnosis ?? null);
-  const visible = done.mode === 'practice' || (await drillSecretsVisibleToStudent(done.drillId, user.id));
-  return Response.json({ run: runView(done, visible) });
+  return Response.json({ run: await ownerRunView(done) });
 });

@@ -1,9 +1,9 @@
 import { apiRoute, busy, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentForWatcher, boardStream } from '@/lib/live/board';
 import { liveStreamCapacity } from '@/lib/live/sse';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 

@@ -1,10 +1,10 @@
 import { apiRoute, busy, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { assignmentForStudent } from '@/lib/drills/access';
 import { studentMessageStream } from '@/lib/live/messages';
 import { liveStreamCapacity } from '@/lib/live/sse';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
-import { ROLE_TABLE } from '@/lib/roles';
 
 export const dynamic = 'force-dynamic';
 

@@ -1,10 +1,10 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellRuleParamSchema, interlockRuleInputSchema } from '@/lib/schemas/evidence';
 import { deleteInterlockRule, updateInterlockRule } from '@/db/interlock-rules';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; ruleId: string }> };
 

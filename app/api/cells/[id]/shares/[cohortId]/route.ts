@@ -1,9 +1,9 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForOwner } from '@/lib/cells/access';
 import { cellShareParamSchema } from '@/lib/schemas/cells';
 import { listShares, unshareCell } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; cohortId: string }> };
 

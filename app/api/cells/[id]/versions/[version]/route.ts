@@ -1,9 +1,9 @@
 import { ApiError, apiRoute, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { cellForReader } from '@/lib/cells/access';
 import { cellVersionParamSchema } from '@/lib/schemas/cells';
 import { getVersion } from '@/db/cells';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; version: string }> };
 

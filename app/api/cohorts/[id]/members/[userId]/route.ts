@@ -1,9 +1,9 @@
 import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { memberParamSchema } from '@/lib/schemas/cohorts';
 import { cohortForManager } from '@/lib/cohorts/access';
 import { removeMember } from '@/db/cohorts';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; userId: string }> };
 

@@ -1,10 +1,10 @@
 import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
+import { ROLE_TABLE } from '@/lib/roles';
 import { changeoverForEditor } from '@/lib/changeovers/access';
 import { acceptCheck, withdrawCheckAcceptance } from '@/lib/changeovers/evidence-service';
 import { acceptanceSchema, changeoverCheckParamSchema } from '@/lib/schemas/evidence';
-import { ROLE_TABLE } from '@/lib/roles';
 
 type Ctx = { params: Promise<{ id: string; checkId: string }> };
 
