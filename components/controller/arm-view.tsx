@@ -9,21 +9,14 @@ import { useMemo } from 'react';
 import type { CellDocument } from '@/simulator';
 
 type Pose = CellDocument['controller']['poses'][number];
-import { useSnapshot, shallowEqual } from '@/components/workspace/contract';
+import { useArmState } from './use-controller';
 import { armGeometry, fitView, labelPlacement } from './arm-geometry';
 
 const W = 420;
 const H = 260;
 
 export function ArmView({ poses, homePose }: { poses: readonly Pose[]; homePose: string }) {
-  const pose = useSnapshot((s) => s.arm.pose, shallowEqual);
-  const target = useSnapshot((s) => s.arm.target);
-  const moving = useSnapshot((s) => s.arm.moving);
-  const gripper =
-    useSnapshot((s) => {
-      const g = s.devices.find((d) => d.type === 'gripper' || d.type === 'vacuum-cup');
-      return g ? (g.travel ?? (g.command ? 1 : 0)) : null;
-    }) ?? null;
+  const { pose, target, moving, gripper } = useArmState();
   const home = poses.find((p) => p.id === homePose)?.coordinates ?? [0, 0];
   const tool = pose && pose.length > 0 ? pose : home;
   const view = useMemo(() => fitView(poses.map((p) => p.coordinates), W, H), [poses]);

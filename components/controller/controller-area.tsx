@@ -1,21 +1,18 @@
 'use client';
 /**
  * The Controller area: the robot controller's state, alarms and handshake signals; its
- * modules in racks and slots; the point map with staged edits and the restart that applies
- * them; the routine as step rows; the taught poses; and a 2D view of the arm.
+ * modules as racks of slot cards with the point map's ranges edited on them (staged until the
+ * controller reboots); the routine as step rows; the taught poses; and a 2D view of the arm.
+ * Its one hook over the store is use-controller.ts.
  */
-import { useCallback, useMemo } from 'react';
 import { Power } from 'lucide-react';
-import { parsePointRef, resolvePointMap, type CellDocument, type PointMapRow, type RoutineStep } from '@/simulator';
-import { useCanEdit, useCellDocument, useEditDocument, useSendEvent, useSnapshot, shallowEqual } from '@/components/workspace/contract';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/components/ui/cn';
 import { RackView } from './rack-view';
-import { PointMapTable } from './point-map-table';
-import { rowConflicts } from './point-map-state';
 import { RoutineEditor } from './routine-editor';
 import { PosesTable } from './poses-table';
 import { ArmView } from './arm-view';
+import { useController, useControllerStatus } from './use-controller';
 
 const STATE_WORDS: Record<string, string> = {
   off: 'Off',
@@ -30,7 +27,7 @@ const STATE_WORDS: Record<string, string> = {
 
 function Section({ title, children, className, testId }: { title: string; children: React.ReactNode; className?: string; testId?: string }) {
   return (
-    <section className={cn('rounded-md border border-slate-200 bg-white p-3', className)} aria-label={title} data-testid={testId}>
+    <section className={cn('min-w-0 overflow-x-auto rounded-md border border-slate-200 bg-white p-3', className)} aria-label={title} data-testid={testId}>
       <h3 className="mb-2 text-sm font-semibold text-slate-800">{title}</h3>
       {children}
     </section>
@@ -53,17 +50,7 @@ function Signal({ name, on, point }: { name: string; on: boolean | undefined; po
 }
 
 function ControllerStatus({ handshakeInputs }: { handshakeInputs: Record<string, string | undefined> }) {
-  const send = useSendEvent();
-  const canEdit = useCanEdit();
-  const state = useSnapshot((s) => s.controller.state);
-  const detail = useSnapshot((s) => s.controller.detail);
-  const powered = useSnapshot((s) => s.controller.powered);
-  const servo = useSnapshot((s) => s.controller.servoOn);
-  const hold = useSnapshot((s) => s.controller.holdReason);
-  const cycles = useSnapshot((s) => s.controller.cyclesCompleted);
-  const alarms = useSnapshot((s) => s.controller.alarms, shallowEqual);
-  const outputs = useSnapshot((s) => s.controller.handshake, shallowEqual);
-  const points = useSnapshot((s) => s.controller.points, shallowEqual);
+  const { canEdit, state, detail, powered, servo, hold, cycles, alarms, outputs, points, power } = useControllerStatus();
   const pointValue = (ref: string | undefined) => (ref ? points?.find((p) => p.ref === ref)?.value : undefined);
 
   return (
@@ -77,7 +64,7 @@ function ControllerStatus({ handshakeInputs }: { handshakeInputs: Record<string,
           power {powered ? 'on' : 'off'} · servo {servo ? 'on' : 'off'}
           {hold ? ` · holding for ${hold === 'guard' ? 'open guard' : 'stop request'}` : ''} · cycles {cycles ?? 0}
         </span>
-        <Button variant="secondary" disabled={!canEdit || powered === undefined} onClick={() => send({ type: 'power-controller', on: !powered })} className="ml-auto">
+        <Button variant="secondary" disabled={!canEdit || powered === undefined} onClick={() => power(!powered)} className="ml-auto">
           <Power aria-hidden className="h-4 w-4" /> {powered ? 'Power off' : 'Power on'}
         </Button>
       </div>
@@ -118,109 +105,27 @@ function ControllerStatus({ handshakeInputs }: { handshakeInputs: Record<string,
 }
 
 export default function ControllerArea() {
-  const doc = useCellDocument();
-  const editDocument = useEditDocument();
-  const send = useSendEvent();
-  const canEdit = useCanEdit();
-  const c = doc.controller;
-  // What runs now comes from the engine; before the first snapshot, the document's live map.
-  const runningMap = useSnapshot((s) => s.controller.pointMap);
-  const live = runningMap ?? c.pointMap;
-  const staged = c.staged;
-
-  const stage = useCallback(
-    (rows: PointMapRow[], label: string) => {
-      const unchanged = JSON.stringify(rows) === JSON.stringify(live);
-      // The run keeps its map: the engine only records the staged rows, and the document keeps them for saving.
-      editDocument(
-        (d) => {
-          d.controller.staged = unchanged ? null : rows;
-        },
-        label,
-        { engine: 'keep' },
-      );
-      if (unchanged) send({ type: 'discard-staged' });
-      else if (rowConflicts(rows, c.modules).size === 0) send({ type: 'stage-point-map', rows });
-    },
-    [editDocument, send, live, c.modules],
-  );
-
-  const discard = useCallback(() => {
-    editDocument(
-      (d) => {
-        d.controller.staged = null;
-      },
-      'Discard staged point-map rows',
-      { engine: 'keep' },
-    );
-    send({ type: 'discard-staged' });
-  }, [editDocument, send]);
-
-  const restart = useCallback(() => {
-    if (staged) {
-      // Re-send the staged rows first so the engine applies exactly what the table shows.
-      send({ type: 'stage-point-map', rows: staged });
-      send({ type: 'restart-controller' });
-      editDocument(
-        (d) => {
-          if (d.controller.staged) d.controller.pointMap = d.controller.staged;
-          d.controller.staged = null;
-        },
-        'Restart controller: apply staged point map',
-        { engine: 'keep' },
-      );
-    } else {
-      send({ type: 'restart-controller' });
-    }
-  }, [staged, send, editDocument]);
-
-  const points = useMemo(() => {
-    const refs = [...resolvePointMap(live).byRef.keys()];
-    const isInput = (r: string) => {
-      const p = parsePointRef(r);
-      return p ? p.input : false;
-    };
-    return { inputs: refs.filter(isInput), outputs: refs.filter((r) => !isInput(r)) };
-  }, [live]);
-
-  const setRoutine = useCallback(
-    (routine: RoutineStep[], label: string) =>
-      editDocument((d) => {
-        d.controller.routine = routine;
-      }, label),
-    [editDocument],
-  );
-  const setPoses = useCallback(
-    (poses: CellDocument['controller']['poses'], label: string) =>
-      editDocument((d) => {
-        d.controller.poses = poses;
-      }, label),
-    [editDocument],
-  );
-
+  const { controller: c, canEdit, live, staged, stagePointMap, discardStaged, restartController, points, setRoutine, setPoses } = useController();
   return (
-    <div className="space-y-3" data-testid="controller-area">
+    <div className="min-w-0 space-y-3" data-testid="controller-area">
       <Section title="Controller">
         <ControllerStatus handshakeInputs={c.handshake.inputs as Record<string, string | undefined>} />
       </Section>
-      <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_minmax(0,520px)]">
-        <Section title="Modules">
-          <RackView modules={c.modules} rows={live} />
-        </Section>
-        <Section title="Arm">
-          <ArmView poses={c.poses} homePose={c.homePose} />
-        </Section>
-      </div>
-      <Section title="Point map" testId="point-map-section">
-        <PointMapTable live={live} staged={staged} modules={c.modules} canEdit={canEdit} onStage={stage} onDiscard={discard} onRestart={restart} />
+      <Section title="Modules and point map" testId="point-map-section">
+        <RackView modules={c.modules} live={live} staged={staged} canEdit={canEdit} onStage={stagePointMap} onDiscard={discardStaged} onReboot={restartController} />
       </Section>
       <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_minmax(0,520px)]">
         <Section title="Routine">
           <RoutineEditor steps={c.routine} inputPoints={points.inputs} outputPoints={points.outputs} poses={c.poses.map((p) => p.id)} canEdit={canEdit} onChange={setRoutine} />
         </Section>
-        <Section title="Poses">
-          <PosesTable poses={c.poses} axes={c.axes} homePose={c.homePose} canEdit={canEdit} onChange={setPoses} />
-        </Section>
+        <div className="min-w-0 space-y-3">
+          <Section title="Arm">
+            <ArmView poses={c.poses} homePose={c.homePose} />
+          </Section>
+          <Section title="Poses">
+            <PosesTable poses={c.poses} axes={c.axes} homePose={c.homePose} canEdit={canEdit} onChange={setPoses} />
+          </Section>
+        </div>
       </div>
     </div>
   );

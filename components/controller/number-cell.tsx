@@ -5,7 +5,7 @@
  * `integer` cells (point-map rows) take whole numbers in [min, max]; decimal cells (poses)
  * take finite numbers in [min, max], or above `min` with `exclusiveMin`.
  */
-import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useTextDraft } from '@/components/workspace/use-text-draft';
 import { cn } from '@/components/ui/cn';
 
 type Props = {
@@ -34,7 +34,7 @@ export function acceptedNumber(text: string, { min, max, integer, exclusiveMin }
 
 export function NumberCell(props: Props) {
   const { label, value, disabled, onCommit, integer, className } = props;
-  const [text, setText] = useDraft(String(value));
+  const [text, setText] = useTextDraft(String(value));
   const commit = () => {
     const n = acceptedNumber(text, props);
     if (n === null) return setText(String(value));

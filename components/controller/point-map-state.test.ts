@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { ControllerModule, PointMapRow } from '@/simulator';
-import { canApplyStaged, pointMapView, rowChannels, rowConflicts } from './point-map-state';
+import { canApplyStaged, newRangeAt, pointMapView, rowChannels, rowConflicts } from './point-map-state';
 import { moveStep, defaultStep } from './routine-steps';
 import { armGeometry } from './arm-geometry';
 
@@ -15,39 +15,44 @@ const live: PointMapRow[] = [
 ];
 
 describe('pointMapView', () => {
-  it('shows every row live when nothing is staged', () => {
+  it('shows every range in force when nothing is staged', () => {
     const v = pointMapView(live, null, modules);
-    expect(v.map((x) => x.state)).toEqual(['live', 'live', 'live']);
-    expect(v[1].explanation[0]).toBe('WI1 on rack 0 slot 1 channels 8–11, running now');
+    expect(v.map((x) => x.state)).toEqual(['in-force', 'in-force', 'in-force']);
+    expect(v[1].explanation[0]).toBe('WI1 on rack 0 slot 1 channels 8–11, in force now');
     expect(canApplyStaged(v, null)).toBe(false);
   });
-  it('marks a changed row staged and says what changed', () => {
+  it('marks a changed range as waiting for the reboot and says what changed', () => {
     const staged = live.map((r) => (r.id === 'r-do' ? { ...r, firstChannel: 8 } : r));
     const v = pointMapView(live, staged, modules);
-    expect(v.map((x) => x.state)).toEqual(['live', 'live', 'staged']);
+    expect(v.map((x) => x.state)).toEqual(['in-force', 'in-force', 'waiting']);
     expect(v[2].explanation.join('; ')).toContain('first channel 0 → 8');
     expect(canApplyStaged(v, staged)).toBe(true);
   });
-  it('explains a channel overlap with the other row number and the shared channels', () => {
-    // DI row grown to 10 points covers channels 0–9; the WI row uses 8–11 → shared 8–9.
+  it('explains a channel clash with the other range and the shared channels', () => {
+    // DI range grown to 10 points covers channels 0–9; the WI range uses 8–11 → shared 8–9.
     const staged = live.map((r) => (r.id === 'r-di' ? { ...r, count: 10 } : r));
     const v = pointMapView(live, staged, modules);
-    expect(v[0].state).toBe('conflict');
-    expect(v[0].explanation).toContain('overlaps row 2 on rack 0 slot 1 channels 8–9');
-    expect(v[1].explanation).toContain('overlaps row 1 on rack 0 slot 1 channels 8–9');
+    expect(v[0].state).toBe('clash');
+    expect(v[0].explanation).toContain('shares channels 8–9 of rack 0 slot 1 with WI1');
+    expect(v[1].explanation).toContain('shares channels 8–9 of rack 0 slot 1 with DI1–DI10');
     expect(canApplyStaged(v, staged)).toBe(false);
   });
-  it('lists removed rows as staged removals and added rows as new', () => {
+  it('lists removed ranges as waiting removals and added ranges as new', () => {
     const staged = [live[0], live[1], { ...live[2], id: 'r-do2' }];
     const v = pointMapView(live, staged, modules);
     expect(v.find((x) => x.row.id === 'r-do2')?.change).toBe('added');
-    expect(v.find((x) => x.row.id === 'r-do')).toMatchObject({ state: 'staged', change: 'removed' });
+    expect(v.find((x) => x.row.id === 'r-do')).toMatchObject({ state: 'waiting', change: 'removed' });
   });
   it('reports a wrong module type and a row beyond the module', () => {
     const c = rowConflicts([{ id: 'x', family: 'DO', first: 1, count: 20, rack: 0, slot: 1, firstChannel: 0 }], modules);
     const words = c.get(0) ?? [];
-    expect(words.some((w) => w.includes('DO points need a digital-out module'))).toBe(true);
+    expect(words.some((w) => w.includes('digital out points need a digital-out module'))).toBe(true);
     expect(words.some((w) => w.includes('needs channels 0–19 but the module has channels 0–15'))).toBe(true);
+  });
+  it('starts a new range at the next free point and the first free channel of its slot', () => {
+    // r-di uses channels 0–5 and r-wi 8–11 of rack 0 slot 1: channel 6 is the first free one; DI1–DI6 are taken.
+    expect(newRangeAt(live, modules[0], 'DI', 'pm-1')).toEqual({ id: 'pm-1', family: 'DI', first: 7, count: 1, rack: 0, slot: 1, firstChannel: 6 });
+    expect(newRangeAt(live, modules[0], 'WI', 'pm-2')).toMatchObject({ first: 2, bits: 8, encoding: 'binary' });
   });
   it('counts word rows as bits × points channels', () => {
     expect(rowChannels({ id: 'w', family: 'WO', first: 1, count: 2, rack: 0, slot: 2, firstChannel: 4, bits: 4 })).toEqual([4, 11]);

@@ -1,23 +1,44 @@
 /**
- * The point-map table's view model: every row with its state (live, staged, conflict) and
- * an explanation in words. Pure, so the wording and the states are unit-tested.
+ * The point map's view model, as the rack view's slot cards show it: every range (point-map row)
+ * with its state and an explanation in words. Pure, so the wording and the states are unit-tested.
  *
- * - live: the row runs now and no edit of it waits.
- * - staged: the row differs from the running map (added, changed or removed) and waits for a
- *   controller restart (DESIGN.md: point-map changes take effect only after a restart).
- * - conflict: the row, as it would run after the restart, clashes with another row or with
- *   the modules; the engine refuses to stage such a map, so restart stays blocked.
+ * - in-force: the range runs now and no edit of it waits.
+ * - waiting: the range differs from the running map (added, changed or removed) and waits for the
+ *   controller's reboot (DESIGN.md: point-map changes take effect only after a restart).
+ * - clash: the range, as it would run after the reboot, clashes with another range or with the
+ *   modules; the engine refuses to stage such a map, so the reboot stays blocked.
  */
 import { validatePointMap, channelsPerPoint, FAMILY_MODULE_TYPE } from '@/simulator';
 import type { ControllerModule, PointMapRow } from '@/simulator';
 
-export type RowState = 'live' | 'staged' | 'conflict';
+export type RowState = 'in-force' | 'waiting' | 'clash';
 export type RowChange = 'added' | 'changed' | 'removed' | null;
+
+/** A range's state in our words. */
+export const STATE_WORDS: Record<RowState, string> = { 'in-force': 'in force', waiting: 'waits for reboot', clash: 'clash' };
+
+export type PointFamily = PointMapRow['family'];
+
+/** Point families in words (DESIGN.md: shown in words, the short code only where space is tight). */
+export const FAMILY_WORDS: Record<PointFamily, string> = {
+  DI: 'digital in',
+  DO: 'digital out',
+  AI: 'analog in',
+  AO: 'analog out',
+  WI: 'word in',
+  WO: 'word out',
+  TI: 'tool in',
+  TO: 'tool out',
+};
+export const FAMILIES = Object.keys(FAMILY_WORDS) as PointFamily[];
+
+/** The families a module of this type can carry (a digital module carries bits and grouped words). */
+export function familiesFor(type: ControllerModule['type']): PointFamily[] {
+  return FAMILIES.filter((f) => FAMILY_MODULE_TYPE[f] === type);
+}
 
 export type PointMapRowView = {
   row: PointMapRow;
-  /** 1-based position in the table, as people count rows. */
-  number: number;
   state: RowState;
   change: RowChange;
   /** Sentences explaining the state, first the most important. */
@@ -34,7 +55,7 @@ export function rowChannels(row: PointMapRow): [number, number] {
   return [row.firstChannel, row.firstChannel + row.count * channelsPerPoint(row) - 1];
 }
 
-/** The logical points of a row in words: "DI1–DI6" or "WI1". */
+/** The logical points of a range: "DI1–DI6" or "WI1". */
 export function rowPoints(row: PointMapRow): string {
   const last = row.first + row.count - 1;
   return last === row.first ? `${row.family}${row.first}` : `${row.family}${row.first}–${row.family}${last}`;
@@ -89,14 +110,14 @@ export function rowConflicts(rows: readonly PointMapRow[], modules: readonly Con
         const [b0, b1] = rowChannels(b);
         const lo = Math.max(a0, b0);
         const hi = Math.min(a1, b1);
-        if (lo <= hi) add(i, `overlaps row ${j + 1} on rack ${a.rack} slot ${a.slot} channels ${channelRange(lo, hi)}`);
+        if (lo <= hi) add(i, `shares channels ${channelRange(lo, hi)} of rack ${a.rack} slot ${a.slot} with ${rowPoints(b)}`);
       }
       if (a.family === b.family) {
         const lo = Math.max(a.first, b.first);
         const hi = Math.min(a.first + a.count - 1, b.first + b.count - 1);
         if (lo <= hi) {
           const pts = lo === hi ? `${a.family}${lo}` : `${a.family}${lo}–${a.family}${hi}`;
-          add(i, `maps ${pts}, which row ${j + 1} maps too`);
+          add(i, `${pts} also mapped by the range ${rowPoints(b)} on rack ${b.rack} slot ${b.slot}`);
         }
       }
     }
@@ -113,7 +134,7 @@ export function rowConflicts(rows: readonly PointMapRow[], modules: readonly Con
         break;
       case 'family_module_mismatch': {
         const mod = modules.find((m) => m.rack === row.rack && m.slot === row.slot);
-        add(i, `${row.family} points need a ${FAMILY_MODULE_TYPE[row.family]} module; rack ${row.rack} slot ${row.slot} holds ${mod?.type ?? 'another type'}`);
+        add(i, `${FAMILY_WORDS[row.family]} points need a ${FAMILY_MODULE_TYPE[row.family]} module; rack ${row.rack} slot ${row.slot} holds ${mod?.type ?? 'another type'}`);
         break;
       }
       case 'beyond_capacity': {
@@ -130,8 +151,8 @@ export function rowConflicts(rows: readonly PointMapRow[], modules: readonly Con
 }
 
 /**
- * Builds the table: the rows as they will run after the next restart (staged, or live when
- * nothing is staged), then the rows the staged edit removes. `live` is what runs now.
+ * Builds the view: the ranges as they will run after the next reboot (staged, or live when
+ * nothing is staged), then the ranges the staged edit removes. `live` is what runs now.
  */
 export function pointMapView(live: readonly PointMapRow[], staged: readonly PointMapRow[] | null, modules: readonly ControllerModule[]): PointMapRowView[] {
   const next = staged ?? live;
@@ -146,20 +167,19 @@ export function pointMapView(live: readonly PointMapRow[], staged: readonly Poin
       else if (!sameRow(before, row)) change = 'changed';
     }
     const changeWords =
-      change === 'added' ? ['new row'] : change === 'changed' && before ? [`changed: ${describeChange(before, row).join(', ')}`] : [];
+      change === 'added' ? ['new range'] : change === 'changed' && before ? [`changed: ${describeChange(before, row).join(', ')}`] : [];
     if (clash) {
-      return { row, number: i + 1, state: 'conflict', change, explanation: [...clash, ...changeWords, 'restart is blocked until this is fixed'] };
+      return { row, state: 'clash', change, explanation: [...clash, ...changeWords, 'the reboot waits until this is fixed'] };
     }
     if (change) {
-      return { row, number: i + 1, state: 'staged', change, explanation: [...changeWords, 'takes effect when the controller restarts'] };
+      return { row, state: 'waiting', change, explanation: [...changeWords, 'in force once the controller reboots'] };
     }
     const [c0, c1] = rowChannels(row);
     return {
       row,
-      number: i + 1,
-      state: 'live',
+      state: 'in-force',
       change: null,
-      explanation: [`${rowPoints(row)} on rack ${row.rack} slot ${row.slot} channels ${channelRange(c0, c1)}, running now`],
+      explanation: [`${rowPoints(row)} on rack ${row.rack} slot ${row.slot} channels ${channelRange(c0, c1)}, in force now`],
     };
   });
   if (staged) {
@@ -168,17 +188,27 @@ export function pointMapView(live: readonly PointMapRow[], staged: readonly Poin
       if (kept.has(row.id)) continue;
       views.push({
         row,
-        number: views.length + 1,
-        state: 'staged',
+        state: 'waiting',
         change: 'removed',
-        explanation: ['removed: stays mapped until the controller restarts'],
+        explanation: ['removed: stays mapped until the controller reboots'],
       });
     }
   }
   return views;
 }
 
-/** True when the staged rows can be applied: something is staged and no row conflicts. */
+/** True when the staged ranges can go in force: something is staged and no range clashes. */
 export function canApplyStaged(views: readonly PointMapRowView[], staged: readonly PointMapRow[] | null): boolean {
-  return staged !== null && views.every((v) => v.state !== 'conflict');
+  return staged !== null && views.every((v) => v.state !== 'clash');
+}
+
+/** The next free first point of a family and the first channel of a slot no range uses, for a new range there. */
+export function newRangeAt(rows: readonly PointMapRow[], module: ControllerModule, family: PointFamily, id: string): PointMapRow {
+  const first = 1 + Math.max(0, ...rows.filter((r) => r.family === family).map((r) => r.first + r.count - 1));
+  const used = rows.filter((r) => r.rack === module.rack && r.slot === module.slot).map(rowChannels);
+  let firstChannel = 0;
+  while (used.some(([a, b]) => firstChannel >= a && firstChannel <= b)) firstChannel++;
+  const row: PointMapRow = { id, family, first, count: 1, rack: module.rack, slot: module.slot, firstChannel };
+  if (family === 'WI' || family === 'WO') Object.assign(row, { bits: 8, encoding: 'binary' });
+  return row;
 }

@@ -1,112 +1,119 @@
 'use client';
 /**
- * The controller's modules drawn as racks of slot cards, each with its family, channel count
- * and live channel values. An ON channel is filled and bold, an OFF one hollow: state is
- * never shown by colour alone.
+ * The controller's modules as racks of slot cards, and the point map edited on them: each
+ * range sits on the card of the slot it maps to. Above the racks, the reboot that puts staged
+ * ranges in force and the drop that forgets them. Edits stage the whole map (the store's
+ * `stagePointMap`); the run keeps its map until the controller reboots (DESIGN.md).
  */
-import { memo, useMemo } from 'react';
+import { useMemo } from 'react';
+import { RotateCcw, Undo2 } from 'lucide-react';
 import type { ControllerModule, PointMapRow } from '@/simulator';
-import { useSnapshot, shallowEqual } from '@/components/workspace/contract';
-import { cn } from '@/components/ui/cn';
-import { rowChannels } from './point-map-state';
-import { channelsPerPoint } from '@/simulator';
+import { Button } from '@/components/ui/button';
+import { freshId } from '@/components/workspace/fresh-id';
+import { canApplyStaged, familiesFor, newRangeAt, pointMapView, type PointMapRowView } from './point-map-state';
+import { SlotCard, type RangeActions } from './slot-card';
+import { RangeEditor } from './range-editor';
+import { useDeadModules } from './use-controller';
 
-const FAMILY_OF_TYPE: Record<ControllerModule['type'], string> = {
-  'digital-in': 'DI',
-  'digital-out': 'DO',
-  'analog-in': 'AI',
-  'analog-out': 'AO',
-  'tool-in': 'TI',
-  'tool-out': 'TO',
+type Props = {
+  modules: readonly ControllerModule[];
+  live: readonly PointMapRow[];
+  staged: readonly PointMapRow[] | null;
+  canEdit: boolean;
+  onStage(rows: PointMapRow[], label: string): void;
+  onDiscard(): void;
+  onReboot(): void;
 };
 
-/** Which logical points use each channel of a module, from the running map. */
-function channelPoints(rows: readonly PointMapRow[], m: ControllerModule): string[][] {
-  const out: string[][] = Array.from({ length: m.channels }, () => []);
-  for (const row of rows) {
-    if (row.rack !== m.rack || row.slot !== m.slot) continue;
-    const [c0] = rowChannels(row);
-    const per = channelsPerPoint(row);
-    for (let i = 0; i < row.count; i++) {
-      for (let b = 0; b < per; b++) {
-        const ch = c0 + i * per + b;
-        if (ch < m.channels) out[ch].push(per > 1 ? `${row.family}${row.first + i}.${b}` : `${row.family}${row.first + i}`);
-      }
-    }
+/** A row with a patch applied; word families keep bits and a code, the others drop them. */
+function patched(r: PointMapRow, patch: Partial<PointMapRow>): PointMapRow {
+  const next = { ...r, ...patch };
+  if (next.family !== 'WI' && next.family !== 'WO') {
+    delete next.bits;
+    delete next.encoding;
+  } else {
+    next.bits ??= 8;
+    next.encoding ??= 'binary';
   }
-  return out;
+  return next;
 }
 
-const SlotCard = memo(function SlotCard({ module: m, rows, dead }: { module: ControllerModule; rows: readonly PointMapRow[]; dead: boolean }) {
-  const values = useSnapshot((s) => s.controller.channels[`${m.rack}.${m.slot}`], shallowEqual);
-  const points = useMemo(() => channelPoints(rows, m), [rows, m]);
-  const analog = m.type === 'analog-in' || m.type === 'analog-out';
-  return (
-    <div
-      className={cn('w-44 shrink-0 rounded-md border bg-white p-2 shadow-sm', dead ? 'border-red-400' : 'border-slate-300')}
-      data-testid={`slot-${m.rack}-${m.slot}`}
-    >
-      <div className="flex items-baseline justify-between">
-        <span className="font-mono text-xs text-slate-500">slot {m.slot}</span>
-        <span className="rounded bg-slate-800 px-1.5 font-mono text-xs font-semibold text-white">{FAMILY_OF_TYPE[m.type]}</span>
-      </div>
-      <p className="truncate text-sm font-medium" title={m.id}>
-        {m.id}
-      </p>
-      <p className="text-[11px] text-slate-500">
-        {m.type} · {m.channels} ch{m.signal ? ` · ${m.signal}` : ''}
-      </p>
-      {dead ? <p className="mt-1 rounded bg-red-50 px-1 text-[11px] font-semibold text-red-800">module dead (fault card)</p> : null}
-      <div className={cn('mt-2 grid gap-1', analog ? 'grid-cols-2' : 'grid-cols-8')}>
-        {Array.from({ length: m.channels }, (_, ch) => {
-          const v = values?.[ch];
-          const on = !analog && v !== undefined && v !== 0;
-          const title = `channel ${ch}${points[ch].length ? ` → ${points[ch].join(', ')}` : ' (unmapped)'}${v !== undefined ? ` = ${v}` : ''}`;
-          return analog ? (
-            <span key={ch} title={title} className="rounded border border-slate-200 px-1 font-mono text-[10px]" data-testid={`channel-${m.rack}-${m.slot}-${ch}`} data-value={v}>
-              {ch}: {v === undefined ? '—' : Number(v.toFixed(2))}
-            </span>
-          ) : (
-            <span
-              key={ch}
-              title={title}
-              data-testid={`channel-${m.rack}-${m.slot}-${ch}`}
-              data-on={on ? 'true' : 'false'}
-              className={cn(
-                'flex h-5 items-center justify-center rounded-sm font-mono text-[10px]',
-                on ? 'bg-teal-500 font-bold text-white ring-1 ring-teal-700' : 'border border-slate-300 text-slate-500',
-                points[ch].length === 0 && !on && 'border-dashed text-slate-300',
-              )}
-            >
-              {ch}
-            </span>
-          );
-        })}
-      </div>
-    </div>
-  );
-});
+export function RackView({ modules, live, staged, canEdit, onStage, onDiscard, onReboot }: Props) {
+  const dead = useDeadModules();
+  const views = useMemo(() => pointMapView(live, staged, modules), [live, staged, modules]);
+  const base = staged ?? live;
+  const applicable = canApplyStaged(views, staged);
+  const clashes = views.filter((v) => v.state === 'clash').length;
 
-export function RackView({ modules, rows }: { modules: readonly ControllerModule[]; rows: readonly PointMapRow[] }) {
-  const dead = useSnapshot((s) => s.controller.moduleFaults, shallowEqual);
   const racks = useMemo(() => {
     const by = new Map<number, ControllerModule[]>();
     for (const m of modules) by.set(m.rack, [...(by.get(m.rack) ?? []), m]);
-    return [...by].sort((a, b) => a[0] - b[0]).map(([rack, ms]) => ({ rack, modules: ms.sort((a, b) => a.slot - b.slot) }));
+    return [...by].sort((a, b) => a[0] - b[0]).map(([rack, ms]) => ({ rack, modules: [...ms].sort((a, b) => a.slot - b.slot) }));
   }, [modules]);
-  if (racks.length === 0) return <p className="text-sm text-slate-500">No controller modules in this cell.</p>;
+  const onSlot = (m: ControllerModule) => views.filter((v) => v.row.rack === m.rack && v.row.slot === m.slot);
+  const homeless: PointMapRowView[] = views.filter((v) => !modules.some((m) => m.rack === v.row.rack && m.slot === v.row.slot));
+
+  const actions: RangeActions = {
+    canEdit,
+    modules,
+    change: (id, patch, label) => onStage(base.map((r) => (r.id === id ? patched(r, patch) : r)), label),
+    remove: (id) => onStage(base.filter((r) => r.id !== id), `Remove point range ${id}`),
+    add: (m) => {
+      const family = familiesFor(m.type)[0];
+      onStage([...base, newRangeAt(base, m, family, freshId('pm-', base.map((r) => r.id)))], `Add a range to rack ${m.rack} slot ${m.slot}`);
+    },
+  };
+
   return (
     <div className="space-y-3">
+      <div className="flex flex-wrap items-center gap-2">
+        <Button
+          onClick={onReboot}
+          disabled={!canEdit || (staged !== null && !applicable)}
+          data-testid="reboot-controller"
+          title={staged && !applicable ? 'Fix the clashing ranges first' : undefined}
+        >
+          <RotateCcw aria-hidden className="h-4 w-4" /> {staged ? 'Reboot controller, staged ranges in force' : 'Reboot controller'}
+        </Button>
+        <Button variant="secondary" onClick={onDiscard} disabled={!canEdit || !staged} data-testid="discard-staged">
+          <Undo2 aria-hidden className="h-4 w-4" /> Drop staged changes
+        </Button>
+        <p className="min-w-0 text-sm text-slate-700" data-testid="point-map-summary" role="status">
+          {staged === null
+            ? 'Nothing staged: every range shown is in force.'
+            : clashes > 0
+              ? `${clashes} clashing range${clashes === 1 ? '' : 's'}: the reboot waits until they are fixed.`
+              : 'Staged ranges wait for the controller to reboot; the run still uses the map in force.'}
+        </p>
+      </div>
+      {racks.length === 0 ? <p className="text-sm text-slate-700">No controller modules in this cell.</p> : null}
       {racks.map(({ rack, modules: ms }) => (
-        <div key={rack} className="rounded-md border border-slate-400 bg-slate-200 p-2" aria-label={`Rack ${rack}`} role="group">
-          <p className="mb-1 font-mono text-xs font-semibold text-slate-700">rack {rack}</p>
-          <div className="flex flex-wrap gap-2 pb-1">
+        <div key={rack} className="rounded-md border border-slate-400 bg-slate-100 p-2" aria-label={`Rack ${rack}`} role="group">
+          <h4 className="mb-1 font-mono text-xs font-semibold text-slate-800">rack {rack}</h4>
+          <div className="flex flex-wrap items-start gap-2 pb-1">
             {ms.map((m) => (
-              <SlotCard key={m.id} module={m} rows={rows} dead={dead?.includes(m.id) ?? false} />
+              <SlotCard key={m.id} module={m} running={live} ranges={onSlot(m)} dead={dead?.includes(m.id) ?? false} actions={actions} />
             ))}
           </div>
         </div>
       ))}
+      {homeless.length > 0 ? (
+        <section aria-label="Ranges on no module" className="rounded-md border-2 border-red-700 bg-white p-2">
+          <h4 className="text-sm font-semibold text-red-900">Ranges on a slot with no module</h4>
+          <ul className="mt-1 space-y-1.5">
+            {homeless.map((v) => (
+              <RangeEditor
+                key={`${v.row.id}-${v.change === 'removed' ? 'removed' : 'range'}`}
+                view={v}
+                modules={modules}
+                canEdit={canEdit}
+                onChange={(patch, label) => actions.change(v.row.id, patch, label)}
+                onRemove={() => actions.remove(v.row.id)}
+              />
+            ))}
+          </ul>
+        </section>
+      ) : null}
     </div>
   );
 }

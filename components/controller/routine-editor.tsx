@@ -8,10 +8,10 @@ import { ArrowDown, ArrowUp, Plus, Trash2 } from 'lucide-react';
 import type { RoutineStep } from '@/simulator';
 
 type Condition = Extract<RoutineStep, { kind: 'wait' }>['condition'];
-import { useSnapshot } from '@/components/workspace/contract';
+import { useRoutineProgress } from './use-controller';
 import { cn } from '@/components/ui/cn';
 import { defaultStep, moveStep, STEP_KINDS, STEP_KIND_WORDS, type StepKind } from './routine-steps';
-import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useTextDraft } from '@/components/workspace/use-text-draft';
 
 type Props = {
   steps: readonly RoutineStep[];
@@ -28,7 +28,7 @@ const sel = 'rounded border border-slate-300 px-1 py-0.5 text-sm disabled:border
 
 function Num({ label, value, onCommit, disabled, integer, min, max, optional }: { label: string; value: number | undefined; onCommit(v: number | undefined): void; disabled: boolean; integer?: boolean; min?: number; max?: number; optional?: boolean }) {
   const shown = value === undefined ? '' : String(value);
-  const [text, setText] = useDraft(shown);
+  const [text, setText] = useTextDraft(shown);
   const commit = () => {
     if (text.trim() === '' && optional) return value !== undefined && onCommit(undefined);
     const n = Number(text);
@@ -54,7 +54,7 @@ function Num({ label, value, onCommit, disabled, integer, min, max, optional }: 
 }
 
 function Text({ label, value, onCommit, disabled, placeholder }: { label: string; value: string; onCommit(v: string): void; disabled: boolean; placeholder?: string }) {
-  const [text, setText] = useDraft(value);
+  const [text, setText] = useTextDraft(value);
   return (
     <label className="inline-flex items-center gap-1 text-xs text-slate-600">
       {label}
@@ -100,8 +100,7 @@ function ConditionFields({ c, points, disabled, onChange, label }: { c: Conditio
 }
 
 export function RoutineEditor({ steps, inputPoints, outputPoints, poses, canEdit, onChange }: Props) {
-  const pc = useSnapshot((s) => s.controller.pc);
-  const state = useSnapshot((s) => s.controller.state);
+  const { pc, state } = useRoutineProgress();
   const [addKind, setAddKind] = useState<StepKind>('wait');
   const allPoints = [...inputPoints, ...outputPoints];
   const targets = steps.map((s, i) => ({ value: s.label ?? String(i), text: s.label ? `${s.label} (step ${i + 1})` : `step ${i + 1}` }));

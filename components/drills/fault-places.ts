@@ -5,7 +5,7 @@
  * instead of typing `w-guard`.
  */
 import { FAULT_DEVICE_TYPES, type CellDocument, type FaultKind } from '@/simulator';
-import { endpointText } from '@/components/field/endpoint-text';
+import { endpointText } from '@/components/workspace/endpoint-text';
 
 export type Place = { id: string; label: string; group: 'device' | 'wire' | 'module' | 'point-map row' };
 

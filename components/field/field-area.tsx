@@ -2,21 +2,15 @@
 import { useState } from 'react';
 import { AlertTriangle, Plus, Trash2 } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
-import type { CellSnapshot, FieldDevice, WiringRow } from '@/simulator';
-
-type DeviceSnapshot = CellSnapshot['devices'][number];
-type WireSnapshot = CellSnapshot['wires'][number];
-import { shallowEqual, useEditDocument, useSelection, useSendEvent, useSnapshot, useWorkspace, type Problem } from '@/components/workspace/contract';
-import { StateMark } from '@/components/panel/panel-device';
-import { endpointText, parseEndpoint } from './endpoint-text';
-import { freshId } from '@/components/panel/new-device';
-import { useRelated } from '@/components/workspace/use-related';
+import type { FieldDevice, Problem, WiringRow } from '@/simulator';
+import { StateMark } from '@/components/workspace/state-mark';
+import { endpointText, parseEndpoint } from '@/components/workspace/endpoint-text';
+import { freshId } from '@/components/workspace/fresh-id';
+import { useFieldDevices, useFieldItem, useTerminalStrip, type DeviceSnapshot, type WireSnapshot } from './use-field';
 
 /** Field devices with their live state and what they see, and the terminal strip with live levels. */
 export function FieldArea() {
-  const field = useWorkspace((s) => s.document.field);
-  const devices = useSnapshot((s) => s.devices, shallowEqual);
-  const byId = new Map((devices ?? []).map((d) => [d.id, d]));
+  const { field, states: byId } = useFieldDevices();
   return (
     <div className="space-y-5">
       <section aria-labelledby="field-devices-heading">
@@ -42,16 +36,14 @@ const SENSES: Partial<Record<FieldDevice['type'], string>> = {
 };
 
 function FieldDeviceCard({ device, state }: { device: FieldDevice; state: DeviceSnapshot | undefined }) {
-  const send = useSendEvent();
-  const [, select] = useSelection();
-  const selected = useRelated().devices.has(device.id);
+  const { send, select, selected } = useFieldItem('device', device.id);
   const sense = SENSES[device.type];
   const kind = 'output' in device ? `${device.type} · ${device.output}` : 'contact' in device ? `${device.type} · ${device.contact}` : device.type;
   return (
     <li
       className={cn('rounded-md border border-slate-300 bg-white p-3 text-sm', selected && 'ring-2 ring-accent-600')}
       data-testid={`field-${device.id}`}
-      onClick={() => select({ kind: 'device', id: device.id })}
+      onClick={select}
     >
       <div className="flex items-start justify-between gap-2">
         <div>
@@ -115,12 +107,7 @@ function problemsByRow(problems: Problem[]): Map<number, Problem[]> {
 }
 
 function TerminalStrip() {
-  const wiring = useWorkspace((s) => s.document.wiring);
-  const problems = useWorkspace((s) => s.engine.problems);
-  const canEdit = useWorkspace((s) => s.canEdit);
-  const wires = useSnapshot((s) => s.wires, shallowEqual);
-  const edit = useEditDocument();
-  const byId = new Map((wires ?? []).map((w) => [w.id, w]));
+  const { wiring, canEdit, live: byId, edit, problems } = useTerminalStrip();
   const rowProblems = problemsByRow(problems);
   const other = problems.filter((p) => !(p.path[0] === 'wiring' && typeof p.path[1] === 'number'));
 
@@ -179,9 +166,7 @@ function TerminalStrip() {
 }
 
 function WireRow({ row, index, live, problems, canEdit }: { row: WiringRow; index: number; live: WireSnapshot | undefined; problems: Problem[]; canEdit: boolean }) {
-  const edit = useEditDocument();
-  const [, select] = useSelection();
-  const selected = useRelated().wires.has(row.id);
+  const { edit, select, selected } = useFieldItem('wire', row.id);
   const on = live?.reading === 'on';
   const setEnd = (end: 'from' | 'to', text: string) => {
     const parsed = parseEndpoint(text);
@@ -196,7 +181,7 @@ function WireRow({ row, index, live, problems, canEdit }: { row: WiringRow; inde
       className={cn('border-t border-slate-200 align-top', problems.length > 0 && 'bg-red-50', selected && 'outline outline-2 -outline-offset-2 outline-accent-600')}
       data-testid={`wire-${row.id}`}
       data-reading={live?.reading ?? 'none'}
-      onClick={() => select({ kind: 'wire', id: row.id })}
+      onClick={select}
     >
       <td className="px-2 py-1.5 font-mono text-xs">
         {row.id}

@@ -5,7 +5,7 @@ import { Trash2 } from 'lucide-react';
 import { blockCatalogue, isBlockType, type BlockType, type Problem } from '@/simulator';
 import { Button } from '@/components/ui/button';
 import { paramFields, swappableTypes, type Block, type ParamField } from './sheet-graph';
-import { blurOnEnter, useDraft } from '@/components/logic/use-draft';
+import { blurOnEnter, useTextDraft } from '@/components/workspace/use-text-draft';
 
 type Props = {
   block: Block;
@@ -18,7 +18,7 @@ type Props = {
 };
 
 function TextCommit({ label, value, onCommit, disabled, mono }: { label: string; value: string; onCommit(v: string): void; disabled: boolean; mono?: boolean }) {
-  const [text, setText] = useDraft(value);
+  const [text, setText] = useTextDraft(value);
   return (
     <label className="block text-xs text-slate-600">
       {label}
@@ -37,7 +37,7 @@ function TextCommit({ label, value, onCommit, disabled, mono }: { label: string;
 
 function NumberCommit({ field, value, onCommit, disabled }: { field: Extract<ParamField, { kind: 'number' }>; value: unknown; onCommit(v: number | undefined): void; disabled: boolean }) {
   const shown = typeof value === 'number' ? String(value) : '';
-  const [text, setText] = useDraft(shown);
+  const [text, setText] = useTextDraft(shown);
   const [error, setError] = useState<string | null>(null);
   const commit = () => {
     if (text === shown) return;

@@ -11,11 +11,11 @@ import { AlertTriangle, RefreshCcw } from 'lucide-react';
 import { blockCatalogue, isBlockType, type PortSpec, type Problem } from '@/simulator';
 
 type PortType = PortSpec['type'];
-import { useSnapshot } from '@/components/workspace/contract';
 import { cn } from '@/components/ui/cn';
 import { formatLiveValue, portsOf, type Block } from './sheet-graph';
 import { useLogicActions } from './logic-context';
-import { useDraft } from '@/components/logic/use-draft';
+import { useLiveOutput } from './use-logic';
+import { useTextDraft } from '@/components/workspace/use-text-draft';
 
 export type BlockNodeData = {
   block: Block;
@@ -38,7 +38,7 @@ const HANDLE_SHAPE: Record<PortType, string> = {
 };
 
 function LiveOutput({ blockId, port }: { blockId: string; port: PortSpec }) {
-  const value = useSnapshot((s) => s.plc.blockOutputs[blockId]?.[port.name]);
+  const value = useLiveOutput(blockId, port.name);
   if (value === undefined) return null;
   const on = value === true;
   return (
@@ -57,7 +57,7 @@ function LiveOutput({ blockId, port }: { blockId: string; port: PortSpec }) {
 
 function AddressField({ block, address }: { block: Block; address: string }) {
   const { setParam, canEdit } = useLogicActions();
-  const [text, setText] = useDraft(address);
+  const [text, setText] = useTextDraft(address);
   const commit = () => {
     const next = text.trim().toUpperCase();
     if (next !== address) setParam(block.id, 'address', next);

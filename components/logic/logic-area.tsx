@@ -26,14 +26,14 @@ import {
   type OnSelectionChangeParams,
 } from '@xyflow/react';
 import { AlertTriangle, CheckCircle2, X } from 'lucide-react';
-import { blockCatalogue, isBlockType, validateSheet, type BlockType, type Problem } from '@/simulator';
-import { useCanEdit, useCellDocument, useEditDocument, useWorkspace, type CellDocument } from '@/components/workspace/contract';
+import { blockCatalogue, isBlockType, type BlockType, type Problem } from '@/simulator';
 import { cn } from '@/components/ui/cn';
 import { BlockNode, inHandle, outHandle, portOfHandle, type BlockFlowNode, type BlockNodeData } from './block-node';
 import { WireEdge, type WireFlowEdge } from './wire-edge';
 import { BlockInspector } from './block-inspector';
 import { LogicActionsContext, type LogicActions } from './logic-context';
-import { blurOnEnter, useDraft } from './use-draft';
+import { blurOnEnter, useTextDraft } from '@/components/workspace/use-text-draft';
+import { useLogic } from './use-logic';
 import {
   addBlock,
   checkConnection,
@@ -56,7 +56,6 @@ const PALETTE = paletteGroups();
 const DRAG_MIME = 'application/x-cellwright-block';
 const NO_PROBLEMS: readonly Problem[] = [];
 
-type DocSheet = CellDocument['plc']['sheet'];
 type NodeCache = Map<string, { key: string; data: BlockNodeData }>;
 
 /**
@@ -105,38 +104,15 @@ export default function LogicArea() {
 }
 
 function LogicCanvas() {
-  const doc = useCellDocument();
-  const sheet = doc.plc.sheet as Sheet;
-  const editDocument = useEditDocument();
-  const canEdit = useCanEdit();
-  const select = useWorkspace((s) => s.select);
-  const running = useWorkspace((s) => s.engine.running);
+  const { sheet, editSheet, canEdit, running, selectedId, selectBlock, problems } = useLogic();
   const flow = useReactFlow();
   const sheetRef = useRef(sheet);
   useLayoutEffect(() => {
     sheetRef.current = sheet;
   });
   const [notice, setNotice] = useState<string | null>(null);
-  const [selectedId, setSelectedId] = useState<string | null>(null);
   const [showProblems, setShowProblems] = useState(false);
 
-  const editSheet = useCallback(
-    (next: Sheet, label: string, keepRun = false) => {
-      editDocument(
-        (draft) => {
-          draft.plc.sheet = next as DocSheet;
-        },
-        label,
-        keepRun ? { engine: 'keep' } : undefined,
-      );
-    },
-    [editDocument],
-  );
-
-  const problems = useMemo(() => {
-    const r = validateSheet(sheet);
-    return r.ok ? [] : r.errors;
-  }, [sheet]);
   const index = useMemo(() => indexSheetProblems(sheet, problems), [sheet, problems]);
 
   const [nodes, setNodes] = useState<BlockFlowNode[]>(() => deriveNodes(sheet, index, new Map()).nodes);
@@ -205,20 +181,18 @@ function LogicCanvas() {
 
   const onSelectionChange = useCallback(
     ({ nodes: ns }: OnSelectionChangeParams<BlockFlowNode, WireFlowEdge>) => {
-      const id = ns.length === 1 ? ns[0].id : null;
-      setSelectedId(id);
-      if (id) select({ kind: 'block', id });
+      selectBlock(ns.length === 1 ? ns[0].id : null);
     },
-    [select],
+    [selectBlock],
   );
 
   const addAt = useCallback(
     (type: BlockType, position: { x: number; y: number }) => {
       const r = addBlock(sheetRef.current, type, position);
       editSheet(r.sheet, `Add ${type}`);
-      setSelectedId(r.id);
+      selectBlock(r.id);
     },
-    [editSheet],
+    [editSheet, selectBlock],
   );
 
   const addAtCentre = (type: BlockType) => {
@@ -251,8 +225,7 @@ function LogicCanvas() {
     const node = flow.getNode(id);
     if (!node) return;
     setNodes((ns) => ns.map((n) => ({ ...n, selected: n.id === id })));
-    setSelectedId(id);
-    select({ kind: 'block', id });
+    selectBlock(id);
     void flow.setCenter(node.position.x + 88, node.position.y + 40, { zoom: 1.1, duration: 300 });
   };
 
@@ -391,7 +364,7 @@ function LogicCanvas() {
               onLabel={(label) => editSheet(setBlockLabel(sheetRef.current, selectedBlock.id, label), `Label ${selectedBlock.id}`)}
               onDelete={() => {
                 editSheet(removeElements(sheetRef.current, [selectedBlock.id]), `Delete block ${selectedBlock.id}`);
-                setSelectedId(null);
+                selectBlock(null);
               }}
             />
           ) : (
@@ -408,7 +381,7 @@ function LogicCanvas() {
 }
 
 function ScanPeriod({ value, disabled, onCommit }: { value: number; disabled: boolean; onCommit(v: number): void }) {
-  const [text, setText] = useDraft(String(value));
+  const [text, setText] = useTextDraft(String(value));
   const commit = () => {
     const n = Number(text);
     if (Number.isFinite(n) && n > 0 && n <= 10_000 && n !== value) onCommit(n);

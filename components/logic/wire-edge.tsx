@@ -9,7 +9,7 @@ import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, type Edge, type EdgePro
 import type { PortSpec } from '@/simulator';
 
 type PortType = PortSpec['type'];
-import { useSnapshot } from '@/components/workspace/contract';
+import { useLiveOutput } from './use-logic';
 import { formatLiveValue } from './sheet-graph';
 
 export type WireEdgeData = {
@@ -24,7 +24,7 @@ export type WireFlowEdge = Edge<WireEdgeData, 'wire'>;
 
 function WireEdgeView(props: EdgeProps<WireFlowEdge>) {
   const { id, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, data, selected } = props;
-  const value = useSnapshot((s) => (data ? s.plc.blockOutputs[data.sourceBlock]?.[data.sourcePort] : undefined));
+  const value = useLiveOutput(data?.sourceBlock ?? '', data?.sourcePort ?? '');
   const [path, labelX, labelY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 6 });
   const bad = Boolean(data?.problem) || Boolean(data?.inLoop);
   const on = value === true;

@@ -1,6 +1,6 @@
 'use client';
 import { Lock } from 'lucide-react';
-import { useForceAllowed, useSendEvent, useSnapshot, shallowEqual } from '@/components/workspace/contract';
+import { useForces } from './use-monitor';
 
 /**
  * A persistent banner across the workspace while any point is forced. Where forcing is not
@@ -8,9 +8,7 @@ import { useForceAllowed, useSendEvent, useSnapshot, shallowEqual } from '@/comp
  * unforce control (the run's policy refuses unforce as well).
  */
 export function ForceBanner() {
-  const targets = useSnapshot((s) => Object.keys(s.forces), shallowEqual) ?? [];
-  const send = useSendEvent();
-  const forceAllowed = useForceAllowed();
+  const { targets, forceAllowed, unforce } = useForces();
   if (targets.length === 0) return null;
   return (
     <div role="status" data-testid="force-banner" className="flex flex-wrap items-center gap-3 rounded-md border-2 border-amber-500 bg-amber-100 px-3 py-2 text-sm text-amber-950">
@@ -19,11 +17,12 @@ export function ForceBanner() {
         {targets.length} {targets.length === 1 ? 'force' : 'forces'} active
       </strong>
       <span className="font-mono text-xs">{targets.join(', ')}</span>
+      <span className="text-xs">The cell runs on forced values, not on what its inputs and logic say.</span>
       {forceAllowed ? (
         <button
           type="button"
-          onClick={() => targets.forEach((t) => send({ type: 'unforce', target: t }))}
-          className="ml-auto rounded border border-amber-600 bg-white px-2 py-0.5 text-xs font-medium hover:bg-amber-50"
+          onClick={() => targets.forEach((t) => unforce(t))}
+          className="ml-auto rounded border border-amber-700 bg-white px-2 py-0.5 text-xs font-medium hover:bg-amber-50"
         >
           Unforce all
         </button>

@@ -1,4 +1,5 @@
 import type { PanelDevice } from '@/simulator';
+import { freshId } from '@/components/workspace/fresh-id';
 
 /** Device kinds the palette offers, with a starting configuration for each. */
 export const PANEL_KINDS: { kind: string; label: string }[] = [
@@ -12,11 +13,6 @@ export const PANEL_KINDS: { kind: string; label: string }[] = [
   { kind: 'numeric-display', label: 'Numeric display' },
 ];
 
-/** A fresh id not used by any device of the document (`pb1`, `pb2`, ...). */
-export function freshId(prefix: string, taken: Iterable<string>): string {
-  const used = new Set(taken);
-  for (let i = 1; ; i++) if (!used.has(`${prefix}${i}`)) return `${prefix}${i}`;
-}
 
 const PREFIX: Record<string, string> = {
   'push-button': 'pb',

@@ -2,12 +2,9 @@
 import { useRef, useState, type KeyboardEvent, type PointerEvent } from 'react';
 import { Plus, Trash2 } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
-import type { CellSnapshot, PanelDevice } from '@/simulator';
-
-type DeviceSnapshot = CellSnapshot['devices'][number];
-import { shallowEqual, useEditDocument, useSelection, useSnapshot, useWorkspace } from '@/components/workspace/contract';
+import type { PanelDevice } from '@/simulator';
 import { PanelDeviceView } from './panel-device';
-import { useRelated } from '@/components/workspace/use-related';
+import { usePanel, usePanelEditing, type DeviceSnapshot } from './use-panel';
 import { BUTTON_FUNCTIONS, COLOURS, COLOUR_MEANING, type DeviceColour } from './colours';
 import { PANEL_KINDS, newPanelDevice } from './new-device';
 
@@ -21,16 +18,8 @@ const NUDGE = 10;
 
 /** The operator panel: a front plate with the cell's panel devices; operate them, or edit the layout in edit mode. */
 export function PanelArea() {
-  const panel = useWorkspace((s) => s.document.panel);
-  const editMode = useWorkspace((s) => s.editMode && s.canEdit);
-  const devices = useSnapshot((s) => s.devices, shallowEqual);
-  const [selection, select] = useSelection();
-  const edit = useEditDocument();
-  const related = useRelated();
-  const byId = new Map((devices ?? []).map((d) => [d.id, d]));
+  const { panel, editMode, states: byId, selection, select, edit, related, warnings } = usePanel();
   const selectedDevice = selection?.kind === 'device' ? panel.find((d) => d.id === selection.id) : undefined;
-  // The engine's IEC 60204-1 colour warnings about the panel (the cell runs anyway).
-  const warnings = useWorkspace((s) => s.engine.warnings).filter((w) => w.path[0] === 'panel');
 
   const width = Math.max(640, ...panel.map((d) => d.position.x + CELL_W)) * SCALE;
   const height = Math.max(260, ...panel.map((d) => d.position.y + CELL_H)) * SCALE;
@@ -162,8 +151,7 @@ function PlateSlot({
 }
 
 function AddDevice({ panel }: { panel: PanelDevice[] }) {
-  const edit = useEditDocument();
-  const [, select] = useSelection();
+  const { edit, select } = usePanelEditing();
   const [kind, setKind] = useState(PANEL_KINDS[0].kind);
   const add = () => {
     const maxY = Math.max(0, ...panel.map((d) => d.position.y));
@@ -196,8 +184,7 @@ function AddDevice({ panel }: { panel: PanelDevice[] }) {
 }
 
 function DeviceForm({ device }: { device: PanelDevice }) {
-  const edit = useEditDocument();
-  const [, select] = useSelection();
+  const { edit, select } = usePanelEditing();
   const [label, setLabel] = useState(device.label);
   const update = (label: string, recipe: (d: PanelDevice) => void) =>
     edit((doc) => {

@@ -1,10 +1,9 @@
 'use client';
 import { useRef, type KeyboardEvent, type PointerEvent } from 'react';
 import { cn } from '@/components/ui/cn';
-import type { CellSnapshot, PanelDevice } from '@/simulator';
-
-type DeviceSnapshot = CellSnapshot['devices'][number];
-import { useSendEvent } from '@/components/workspace/contract';
+import type { PanelDevice } from '@/simulator';
+import { usePanelSend, type DeviceSnapshot } from './use-panel';
+import { StateMark } from '@/components/workspace/state-mark';
 import { CAP, COLOUR_MEANING, type DeviceColour } from './colours';
 
 type Props = { device: PanelDevice; state: DeviceSnapshot | undefined; operable: boolean };
@@ -32,7 +31,7 @@ export function PanelDeviceView({ device, state, operable }: Props) {
 
 /** Press on pointer/key down, release on up: a momentary contact follows the hand; a maintained one toggles on each press. */
 function usePressHold(id: string, operable: boolean) {
-  const send = useSendEvent();
+  const send = usePanelSend();
   const held = useRef(false);
   const down = () => {
     if (!operable || held.current) return;
@@ -101,7 +100,7 @@ function PushButton({ device, state, operable }: { device: Extract<PanelDevice, 
 }
 
 function EStop({ device, state, operable }: { device: Extract<PanelDevice, { type: 'e-stop' }>; state: DeviceSnapshot | undefined; operable: boolean }) {
-  const send = useSendEvent();
+  const send = usePanelSend();
   const latched = Boolean(state?.latched);
   return (
     <div className="flex flex-col items-center gap-1">
@@ -136,7 +135,7 @@ function EStop({ device, state, operable }: { device: Extract<PanelDevice, { typ
 }
 
 function Selector({ device, state, operable }: { device: Extract<PanelDevice, { type: 'selector-switch' }>; state: DeviceSnapshot | undefined; operable: boolean }) {
-  const send = useSendEvent();
+  const send = usePanelSend();
   const position = state?.position ?? 0;
   const angle = device.positions.length > 1 ? -45 + (90 * position) / (device.positions.length - 1) : 0;
   const choose = (p: number) => operable && send({ type: 'set-selector', device: device.id, position: p });
@@ -216,7 +215,7 @@ function StackLight({ device, state }: { device: Extract<PanelDevice, { type: 's
 }
 
 function Potentiometer({ device, state, operable }: { device: Extract<PanelDevice, { type: 'potentiometer' }>; state: DeviceSnapshot | undefined; operable: boolean }) {
-  const send = useSendEvent();
+  const send = usePanelSend();
   const value = state?.value ?? device.min;
   return (
     <div className="flex w-28 flex-col items-center gap-1">
@@ -246,9 +245,4 @@ function NumericDisplay({ device, state }: { device: Extract<PanelDevice, { type
       {String(Math.round(value)).padStart(device.digits, ' ').slice(-device.digits)}
     </output>
   );
-}
-
-/** A short text mark of the state, so ON never relies on colour alone. */
-export function StateMark({ on, onText, offText }: { on: boolean; onText: string; offText: string }) {
-  return <span className={cn('text-[10px] uppercase tracking-wide', on ? 'font-bold text-slate-900' : 'text-slate-500')}>{on ? `● ${onText}` : `○ ${offText}`}</span>;
 }

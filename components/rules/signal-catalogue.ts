@@ -7,7 +7,7 @@
  */
 import { blockPorts, createCell, formatAddress, parseAddress, type CellDocument } from '@/simulator';
 import { signalLabels as wiredLabels } from '@/components/workspace/signal-labels';
-import { endpointText } from '@/components/field/endpoint-text';
+import { endpointText } from '@/components/workspace/endpoint-text';
 import { humanise } from '@/components/workspace/format';
 
 export type SignalKind = 'input' | 'output' | 'memory' | 'point' | 'handshake' | 'device' | 'wire' | 'arm' | 'controller' | 'block' | 'fault' | 'link';

@@ -9,7 +9,7 @@ import type { StoreApi } from 'zustand/vanilla';
 import { SafetyCaution } from '@/components/ui/safety-caution';
 import { ForceBanner } from '@/components/monitor/force-banner';
 import { ScopeRecorderProvider } from '@/components/scope/scope-context';
-import { AreaBody } from '@/components/workspace/area-slots';
+import { AreaBody } from '@/components/workspace/shell/area-slots';
 import { StatusStrip } from '@/components/workspace/status-strip';
 import { WorkspaceStoreContext, useWorkspace, useWorkspaceApi, type WorkspaceInit, type WorkspaceStore, type WorkspaceStoreApi } from '@/components/workspace/contract';
 import { WorkspaceProvider } from '@/components/workspace/workspace-provider';

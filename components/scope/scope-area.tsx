@@ -5,7 +5,7 @@ import { formatCellTime } from '@/components/workspace/format';
 import { useScopeData } from './scope-context';
 import { snapToEdge } from './edges';
 import type { SignalHistory } from './scope-recorder';
-import { useSignalLabels } from '@/components/workspace/use-signal-labels';
+import { useScope } from './use-scope';
 
 const WINDOWS = [2000, 10_000, 30_000];
 const PLOT_W = 860;
@@ -36,7 +36,7 @@ type ScopeProps = {
 export function ScopeArea({ initialSignals, marks = [], windows = WINDOWS }: ScopeProps = {}) {
   const [frozen, setFrozen] = useState(false);
   const data = useScopeData(frozen);
-  const labels = useSignalLabels();
+  const { labels } = useScope();
   const keys = useMemo(() => [...data.signals].sort(), [data.signals]);
   const [chosen, setChosen] = useState<string[] | null>(initialSignals ?? null);
   const shown = (chosen ?? keys.filter(isBitKey).slice(0, 6)).filter((k) => keys.includes(k));

@@ -1,14 +1,14 @@
 'use client';
 import { createContext, useContext, useEffect, useState, useSyncExternalStore, type ReactNode } from 'react';
-import { useWorkspaceApi } from '@/components/workspace/contract';
+import { useScopeSource } from './use-scope';
 import { createScopeRecorder, type ScopeData, type ScopeRecorder } from './scope-recorder';
 
 const ScopeRecorderContext = createContext<ScopeRecorder | null>(null);
 
 /** Records scope history for the whole workspace session, whichever area is open. */
 export function ScopeRecorderProvider({ children }: { children: ReactNode }) {
-  const api = useWorkspaceApi();
-  const [recorder] = useState(() => createScopeRecorder(api));
+  const source = useScopeSource();
+  const [recorder] = useState(() => createScopeRecorder(source));
   useEffect(() => recorder.start(), [recorder]);
   return <ScopeRecorderContext.Provider value={recorder}>{children}</ScopeRecorderContext.Provider>;
 }

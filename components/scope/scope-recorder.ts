@@ -3,7 +3,6 @@
  * engine's trace: each change with its exact cell time (every instant, every scan), so edge
  * times do not depend on how often the screen is drawn or on the run speed.
  */
-import type { WorkspaceStoreApi } from '@/components/workspace/contract';
 import type { TraceChunk } from '@/components/workspace/engine-protocol';
 
 /** Changes of one signal, oldest first: the value holds from `t` until the next change. */
@@ -44,8 +43,14 @@ export function trimHistory(h: SignalHistory, from: number): SignalHistory {
 
 export type ScopeRecorder = ReturnType<typeof createScopeRecorder>;
 
-/** Records from a workspace store between `start()` and the function it returns. */
-export function createScopeRecorder(store: WorkspaceStoreApi) {
+/** What the recorder listens to (the workspace store, through use-scope.ts): exact signal changes, and the time of each drawn snapshot. */
+export type ScopeSource = {
+  subscribeTrace(listener: (chunk: TraceChunk) => void): () => void;
+  subscribeSnapshotTime(listener: (timeMs: number) => void): () => void;
+};
+
+/** Records from a scope source between `start()` and the function it returns. */
+export function createScopeRecorder(source: ScopeSource) {
   let data: ScopeData = { signals: [], histories: new Map(), endMs: 0 };
   let version = 0;
   const listeners = new Set<() => void>();
@@ -63,13 +68,12 @@ export function createScopeRecorder(store: WorkspaceStoreApi) {
     getData: () => data,
     /** Starts recording; returns the stop function (an effect's cleanup). */
     start: () => {
-      const offTrace = store.getState().subscribeTrace((chunk) => {
+      const offTrace = source.subscribeTrace((chunk) => {
         data = applyTraceChunk(data, chunk);
       });
       // Redraw once per drawn snapshot, with the clock running up to the snapshot's time.
-      const offSnap = store.subscribe((s, prev) => {
-        if (!s.snapshot || s.snapshot === prev.snapshot) return;
-        if (s.snapshot.timeMs > data.endMs) data = { ...data, endMs: s.snapshot.timeMs };
+      const offSnap = source.subscribeSnapshotTime((timeMs) => {
+        if (timeMs > data.endMs) data = { ...data, endMs: timeMs };
         notify();
       });
       return () => {

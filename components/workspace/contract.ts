@@ -72,7 +72,7 @@ import { createContext, useContext } from 'react';
 import { useStoreWithEqualityFn } from 'zustand/traditional';
 import { shallow } from 'zustand/shallow';
 import type { StoreApi } from 'zustand/vanilla';
-import type { CellDocument, CellSnapshot, CellEvent, DownloadEvent, LoggedEvent, Problem } from '@/simulator';
+import type { CellDocument, CellSnapshot, CellEvent, DownloadEvent, LoggedEvent, PointMapRow, Problem } from '@/simulator';
 import type { DownloadArea } from './download';
 import type { RunSpeed, TraceChunk } from './engine-protocol';
 
@@ -214,6 +214,17 @@ export type WorkspaceActions = {
    * at time 0. Returns the event sent, or null when nothing among `areas` changed.
    */
   downloadEdits(areas: readonly DownloadArea[]): DownloadEvent | null;
+  /**
+   * Stages `rows` as the controller's next point map (one undo step named `label`): the document
+   * keeps them for saving, the engine records them with `stage-point-map` (unless they clash, which
+   * the engine would refuse), and the run keeps its map until `restartController`. Rows equal to
+   * the running map drop the staged change instead.
+   */
+  stagePointMap(rows: PointMapRow[], label: string): void;
+  /** Drops the staged point map (document and engine); the running map stays as it is. */
+  discardStagedPointMap(): void;
+  /** Reboots the robot controller; a staged point map goes in force with it (and becomes the document's map). */
+  restartController(): void;
   run(speed: RunSpeed): void;
   pause(): void;
   /** Advances the cell to the end of the next PLC scan (paused). */

@@ -5,7 +5,7 @@
  */
 import type { WiringRow } from '@/simulator';
 import type { Selection } from './contract';
-import { endpointText } from '@/components/field/endpoint-text';
+import { endpointText } from './endpoint-text';
 
 export type Related = { devices: Set<string>; wires: Set<string>; addresses: Set<string>; channels: Set<string> };
 

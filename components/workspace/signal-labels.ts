@@ -9,7 +9,7 @@ import type { CellDocument, FieldDevice, PanelDevice, WiringRow } from '@/simula
 
 type Endpoint = WiringRow['from'];
 type ResolvedPointMap = ReturnType<typeof resolvePointMap>;
-import { endpointText } from '@/components/field/endpoint-text';
+import { endpointText } from './endpoint-text';
 
 type Device = PanelDevice | FieldDevice;
 

@@ -197,3 +197,68 @@ describe('drafts', () => {
     expect(store.getState().dirty).toBe(false);
   });
 });
+
+describe('workspace store: staging the point map and rebooting the controller', () => {
+  const moved = (doc: ReturnType<typeof demoDocument>) => doc.controller.pointMap.map((r) => (r.id === 'pm-do' ? { ...r, firstChannel: 8 } : r));
+
+  it('stages rows in the document and the engine without reloading the run', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    calls.length = 0;
+    const rows = moved(store.getState().document);
+    store.getState().stagePointMap(rows, 'Set first channel of pm-do');
+    expect(store.getState().document.controller.staged).toEqual(rows);
+    expect(store.getState().past.at(-1)?.label).toBe('Set first channel of pm-do');
+    // Staged, not loaded: the running cell keeps its map until the reboot.
+    expect(calls).toEqual(['send:stage-point-map']);
+  });
+
+  it('keeps clashing rows in the document only (the engine would refuse them)', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    calls.length = 0;
+    const rows = store.getState().document.controller.pointMap.map((r) => (r.id === 'pm-do' ? { ...r, slot: 99 } : r));
+    store.getState().stagePointMap(rows, 'Move pm-do');
+    expect(store.getState().document.controller.staged).toEqual(rows);
+    expect(calls).toEqual([]);
+  });
+
+  it('rows equal to the running map drop the staged change', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    const running = store.getState().document.controller.pointMap;
+    store.getState().stagePointMap(moved(store.getState().document), 'Move');
+    calls.length = 0;
+    store.getState().stagePointMap(running.map((r) => ({ ...r })), 'Move back');
+    expect(store.getState().document.controller.staged).toBeNull();
+    expect(calls).toEqual(['send:discard-staged']);
+  });
+
+  it('the reboot puts the staged rows in force in the engine and the document', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    const rows = moved(store.getState().document);
+    store.getState().stagePointMap(rows, 'Move');
+    calls.length = 0;
+    store.getState().restartController();
+    expect(calls).toEqual(['send:stage-point-map', 'send:restart-controller']);
+    expect(store.getState().document.controller.pointMap).toEqual(rows);
+    expect(store.getState().document.controller.staged).toBeNull();
+    // Undo brings the staged rows back as one step.
+    store.getState().undo();
+    expect(store.getState().document.controller.staged).toEqual(rows);
+  });
+
+  it('a reboot with nothing staged only reboots; dropping forgets the staged rows', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    calls.length = 0;
+    store.getState().restartController();
+    expect(calls).toEqual(['send:restart-controller']);
+    store.getState().stagePointMap(moved(store.getState().document), 'Move');
+    calls.length = 0;
+    store.getState().discardStagedPointMap();
+    expect(store.getState().document.controller.staged).toBeNull();
+    expect(calls).toEqual(['send:discard-staged']);
+  });
+});

@@ -4,7 +4,7 @@
  * run it without a Web Worker and the worker stays replaceable.
  */
 import { createStore } from 'zustand/vanilla';
-import type { CellDocument, DownloadEvent, Problem } from '@/simulator';
+import { validatePointMap, type CellDocument, type DownloadEvent, type PointMapRow, type Problem } from '@/simulator';
 import type { TraceChunk } from './engine-protocol';
 import { afterDownload, downloadEvent, revertRefused, type DownloadInFlight } from './download';
 import type { EngineConnection, EngineFactory, EngineState, HistoryEntry, WorkspaceInit, WorkspaceStore, WorkspaceStoreApi } from './contract';
@@ -32,6 +32,11 @@ const INITIAL_ENGINE: EngineState = {
 /** Structural equality of two JSON documents (cheap enough for a cell document per edit). */
 export function sameDocument(a: CellDocument, b: CellDocument): boolean {
   return a === b || JSON.stringify(a) === JSON.stringify(b);
+}
+
+/** The point map the controller runs now: the engine's live map, or the document's before the first snapshot. */
+export function runningPointMap(state: Pick<WorkspaceStore, 'snapshot' | 'document'>): readonly PointMapRow[] {
+  return state.snapshot?.controller.pointMap ?? state.document.controller.pointMap;
 }
 
 /**
@@ -183,6 +188,52 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
         set({ engineDocument: afterDownload(engineDocument, event), downloadRefusal: null });
         get().sendEvent(event);
         return event;
+      },
+      stagePointMap(rows, label) {
+        const state = get();
+        const unchanged = JSON.stringify(rows) === JSON.stringify(runningPointMap(state));
+        // The run keeps its map: the engine only records the staged rows, and the document keeps them for saving.
+        state.editDocument(
+          (d) => {
+            d.controller.staged = unchanged ? null : rows;
+          },
+          label,
+          { engine: 'keep' },
+        );
+        if (unchanged) state.sendEvent({ type: 'discard-staged' });
+        // The engine refuses to stage a map that clashes (docs/engine.md); such rows stay in the document only, and the reboot waits.
+        else if (validatePointMap(rows, state.document.controller.modules, []).length === 0) state.sendEvent({ type: 'stage-point-map', rows });
+      },
+      discardStagedPointMap() {
+        const state = get();
+        if (state.document.controller.staged === null) return;
+        state.editDocument(
+          (d) => {
+            d.controller.staged = null;
+          },
+          'Drop staged point-map changes',
+          { engine: 'keep' },
+        );
+        state.sendEvent({ type: 'discard-staged' });
+      },
+      restartController() {
+        const state = get();
+        const staged = state.document.controller.staged;
+        if (!staged) {
+          state.sendEvent({ type: 'restart-controller' });
+          return;
+        }
+        // Re-send the staged rows first so the engine applies exactly what the area shows.
+        state.sendEvent({ type: 'stage-point-map', rows: staged });
+        state.sendEvent({ type: 'restart-controller' });
+        state.editDocument(
+          (d) => {
+            if (d.controller.staged) d.controller.pointMap = d.controller.staged;
+            d.controller.staged = null;
+          },
+          'Reboot controller: staged point map in force',
+          { engine: 'keep' },
+        );
       },
       run(speed) {
         set((s) => ({ engine: { ...s.engine, running: true, speed } }));

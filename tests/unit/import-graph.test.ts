@@ -1,6 +1,8 @@
 /**
  * The import graph's shape (shared/STYLE.md): no import circles anywhere in the source, and
  * no arrow from simulator/ up into the app (lib/, db/, components/, app/, scripts/, tests/).
+ * In the UI (components/, app/) folders are modules too: no circle between folders either, and
+ * the cell workspace keeps its layers (base → areas → shell, see WORKSPACE_AREAS below).
  * Imports are read from the source text (static `import … from`, `export … from` and
  * `import('…')`), type-only ones included: a circle of types is still a circle for a reader.
  */
@@ -84,6 +86,26 @@ function circles(g: Map<string, string[]>): string[][] {
   return out;
 }
 
+/** Folder → the other folders its files import (a file's folder is its module). */
+function folderGraph(g: Map<string, string[]>, keep: (file: string) => boolean): Map<string, string[]> {
+  const out = new Map<string, Set<string>>();
+  for (const [f, deps] of g) {
+    if (!keep(f)) continue;
+    const from = dirname(f);
+    if (!out.has(from)) out.set(from, new Set());
+    for (const d of deps) if (keep(d) && dirname(d) !== from) out.get(from)!.add(dirname(d));
+  }
+  return new Map([...out].map(([k, v]) => [k, [...v]]));
+}
+
+/**
+ * The workspace's layers (DEVELOPERS.md, "Workspace"): the base (components/workspace/) under
+ * the six areas, each area in its own folder, and the shell (components/workspace/shell/) over them.
+ */
+const WORKSPACE_BASE = 'components/workspace';
+const WORKSPACE_SHELL = 'components/workspace/shell';
+const WORKSPACE_AREAS = ['panel', 'field', 'logic', 'controller', 'monitor', 'scope'].map((a) => `components/${a}`);
+
 describe('import graph', () => {
   const g = graph();
 
@@ -102,5 +124,43 @@ describe('import graph', () => {
     const past: string[] = [];
     for (const [f, deps] of g) if (!f.startsWith('simulator/')) for (const d of deps) if (d.startsWith('simulator/') && d !== 'simulator/index.ts') past.push(`${f} → ${d}`);
     expect(past).toEqual([]);
+  });
+
+  it('has no circles between UI folders (components/, app/)', () => {
+    const ui = (f: string) => f.startsWith('components/') || f.startsWith('app/');
+    expect(circles(folderGraph(g, ui))).toEqual([]);
+  });
+
+  it('keeps the workspace base below the areas and the shell, and the areas apart', () => {
+    const wrong: string[] = [];
+    for (const [f, deps] of g) {
+      const from = dirname(f);
+      for (const d of deps) {
+        const to = dirname(d);
+        if (from === WORKSPACE_BASE && (to === WORKSPACE_SHELL || WORKSPACE_AREAS.includes(to))) wrong.push(`base ${f} → ${d}`);
+        if (WORKSPACE_AREAS.includes(from) && (to === WORKSPACE_SHELL || (WORKSPACE_AREAS.includes(to) && to !== from))) wrong.push(`area ${f} → ${d}`);
+      }
+    }
+    expect(wrong).toEqual([]);
+  });
+
+  it('gives every workspace area the same shape: a layout, one use-<area> hook, its leaves', () => {
+    const missing: string[] = [];
+    for (const area of WORKSPACE_AREAS) {
+      const name = area.slice('components/'.length);
+      for (const file of [`${area}/${name}-area.tsx`, `${area}/use-${name}.ts`]) if (!g.has(file)) missing.push(file);
+    }
+    expect(missing).toEqual([]);
+  });
+
+  it('reads the store in an area through its use-<area> hook only', () => {
+    // The base modules that read the workspace store: the contract's hooks and the hooks built on them.
+    const storeReaders = ['contract.ts', 'store.ts', 'use-related.ts', 'use-signal-labels.ts', 'use-area-problems.ts'].map((f) => `${WORKSPACE_BASE}/${f}`);
+    const direct: string[] = [];
+    for (const area of WORKSPACE_AREAS) {
+      const hook = `${area}/use-${area.slice('components/'.length)}.ts`;
+      for (const [f, deps] of g) if (dirname(f) === area && f !== hook && deps.some((d) => storeReaders.includes(d))) direct.push(`${f} → ${deps.filter((d) => storeReaders.includes(d)).join(', ')}`);
+    }
+    expect(direct).toEqual([]);
   });
 });

@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { notFound } from 'next/navigation';
 import { Refused } from '@/components/ui/refused';
-import { Workspace } from '@/components/workspace/workspace-shell';
+import { Workspace } from '@/components/workspace/shell/workspace-shell';
 import { requirePageUser } from '@/lib/auth/session';
 import { loadOrNotFound, paramsOrNotFound } from '@/lib/pages/not-found';
 import { cellForReader } from '@/lib/cells/access';

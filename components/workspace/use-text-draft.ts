@@ -6,7 +6,7 @@
  */
 import { useState, type KeyboardEvent } from 'react';
 
-export function useDraft(value: string): [string, (text: string) => void] {
+export function useTextDraft(value: string): [string, (text: string) => void] {
   const [text, setText] = useState(value);
   const [seen, setSeen] = useState(value);
   if (seen !== value) {

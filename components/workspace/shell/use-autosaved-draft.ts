@@ -1,8 +1,8 @@
 'use client';
 import { useEffect, useState } from 'react';
-import { useWorkspaceApi } from './contract';
-import { clearDraft, findOlderDraft, readDraft, writeDraft } from './draft';
-import { sameDocument } from './store';
+import { useWorkspaceApi } from '../contract';
+import { clearDraft, findOlderDraft, readDraft, writeDraft } from '../draft';
+import { sameDocument } from '../store';
 
 /** Draft autosave delay after the last edit (ms). */
 const AUTOSAVE_MS = 400;
@@ -13,7 +13,7 @@ export type DraftNotice = { kind: 'restored' | 'older'; savedAt: string; fromVer
  * Restores this cell's draft on first mount (with a notice), offers a draft left behind on an
  * older version, and autosaves the document while it differs from the saved version.
  */
-export function useDraft(): { notice: DraftNotice; dismiss: () => void; discard: () => void; restoreOlder: () => void } {
+export function useAutosavedDraft(): { notice: DraftNotice; dismiss: () => void; discard: () => void; restoreOlder: () => void } {
   const api = useWorkspaceApi();
   const [notice, setNotice] = useState<DraftNotice>(null);
 

@@ -5,8 +5,8 @@ import { Redo2, Save, Undo2 } from 'lucide-react';
 import { Button } from '@/components/ui/button';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import type { CellDocument } from '@/simulator';
-import { useWorkspace, useWorkspaceApi } from './contract';
-import { clearDraft } from './draft';
+import { useWorkspace, useWorkspaceApi } from '../contract';
+import { clearDraft } from '../draft';
 
 type Conflict = { latestVersion: number | null; message: string };
 

@@ -5,13 +5,13 @@ import { cn } from '@/components/ui/cn';
 import { SafetyCaution } from '@/components/ui/safety-caution';
 import { ForceBanner } from '@/components/monitor/force-banner';
 import { ScopeRecorderProvider } from '@/components/scope/scope-context';
-import { useWorkspace, useWorkspaceApi, type WorkspaceInit } from './contract';
-import { WorkspaceProvider } from './workspace-provider';
-import { StatusStrip } from './status-strip';
+import { useWorkspace, useWorkspaceApi, type WorkspaceInit } from '../contract';
+import { WorkspaceProvider } from '../workspace-provider';
+import { StatusStrip } from '../status-strip';
 import { SaveControls } from './save-controls';
-import { useDraft } from './use-draft';
+import { useAutosavedDraft } from './use-autosaved-draft';
 import { AreaBody } from './area-slots';
-import { AreaTabs, type AreaId } from './area-tabs';
+import { AreaTabs, type AreaId } from '../area-tabs';
 
 /** The client island of the workspace page: one store, one engine worker, six areas. */
 export function Workspace({ init, cellName }: { init: WorkspaceInit; cellName: string }) {
@@ -33,7 +33,7 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
   const engineStatus = useWorkspace((s) => s.engine.status);
   const problemCount = useWorkspace((s) => s.engine.problems.length);
   const rejection = useWorkspace((s) => s.engine.lastRejection);
-  const draft = useDraft();
+  const draft = useAutosavedDraft();
 
   // Ctrl/Cmd+Z undo, Ctrl/Cmd+Shift+Z or Ctrl+Y redo — except inside text fields, which keep their own undo.
   useEffect(() => {

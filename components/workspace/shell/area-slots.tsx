@@ -5,7 +5,7 @@ import { PanelArea } from '@/components/panel/panel-area';
 import { FieldArea } from '@/components/field/field-area';
 import { MonitorArea } from '@/components/monitor/monitor-area';
 import { ScopeArea } from '@/components/scope/scope-area';
-import type { AreaId } from './area-tabs';
+import type { AreaId } from '../area-tabs';
 
 function Loading({ what }: { what: string }) {
   return <p className="p-6 text-sm text-slate-500">Loading the {what}…</p>;
