@@ -1,6 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { CellDocument } from '@/simulator';
+import { upgradeCellDocument } from '@/simulator';
 import { db } from './knex';
 import { isUuid } from './users';
 
@@ -234,7 +235,8 @@ export async function getVersion(cellId: string, version?: number): Promise<Cell
   if (version !== undefined) q.where('v.version', version);
   else q.orderBy('v.version', 'desc');
   const row = await q.first();
-  return row ? { ...toMeta(row), document: row.document as CellDocument } : null;
+  // A row written under an older schema version (before its migration, or by an older process) reads as the current one.
+  return row ? { ...toMeta(row), document: upgradeCellDocument(row.document) as CellDocument } : null;
 }
 
 export async function countVersions(cellId: string): Promise<number> {

@@ -1,6 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { CellDocument } from '@/simulator';
+import { upgradeCellDocument } from '@/simulator';
 import type { Role } from '@/lib/roles';
 import type {
   Changeover,
@@ -346,7 +347,7 @@ export async function rollBackChangeover(id: string, actorId: string): Promise<R
       await trx('cell_versions').insert({
         cell_id: row.cell_id,
         version,
-        document: JSON.stringify(base.document as CellDocument),
+        document: JSON.stringify(upgradeCellDocument(base.document) as CellDocument),
         author_id: actorId,
         message: `${verb} changeover "${row.title}": version ${row.base_version} restored`,
       });
@@ -363,7 +364,7 @@ export async function rollBackChangeover(id: string, actorId: string): Promise<R
 /** Two versions' documents (base and proposal) of one cell, in one query. */
 export async function versionDocuments(cellId: string, versions: number[]): Promise<Map<number, CellDocument>> {
   const rows = await db()('cell_versions').where({ cell_id: cellId }).whereIn('version', versions).select('version', 'document');
-  return new Map(rows.map((r) => [r.version as number, r.document as CellDocument]));
+  return new Map(rows.map((r) => [r.version as number, upgradeCellDocument(r.document) as CellDocument]));
 }
 
 /** People who may be asked to countersign: active leads, trainers and admins other than `exceptId`. */

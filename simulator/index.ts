@@ -48,6 +48,10 @@ export {
   validateCellDocument,
 } from './schema/validate';
 export {
+  /** A document written under an older schema version, brought up to the current one (anything else unchanged). */
+  upgradeCellDocument,
+} from './schema/upgrade';
+export {
   /** The terminals of a device by its type: name, direction (in/out) and what flows (contact, sensor, analog, load, word). */
   deviceTerminals,
 } from './schema/terminals';

@@ -18,12 +18,12 @@ describe('marks on the changeover canvas', () => {
     const proposed = structuredClone(base);
     proposed.plc.sheet.blocks = proposed.plc.sheet.blocks.filter((b) => b.id !== 'readyLampCoil');
     proposed.plc.sheet.connections = proposed.plc.sheet.connections.filter((c) => c.id !== 'c21');
-    proposed.plc.sheet.blocks.find((b) => b.id === 'jobWord')!.position = { x: 700, y: 1000 };
+    proposed.plc.sheet.blocks.find((b) => b.id === 'recipeWord')!.position = { x: 700, y: 1000 };
     const m = logicMarks(diffCells(base, proposed).areas.logic);
     expect(m.base.blocks.get('readyLampCoil')).toBe('removed');
     expect(m.base.connections.get('c21')).toBe('removed');
     expect(m.proposed.blocks.has('readyLampCoil')).toBe(false);
-    expect(m.proposed.blocks.get('jobWord')).toBe('moved');
-    expect(m.base.blocks.has('jobWord')).toBe(false);
+    expect(m.proposed.blocks.get('recipeWord')).toBe('moved');
+    expect(m.base.blocks.has('recipeWord')).toBe(false);
   });
 });

@@ -74,7 +74,7 @@ describe('workspace store: Download to PLC', () => {
     store.getState().editDocument((d) => withDebounce(d), 'Debounce');
     expect(store.getState().downloadEdits(['logic'])).toBeNull();
     // An edit kept off the engine (engine: 'keep') is downloadable without a reset.
-    store.getState().editDocument((d) => ({ ...d, wiring: d.wiring.filter((w) => w.id !== 'w-job2') }), 'Remove a row', { engine: 'keep' });
+    store.getState().editDocument((d) => ({ ...d, wiring: d.wiring.filter((w) => w.id !== 'w-recipe2') }), 'Remove a row', { engine: 'keep' });
     expect(store.getState().downloadEdits(['wiring'])?.wiring).toHaveLength(pickAndPlaceCell.wiring.length - 1);
     expect(sent).toHaveLength(1);
   });
@@ -209,11 +209,11 @@ describe('workspace store: edits that wait for a download (practice, preview)', 
     // 1: bad logic + a wiring change; 2: wiring changed again (logic untouched since 1).
     store.getState().editDocument((d) => {
       d.plc.sheet = danglingSheet(d);
-      d.wiring = d.wiring.filter((w) => w.id !== 'w-job2');
+      d.wiring = d.wiring.filter((w) => w.id !== 'w-recipe2');
     }, 'Two parts');
     store.getState().downloadEdits(['logic', 'wiring']);
     store.getState().editDocument((d) => {
-      d.wiring = d.wiring.filter((w) => w.id !== 'w-job2' && w.id !== d.wiring[0].id);
+      d.wiring = d.wiring.filter((w) => w.id !== 'w-recipe2' && w.id !== d.wiring[0].id);
     }, 'Another row');
     const second = store.getState().downloadEdits(['logic', 'wiring']);
     expect(second && Object.keys(second).sort()).toEqual(['type', 'wiring']);

@@ -3,7 +3,7 @@
  * per base version, so a reload (or a crash) loses nothing. A draft for an older base version
  * stays under its own key and is never applied over a newer version by accident.
  */
-import { cellDocumentSchema, type CellDocument } from '@/simulator';
+import { cellDocumentSchema, upgradeCellDocument, type CellDocument } from '@/simulator';
 
 /** Key prefix in localStorage. */
 export const DRAFT_PREFIX = 'cellwright:draft:';
@@ -36,7 +36,8 @@ export function readDraft(storage: Storage, cellId: string, version: number): Dr
   if (!raw) return null;
   try {
     const parsed = JSON.parse(raw) as { document?: unknown; savedAt?: unknown };
-    const doc = cellDocumentSchema.safeParse(parsed.document);
+    // A draft kept from before a schema change still restores.
+    const doc = cellDocumentSchema.safeParse(upgradeCellDocument(parsed.document));
     if (!doc.success || typeof parsed.savedAt !== 'string') throw new Error('invalid draft');
     return { document: doc.data, savedAt: parsed.savedAt };
   } catch {

@@ -22,8 +22,8 @@ describe('signalLabels on the pick-and-place demo', () => {
     // w-green: %QX1.2 → stack:tier2; tiers are ['red', 'yellow', 'green'].
     expect(labels['%QX1.2']).toBe('Cell status green tier (stack:tier2)');
     expect(labels['%QX1.0']).toBe('Cell status red tier (stack:tier0)');
-    // w-job2: job:pos1 → %IX0.6; positions are ['Job 1', 'Job 2'].
-    expect(labels['%IX0.6']).toBe('Job: Job 2 (job:pos1)');
+    // w-recipe2: recipe:pos1 → %IX0.6; positions are ['Recipe 1', 'Recipe 2'].
+    expect(labels['%IX0.6']).toBe('Recipe: Recipe 2 (recipe:pos1)');
     // w-readylamp: %QX1.3 → readyLamp:lamp; a pilot light has one terminal, so no terminal word.
     expect(labels['%QX1.3']).toBe('Robot ready (readyLamp:lamp)');
   });
@@ -33,14 +33,14 @@ describe('signalLabels on the pick-and-place demo', () => {
     expect(labels['%QX0.0']).toBe('DI1 Start (R0.S1.C0)');
     // l-ready: R0.S2.C0 → %IX1.0; pm-do puts DO1 "Ready" on rack 0 slot 2 channel 0.
     expect(labels['%IX1.0']).toBe('DO1 Ready (R0.S2.C0)');
-    // l-job: %QW2 → R0.S1.C8 over 4 bits; pm-wi puts WI1 "Job number" on channels 8..11.
-    expect(labels['%QW2']).toBe('WI1 Job number (R0.S1.C8)');
+    // l-recipe: %QW2 → R0.S1.C8 over 4 bits; pm-wi puts WI1 "Recipe number" on channels 8..11.
+    expect(labels['%QW2']).toBe('WI1 Recipe number (R0.S1.C8)');
   });
 
   it('names every controller point by its point-map label', () => {
     expect(labels.DO1).toBe('Ready');
     expect(labels.DI5).toBe('E-stop chain healthy');
-    expect(labels.WI1).toBe('Job number');
+    expect(labels.WI1).toBe('Recipe number');
     expect(labels.TO1).toBe('Gripper close');
     expect(labels.TI2).toBe('Gripper open');
     // pm-di maps 6 DI points, pm-do 7 DO, pm-wi 1 WI, pm-to 1 TO, pm-ti 2 TI: 17 points.

@@ -19,7 +19,7 @@ export const DEMO_CHANGEOVER = {
   description:
     'Line 3 gets a second guard door at the rear (parts infeed). Its NC guard switch lands on %IX0.7 and is ANDed into ' +
     'the start permit; an open rear door also lights the yellow tier. At the same shutdown the controller\'s digital-input ' +
-    'card moves from slot 1 to slot 5 (slot 1 has a bent backplane pin), so every point of DI1–DI6 and the job word is ' +
+    'card moves from slot 1 to slot 5 (slot 1 has a bent backplane pin), so every point of DI1–DI6 and the recipe word is ' +
     're-terminated on the new card. Weekend shutdown, planned Saturday 06:00.',
   proposalMessage: 'Rear guard door on %IX0.7 (start permit, yellow tier); DI card from slot 1 to slot 5',
 } as const;

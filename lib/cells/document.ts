@@ -6,13 +6,15 @@
  *   graph): reported back as `problems` but saved, because a half-wired cell is normal work
  *   in progress and refusing the save would risk losing it.
  */
-import { CELL_LIMITS, cellDocumentSchema, validateCellDocument } from '@/simulator';
+import { CELL_LIMITS, cellDocumentSchema, upgradeCellDocument, validateCellDocument } from '@/simulator';
 import type { CellDocument, Problem } from '@/simulator';
 
 export type CheckedDocument = { ok: true; document: CellDocument; problems: Problem[] } | { ok: false; problems: Problem[] };
 
 /** Shape-checks a document of unknown type and lists its cross-reference problems. */
-export function checkDocument(input: unknown): CheckedDocument {
+export function checkDocument(raw: unknown): CheckedDocument {
+  // A document exported under an older schema version (say, before a role was renamed) still imports.
+  const input = upgradeCellDocument(raw);
   const size = JSON.stringify(input ?? null).length;
   if (size > CELL_LIMITS.documentChars) {
     return { ok: false, problems: [{ path: [], code: 'too_large', message: `the document has ${size} characters; the limit is ${CELL_LIMITS.documentChars}` }] };

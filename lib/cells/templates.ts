@@ -34,7 +34,7 @@ function bareController(): CellDocumentInput['controller'] {
 
 function blankCell(name: string): CellDocumentInput {
   return {
-    schemaVersion: 1,
+    schemaVersion: 2,
     id: 'blank-cell',
     name,
     seed: 1,

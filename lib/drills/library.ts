@@ -16,7 +16,7 @@ type CellDocumentInput = typeof pickAndPlaceCell;
 import type { DrillInput, WeightedRule } from '@/lib/schemas/drills';
 
 /** Base documents the library needs besides the plain demo cell. */
-export type LibraryBase = 'pick-and-place' | 'staged-restart' | 'job-encoding' | 'air-pressure';
+export type LibraryBase = 'pick-and-place' | 'staged-restart' | 'recipe-encoding' | 'air-pressure';
 
 export interface LibraryDrill {
   key: string;
@@ -29,14 +29,14 @@ const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 /** Names of the variant cells the seed creates for the drills that need them. */
 export const LIBRARY_BASE_NAMES: Record<Exclude<LibraryBase, 'pick-and-place'>, string> = {
   'staged-restart': 'Drill base — Cell B after the I/O card move',
-  'job-encoding': 'Drill base — Cell B with the new job selector',
+  'recipe-encoding': 'Drill base — Cell B with the new recipe selector',
   'air-pressure': 'Drill base — Cell B with supply air monitoring',
 };
 
 /**
  * The variant documents. staged-restart: the digital-input row was moved one channel up
  * (points count from 1, channels from 0 — the classic slip) and the correction was staged but
- * the controller never restarted. job-encoding: the job word is read as Gray code while the PLC
+ * the controller never restarted. recipe-encoding: the recipe word is read as Gray code while the PLC
  * sends binary. air-pressure: a 4–20 mA supply-air transmitter (modelled with the engine's
  * analog dial device) on a new analog input module at %IW4.
  */
@@ -49,10 +49,10 @@ export function libraryBaseDocument(base: LibraryBase): CellDocumentInput {
     di.firstChannel = 1;
     doc.id = 'kestrel-vale-cell-b-staged';
     doc.name = LIBRARY_BASE_NAMES['staged-restart'];
-  } else if (base === 'job-encoding') {
+  } else if (base === 'recipe-encoding') {
     doc.controller.pointMap.find((r) => r.id === 'pm-wi')!.encoding = 'gray';
-    doc.id = 'kestrel-vale-cell-b-job-encoding';
-    doc.name = LIBRARY_BASE_NAMES['job-encoding'];
+    doc.id = 'kestrel-vale-cell-b-recipe-encoding';
+    doc.name = LIBRARY_BASE_NAMES['recipe-encoding'];
   } else if (base === 'air-pressure') {
     doc.panel.push({
       id: 'airPressure',
@@ -173,13 +173,13 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     },
   },
   {
-    key: 'job-word-encoding',
-    base: 'job-encoding',
+    key: 'recipe-word-encoding',
+    base: 'recipe-encoding',
     input: {
-      title: 'Job 2 parts land on place 1',
-      brief: `## Wrong place\n\nSince the controller's job input was reconfigured, parts for job 2 end up at place 1. Job 1 still works.\n\nFind the cause from the job word's bits and what the controller makes of them, correct it, and place one job-2 part at place 2.\n\n${CAUTION}`,
+      title: 'Recipe 2 parts land on place 1',
+      brief: `## Wrong place\n\nSince the controller's recipe input was reconfigured, parts for recipe 2 end up at place 1. Recipe 1 still works.\n\nFind the cause from the recipe word's bits and what the controller makes of them, correct it, and place one recipe-2 part at place 2.\n\n${CAUTION}`,
       faults: [],
-      objectives: ['Select job 2 and read the job word bits and the value the controller decodes.', 'Correct the configuration (a controller restart applies point-map changes).', 'Place one part at place 2.', 'Name the fault and the point-map row.'],
+      objectives: ['Select recipe 2 and read the recipe word bits and the value the controller decodes.', 'Correct the configuration (a controller restart applies point-map changes).', 'Place one part at place 2.', 'Name the fault and the point-map row.'],
       rules: [
         GUARD_RULE,
         {

@@ -175,9 +175,9 @@ describe('demo cell handshake end to end', () => {
     expect(cell.snapshot().arm.moving).toBe(false);
   });
 
-  it('the job number word selects the place pose (job 2 → place 2)', () => {
+  it('the recipe number word selects the place pose (recipe 2 → place 2)', () => {
     const cell = make();
-    ok(cell.apply({ type: 'set-selector', device: 'job', position: 1 }));
+    ok(cell.apply({ type: 'set-selector', device: 'recipe', position: 1 }));
     startCycle(cell);
     let reachedPlace2 = false;
     for (let i = 0; i < 300 && cell.snapshot().controller.cyclesCompleted === 0; i++) {

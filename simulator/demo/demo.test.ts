@@ -24,7 +24,7 @@ describe('demo cells', () => {
     expect(d.panel.some((x) => x.type === 'stack-light')).toBe(true);
     expect(d.field.map((x) => x.type).sort()).toEqual(['gripper', 'guard-switch', 'part-sensor']);
     expect(d.controller.routine.length).toBeGreaterThanOrEqual(4);
-    expect(d.controller.handshake.inputs.job).toBe('WI1');
+    expect(d.controller.handshake.inputs.recipe).toBe('WI1');
     expect(v.value.plans.length).toBe(d.wiring.length);
   });
 

@@ -1,7 +1,7 @@
 /**
  * Demo cell (a): the pick-and-place trainer of "Cell B" at Kestrel Vale Technical College, an
  * invented school. A 2-axis arm picks a part from the pick station and sets it down at one of
- * two places chosen by a job number; the PLC gates the robot with the usual interlocks.
+ * two places chosen by a recipe number; the PLC gates the robot with the usual interlocks.
  *
  * Interlocks modelled (a training model, not a safety function):
  * - e-stop: a two-channel NC e-stop; channel 1 to the PLC, channel 2 straight to the
@@ -27,11 +27,11 @@ const pos = () => at(40 + 120 * (px++ % 6), 60);
 
 /** The pick-and-place demo cell document. */
 export const pickAndPlaceCell: CellDocumentInput = {
-  schemaVersion: 1,
+  schemaVersion: 2,
   id: 'kestrel-vale-cell-b',
   name: 'Kestrel Vale Cell B — pick and place',
   description:
-    'Invented trainer cell: a 2-axis arm moves parts from the pick station to place 1 or place 2 (job number 1 or 2). ' +
+    'Invented trainer cell: a 2-axis arm moves parts from the pick station to place 1 or place 2 (recipe number 1 or 2). ' +
     'Start, NC stop, two-channel NC e-stop, guard switch, part sensor, gripper with feedback, stack light.',
   seed: 20260301,
   panel: [
@@ -39,7 +39,7 @@ export const pickAndPlaceCell: CellDocumentInput = {
     { id: 'stop', type: 'push-button', label: 'Cycle stop', colour: 'red', position: pos(), contact: 'NC', action: 'momentary', function: 'stop' },
     { id: 'reset', type: 'push-button', label: 'Fault reset', colour: 'blue', position: pos(), contact: 'NO', action: 'momentary', function: 'reset' },
     { id: 'estop', type: 'e-stop', label: 'Emergency stop', colour: 'red', position: pos() },
-    { id: 'job', type: 'selector-switch', label: 'Job', colour: 'black', position: pos(), positions: ['Job 1', 'Job 2'] },
+    { id: 'recipe', type: 'selector-switch', label: 'Recipe', colour: 'black', position: pos(), positions: ['Recipe 1', 'Recipe 2'] },
     { id: 'readyLamp', type: 'pilot-light', label: 'Robot ready', colour: 'white', position: pos() },
     { id: 'stack', type: 'stack-light', label: 'Cell status', colour: 'grey', position: at(760, 20), tiers: ['red', 'yellow', 'green'] },
   ],
@@ -90,11 +90,11 @@ export const pickAndPlaceCell: CellDocumentInput = {
         { id: 'stackGreen', type: 'COIL', position: at(600, 860), params: { address: '%QX1.2' } },
         { id: 'readyPass', type: 'NO_CONTACT', position: at(0, 920), params: { address: '%IX1.0' } },
         { id: 'readyLampCoil', type: 'COIL', position: at(600, 920), params: { address: '%QX1.3' } },
-        { id: 'job2Selected', type: 'NO_CONTACT', position: at(0, 980), params: { address: '%IX0.6' } },
-        { id: 'jobOne', type: 'CONST', position: at(160, 1000), params: { value: 1 } },
-        { id: 'jobTwo', type: 'CONST', position: at(160, 1060), params: { value: 2 } },
-        { id: 'jobSelect', type: 'SEL', position: at(300, 1000), params: {} },
-        { id: 'jobWord', type: 'WORD_OUT', position: at(600, 1000), params: { address: '%QW2' } },
+        { id: 'recipe2Selected', type: 'NO_CONTACT', position: at(0, 980), params: { address: '%IX0.6' } },
+        { id: 'recipeOne', type: 'CONST', position: at(160, 1000), params: { value: 1 } },
+        { id: 'recipeTwo', type: 'CONST', position: at(160, 1060), params: { value: 2 } },
+        { id: 'recipeSelect', type: 'SEL', position: at(300, 1000), params: {} },
+        { id: 'recipeWord', type: 'WORD_OUT', position: at(600, 1000), params: { address: '%QW2' } },
       ],
       connections: [
         { id: 'c1', from: { block: 'robotReady', port: 'Q' }, to: { block: 'readyAndPart', port: 'IN1' } },
@@ -120,10 +120,10 @@ export const pickAndPlaceCell: CellDocumentInput = {
         { id: 'c19', from: { block: 'yellowNeeded', port: 'Q' }, to: { block: 'stackYellow', port: 'IN' } },
         { id: 'c20', from: { block: 'cyclingLamp', port: 'Q' }, to: { block: 'stackGreen', port: 'IN' } },
         { id: 'c21', from: { block: 'readyPass', port: 'Q' }, to: { block: 'readyLampCoil', port: 'IN' } },
-        { id: 'c22', from: { block: 'job2Selected', port: 'Q' }, to: { block: 'jobSelect', port: 'G' } },
-        { id: 'c23', from: { block: 'jobOne', port: 'OUT' }, to: { block: 'jobSelect', port: 'IN0' } },
-        { id: 'c24', from: { block: 'jobTwo', port: 'OUT' }, to: { block: 'jobSelect', port: 'IN1' } },
-        { id: 'c25', from: { block: 'jobSelect', port: 'OUT' }, to: { block: 'jobWord', port: 'IN' } },
+        { id: 'c22', from: { block: 'recipe2Selected', port: 'Q' }, to: { block: 'recipeSelect', port: 'G' } },
+        { id: 'c23', from: { block: 'recipeOne', port: 'OUT' }, to: { block: 'recipeSelect', port: 'IN0' } },
+        { id: 'c24', from: { block: 'recipeTwo', port: 'OUT' }, to: { block: 'recipeSelect', port: 'IN1' } },
+        { id: 'c25', from: { block: 'recipeSelect', port: 'OUT' }, to: { block: 'recipeWord', port: 'IN' } },
       ],
     },
   },
@@ -134,14 +134,14 @@ export const pickAndPlaceCell: CellDocumentInput = {
     { id: 'w-reset', from: { device: 'reset', terminal: 'contact' }, to: { plc: '%IX0.3' } },
     { id: 'w-guard', from: { device: 'guard', terminal: 'contact' }, to: { plc: '%IX0.4' } },
     { id: 'w-part', from: { device: 'part', terminal: 'out' }, to: { plc: '%IX0.5' } },
-    { id: 'w-job2', from: { device: 'job', terminal: 'pos1' }, to: { plc: '%IX0.6' } },
+    { id: 'w-recipe2', from: { device: 'recipe', terminal: 'pos1' }, to: { plc: '%IX0.6' } },
     { id: 'w-estop2', from: { device: 'estop', terminal: 'contact' }, to: { controller: { rack: 0, slot: 1, channel: 4 } } },
     { id: 'l-start', from: { plc: '%QX0.0' }, to: { controller: { rack: 0, slot: 1, channel: 0 } } },
     { id: 'l-stop', from: { plc: '%QX0.1' }, to: { controller: { rack: 0, slot: 1, channel: 1 } } },
     { id: 'l-reset', from: { plc: '%QX0.2' }, to: { controller: { rack: 0, slot: 1, channel: 2 } } },
     { id: 'l-guard', from: { plc: '%QX0.3' }, to: { controller: { rack: 0, slot: 1, channel: 3 } } },
     { id: 'l-part', from: { plc: '%QX0.5' }, to: { controller: { rack: 0, slot: 1, channel: 5 } } },
-    { id: 'l-job', from: { plc: '%QW2' }, to: { controller: { rack: 0, slot: 1, channel: 8 } }, bits: 4 },
+    { id: 'l-recipe', from: { plc: '%QW2' }, to: { controller: { rack: 0, slot: 1, channel: 8 } }, bits: 4 },
     { id: 'l-ready', from: { controller: { rack: 0, slot: 2, channel: 0 } }, to: { plc: '%IX1.0' } },
     { id: 'l-home', from: { controller: { rack: 0, slot: 2, channel: 1 } }, to: { plc: '%IX1.1' } },
     { id: 'l-cycling', from: { controller: { rack: 0, slot: 2, channel: 2 } }, to: { plc: '%IX1.2' } },
@@ -182,7 +182,7 @@ export const pickAndPlaceCell: CellDocumentInput = {
         firstChannel: 0,
         points: [{ label: 'Start' }, { label: 'Stop request' }, { label: 'Fault reset' }, { label: 'Guard closed' }, { label: 'E-stop chain healthy' }, { label: 'Part present' }],
       },
-      { id: 'pm-wi', family: 'WI', first: 1, count: 1, rack: 0, slot: 1, firstChannel: 8, bits: 4, encoding: 'binary', points: [{ label: 'Job number' }] },
+      { id: 'pm-wi', family: 'WI', first: 1, count: 1, rack: 0, slot: 1, firstChannel: 8, bits: 4, encoding: 'binary', points: [{ label: 'Recipe number' }] },
       {
         id: 'pm-do',
         family: 'DO',
@@ -198,7 +198,7 @@ export const pickAndPlaceCell: CellDocumentInput = {
     ],
     staged: null,
     handshake: {
-      inputs: { start: 'DI1', stop: 'DI2', faultReset: 'DI3', guardClosed: 'DI4', estopHealthy: 'DI5', partPresent: 'DI6', job: 'WI1', partHeld: 'TI1' },
+      inputs: { start: 'DI1', stop: 'DI2', faultReset: 'DI3', guardClosed: 'DI4', estopHealthy: 'DI5', partPresent: 'DI6', recipe: 'WI1', partHeld: 'TI1' },
       outputs: { ready: 'DO1', atHome: 'DO2', cycling: 'DO3', atPosition: 'DO4', partHeld: 'DO5', cycleDone: 'DO6', fault: 'DO7' },
     },
     routine: [

@@ -9,7 +9,7 @@ const at = (x: number, y: number) => ({ x, y });
 
 /** The panel-only starter exercise document. */
 export const starterCell: CellDocumentInput = {
-  schemaVersion: 1,
+  schemaVersion: 2,
   id: 'kestrel-vale-starter',
   name: 'Kestrel Vale starter exercise — start/stop with seal-in',
   description:

@@ -11,6 +11,7 @@
 import type { Problem } from '@/simulator/shared/result';
 import { cellDocumentSchema, type CellDocument } from '@/simulator/schema/cell-document';
 import { documentTooLarge, zodProblems } from '@/simulator/schema/validate';
+import { upgradeCellDocument } from '@/simulator/schema/upgrade';
 import { diffCells } from './diff-cell';
 import { ioChangeSheet } from './io-sheet';
 
@@ -47,7 +48,7 @@ function load(path: string, document: 'base' | 'proposed', io: DiffCliIo): Loade
   }
   // Only the shape is required: a proposed version still being edited (say, a connection to a
   // block not placed yet) can be compared; `validate` reports its cross-reference problems.
-  const parsed = cellDocumentSchema.safeParse(json);
+  const parsed = cellDocumentSchema.safeParse(upgradeCellDocument(json));
   if (!parsed.success) {
     return { ok: false, exit: 1, problems: zodProblems(parsed.error.issues).map((p) => ({ ...p, document, at: p.path.join('.') })) };
   }

@@ -129,7 +129,7 @@ describe('diffCells', () => {
     expect(c12.changes).toEqual([{ path: 'from', from: { block: 'guardPass', port: 'Q' }, to: { block: 'guardOk', port: 'Q' } }]);
     expect(c12.detail).toContain('re-pointed');
     const moved = all(d).filter((e) => e.kind === 'moved');
-    expect(moved.map((e) => e.id)).toEqual(['jobWord']);
+    expect(moved.map((e) => e.id)).toEqual(['recipeWord']);
     expect(moved[0]).toMatchObject({ importance: 'low', changes: [{ path: 'position', from: { x: 600, y: 1000 }, to: { x: 640, y: 1000 } }] });
     expect(all(d).filter((e) => e.importance === 'low')).toEqual(moved);
   });

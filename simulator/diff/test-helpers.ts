@@ -13,7 +13,7 @@ export function parsedCell(input: CellDocumentInput = pickAndPlaceCell): CellDoc
 }
 
 /** Ids of the wiring rows that land on the controller's digital input card (rack 0, slot 1). */
-export const INPUT_CARD_ROWS = ['w-estop2', 'l-start', 'l-stop', 'l-reset', 'l-guard', 'l-part', 'l-job'] as const;
+export const INPUT_CARD_ROWS = ['w-estop2', 'l-start', 'l-stop', 'l-reset', 'l-guard', 'l-part', 'l-recipe'] as const;
 
 /**
  * The changeover proposal for Kestrel Vale Cell B (invented):
@@ -26,7 +26,7 @@ export const INPUT_CARD_ROWS = ['w-estop2', 'l-start', 'l-stop', 'l-reset', 'l-g
  * 5. routine step 5 (wait for the gripper to close) timeout 2000 → 3000 ms;
  * 6. handshake role `guardClosed` re-pointed from DI4 to a new point DI7 "Guards closed",
  *    driven by %QX0.6 over a new link wire `l-guards`;
- * and the `jobWord` block dragged on the canvas (a low-importance move).
+ * and the `recipeWord` block dragged on the canvas (a low-importance move).
  */
 export function changeoverProposal(base: CellDocument): CellDocument {
   const p = structuredClone(base);
@@ -62,6 +62,6 @@ export function changeoverProposal(base: CellDocument): CellDocument {
   p.wiring.push({ id: 'l-guards', from: { plc: '%QX0.6' }, to: { controller: { rack: 0, slot: 5, channel: 6 } } });
   p.controller.handshake.inputs.guardClosed = 'DI7';
   // a canvas move
-  p.plc.sheet.blocks.find((b) => b.id === 'jobWord')!.position = { x: 640, y: 1000 };
+  p.plc.sheet.blocks.find((b) => b.id === 'recipeWord')!.position = { x: 640, y: 1000 };
   return p;
 }

@@ -73,7 +73,7 @@ describe('plain English', () => {
       '%QX0.0': 'Running',
     });
     // pick-and-place.ts: %QX0.0 runs to controller channel 0, point-map label "Start"; the
-    // job word's bits have no single-bit label, so their WORD_OUT block gives none either.
+    // recipe word's bits have no single-bit label, so their WORD_OUT block gives none either.
     const labels = signalLabels(pickAndPlaceCell as Parameters<typeof signalLabels>[0]);
     expect(labels['%QX0.0']).toBe('controller Start');
     expect(labels['%QX2.0']).toBeUndefined();

@@ -8,8 +8,12 @@ import { logicSheetSchema } from '@/simulator/plc/sheet-schema';
 import { parseAddressCached } from '@/simulator/address/address';
 import { CELL_LIMITS as L } from './limits';
 
-/** Current schema version; documents with another version are rejected with a path. */
-export const CELL_SCHEMA_VERSION = 1 as const;
+/**
+ * Current schema version. Older documents are brought up to it by `upgradeCellDocument`
+ * (upgrade.ts) before they are parsed; any other version is rejected with a path.
+ * 2: the handshake input role `job` is called `recipe`.
+ */
+export const CELL_SCHEMA_VERSION = 2 as const;
 
 const idSchema = z
   .string()
@@ -248,7 +252,8 @@ export const handshakeSchema = z.object({
       start: pointRefSchema,
       stop: pointRefSchema,
       faultReset: pointRefSchema,
-      job: pointRefSchema,
+      /** The word point carrying the recipe number the PLC selects (which part, which place). */
+      recipe: pointRefSchema,
       guardClosed: pointRefSchema,
       estopHealthy: pointRefSchema,
       partPresent: pointRefSchema,

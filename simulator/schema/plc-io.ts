@@ -27,7 +27,7 @@ export function plcModuleFor(modules: readonly PlcModule[], a: Address): PlcIoHi
     const first = (a.byte - m.address) * 8 + (a.size === 'X' ? (a.bit ?? 0) : 0);
     const width = a.size === 'X' ? 1 : a.size === 'B' ? 8 : a.size === 'W' ? 16 : 32;
     if (first >= 0 && first + width <= m.channels) return { module: m, channel: first, width };
-    // A word may be wired with fewer bits than it has (a 4-bit job number on %QW1):
+    // A word may be wired with fewer bits than it has (a 4-bit recipe number on %QW1):
     // accept when at least its first bit is on the module; the row's `bits` are checked later.
     if (first >= 0 && first < m.channels && width > 1) return { module: m, channel: first, width: m.channels - first };
   }

@@ -14,6 +14,7 @@ import { cellDocumentSchema, type CellDocument, type ControllerConfig, type Poin
 import { CELL_LIMITS } from './limits';
 import { plcModuleBytes, plcModuleFor } from './plc-io';
 import { documentWarnings } from './warnings';
+import { upgradeCellDocument } from './upgrade';
 import { planRow, sinkKeys, wiringLookups, type RowPlan } from './wiring-plan';
 import { INPUT_FAMILIES, parsePointRef, validatePointMap, type PointUse } from '@/simulator/controller/point-map';
 
@@ -31,12 +32,14 @@ export function zodProblems(issues: readonly z.core.$ZodIssue[], prefix: (string
 }
 
 /**
- * Validates a cell document of unknown shape. On success returns the parsed document with
- * its compiled logic sheet and wiring plans; on failure every problem with its path.
+ * Validates a cell document of unknown shape. A document of an older schema version is
+ * upgraded first (`upgradeCellDocument`). On success returns the parsed document (at the
+ * current version) with its compiled logic sheet and wiring plans; on failure every problem
+ * with its path.
  */
 export function validateCellDocument(input: unknown): Result<ValidatedCell, Problem> {
   try {
-    return validateInner(input);
+    return validateInner(upgradeCellDocument(input));
   } catch (e) {
     // Defensive: a validator must never crash its caller, whatever the input.
     return { ok: false, errors: [{ path: [], code: 'internal_error', message: `validation failed unexpectedly: ${e instanceof Error ? e.message : String(e)}` }] };

@@ -125,7 +125,7 @@ describe('PLC link', () => {
     // Inputs the PLC reads: e-stop chain healthy (%IX0.2), guard closed (%IX0.4), part (%IX0.5).
     const inputs = await client.readDiscreteInputs(0, 16);
     expect(inputs.data.slice(0, 8)).toEqual([false, true, true, false, true, true, false, false]);
-    // What the demo's sheet would write: guard pass-through, part pass-through, no stop, job 1.
+    // What the demo's sheet would write: guard pass-through, part pass-through, no stop, recipe 1.
     await client.writeCoils(0, [false, false, false, true, false, true, false, false]);
     // A PLC rewrites every output each scan: the same values again change nothing.
     await client.writeCoils(0, [false, false, false, true, false, true, false, false]);
