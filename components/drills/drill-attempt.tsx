@@ -29,7 +29,7 @@ type RunAnswer = { run: { id: string; status: string; lastSeq: number; untilMs: 
 
 /**
  * Which workspace areas a drill's permissions open. Edits reach the server's cell as events:
- * point-map edits as staged rows, logic/wiring/routine edits as a `download` ("Download to PLC").
+ * point-map edits as staged rows, logic/wiring/routine edits as a `download` ("Send to cell").
  */
 export function areaEditing(editable: readonly string[]): AreaEditing {
   return { controller: editable.includes('point-map') || editable.includes('routine'), logic: editable.includes('logic'), field: editable.includes('wiring') };
@@ -132,7 +132,7 @@ function AttemptHeader({ payload, remote, runId, options }: { payload: StudentDr
                 <li>{drill.permissions.forceAllowed ? 'Force points from the monitor' : 'Not force points (this drill does not allow it)'}</li>
                 <li>{drill.permissions.editable.includes('point-map') ? 'Stage point-map changes and restart the controller' : 'Not change the point map'}</li>
                 {downloadableAreas(drill.permissions.editable).length > 0 ? (
-                  <li>Edit the {downloadableAreas(drill.permissions.editable).join(', ')} and send it to the running cell with “Download to PLC”</li>
+                  <li>Edit the {downloadableAreas(drill.permissions.editable).join(', ')} and send it to the running cell with “Send to cell”</li>
                 ) : null}
               </ul>
             </div>

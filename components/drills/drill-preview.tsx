@@ -3,7 +3,7 @@
  * "Preview as student": the drill's workspace with the student's permissions, but run in this
  * browser's engine worker with the hidden fault cards injected at time 0 and shown to the
  * trainer live. The preview is recorded like free practice (its own run), so it can be replayed.
- * Edits behave as in the student's attempt: they stay in the browser until "Download to PLC"
+ * Edits behave as in the student's attempt: they stay in the browser until "Send to cell"
  * sends the parts the drill lets the student download; nothing restarts the run at time 0.
  */
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';

@@ -233,8 +233,9 @@ function LogicCanvas() {
 
   return (
     <LogicActionsContext.Provider value={actions}>
-      <div className="flex h-full min-h-[560px] w-full overflow-hidden rounded-md border border-slate-300 bg-white" data-testid="logic-area">
-        <nav aria-label="Block palette" className="w-44 shrink-0 overflow-y-auto border-r border-slate-200 bg-slate-50 p-2">
+      {/* Below the large breakpoint the palette sits above the sheet and the details below it, so the canvas keeps its width. */}
+      <div className="flex h-full min-h-[560px] w-full flex-col overflow-hidden rounded-md border border-slate-300 bg-white lg:flex-row" data-testid="logic-area">
+        <nav aria-label="Block palette" className="max-h-44 shrink-0 overflow-y-auto border-b border-slate-200 bg-slate-50 p-2 lg:max-h-none lg:w-44 lg:border-b-0 lg:border-r">
           <p className="mb-2 text-xs font-semibold uppercase tracking-wide text-slate-500">Blocks</p>
           {PALETTE.map(({ group, types }) => (
             <div key={group} className="mb-2">
@@ -263,7 +264,7 @@ function LogicCanvas() {
           ))}
         </nav>
 
-        <div className="relative flex min-w-0 flex-1 flex-col">
+        <div className="relative flex min-h-[420px] min-w-0 flex-1 flex-col">
           <div className="flex flex-wrap items-center gap-3 border-b border-slate-200 px-3 py-1.5 text-sm">
             <ScanPeriod value={scanPeriod} disabled={!canEdit} onCommit={(v) => editSheet({ ...sheetRef.current, scanPeriodMs: v }, 'Set scan period')} />
             <span className="text-slate-500">
@@ -352,7 +353,7 @@ function LogicCanvas() {
           </div>
         </div>
 
-        <aside aria-label="Block details" className="w-60 shrink-0 overflow-y-auto border-l border-slate-200 bg-slate-50 p-3">
+        <aside aria-label="Block details" className="shrink-0 overflow-y-auto border-t border-slate-200 bg-slate-50 p-3 lg:w-60 lg:border-l lg:border-t-0">
           {selectedBlock ? (
             <BlockInspector
               key={selectedBlock.id}

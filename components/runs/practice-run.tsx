@@ -3,7 +3,7 @@
  * Free practice on a cell: it runs in this browser's engine worker as in the workspace, and its
  * event log is streamed to the server as a practice run, so it is saved and replayable.
  * The student may edit the logic sheet, wiring and routine (and stage point-map rows); edits
- * wait for "Download to PLC" instead of restarting the run, and the download is an event of
+ * wait for "Send to cell" instead of restarting the run, and the download is an event of
  * the log like any other, so the replay runs exactly what the student ran.
  */
 import { useCallback, useEffect, useMemo, useState } from 'react';

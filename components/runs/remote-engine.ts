@@ -13,7 +13,7 @@
  * Same `EngineConnection` shape as the worker (components/workspace/store.ts), so the areas
  * work unchanged. Document edits cannot reach the server's cell (only events can), so a
  * reload of the document is acknowledged and otherwise ignored (`keepsRunOnEdit`); an edit of
- * an editable area reaches the server as a `download` event ("Download to PLC").
+ * an editable area reaches the server as a `download` event ("Send to cell").
  */
 import { nextScanMs, type CellSnapshot, type LoggedEvent } from '@/simulator';
 import { eventRefusal, type EventPermissions } from '@/lib/runs/policy';

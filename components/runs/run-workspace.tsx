@@ -66,7 +66,7 @@ export type RunWorkspaceProps = {
   /** Rendered inside the provider (recorders, fault injection). */
   children?: ReactNode;
   /**
-   * Parts the run may download into its running cell ("Download to PLC" in the Logic, Field
+   * Parts the run may download into its running cell ("Send to cell" in the Logic, Field
    * and Controller areas while they are editable); none by default.
    */
   downloadable?: readonly DownloadArea[];

@@ -3,7 +3,7 @@
  * Saves a run that executes in the browser worker (free practice, a trainer's preview): every
  * second it reads the worker's event log and cell time from the workspace store and streams
  * what is new to the server through the batch sender, so the run can be replayed later.
- * Downloads ("Download to PLC") are events of the worker's log like any other, so they are
+ * Downloads ("Send to cell") are events of the worker's log like any other, so they are
  * stored with the run and its replay runs the downloaded parts at the same instants.
  * A restart of the cell ("Restart run", or an edit where edits reload the cell) starts its
  * clock at 0 again, which a stored run cannot follow: the recorder then opens a new run and

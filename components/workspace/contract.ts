@@ -50,7 +50,7 @@
  * stay staged without resetting the run) — the document is updated for saving and undo, the
  * run continues untouched.
  *
- * In a run whose edits wait for "Download to PLC" (`WorkspaceInit.editsWaitForDownload`: free
+ * In a run whose edits wait for "Send to cell" (`WorkspaceInit.editsWaitForDownload`: free
  * practice, a trainer's preview; a drill attempt's server-side cell always behaves so) no edit
  * (nor undo/redo) reloads the cell: `downloadEdits(areas)` sends the changed logic sheet,
  * wiring or routine as one `download` event and the run goes on. `engineDocument` is what the
@@ -209,7 +209,7 @@ export type WorkspaceActions = {
   /** Sends an event to the engine worker (logged in the run's event log); force/unforce are refused when not allowed. */
   sendEvent(event: CellEvent): void;
   /**
-   * "Download to PLC": sends the edited parts among `areas` (logic sheet, wiring, routine) that
+   * "Send to cell": sends the edited parts among `areas` (logic sheet, wiring, routine) that
    * differ from `engineDocument` as one `download` event — the run goes on, nothing restarts
    * at time 0. Returns the event sent, or null when nothing among `areas` changed.
    */

@@ -1,6 +1,6 @@
 'use client';
 /**
- * "Download to PLC": sends the edited logic sheet, wiring or routine into the running cell as
+ * "Send to cell": sends the edited logic sheet, wiring or routine into the running cell as
  * one `download` event, so the run carries on with the change (in a drill, the server's cell
  * gets exactly what the student sees). Shown in an area that may edit those parts while a run
  * is going; the store's `downloadEdits` does the work (components/workspace/download.ts).
@@ -8,7 +8,7 @@
  * so the same button sends them again once corrected.
  */
 import { useMemo } from 'react';
-import { Download } from 'lucide-react';
+import { Send } from 'lucide-react';
 import type { Problem } from '@/simulator';
 import { shallowEqual, useWorkspace, useWorkspaceApi } from './contract';
 import { changedAreas, downloadParts, type DownloadArea } from './download';
@@ -36,18 +36,18 @@ export function DownloadButton({ areas }: { areas: readonly DownloadArea[] }) {
           onClick={() => api.getState().downloadEdits(areas)}
           className="inline-flex items-center gap-1.5 rounded-md border border-accent-700 bg-accent-700 px-2.5 py-1 font-medium text-white disabled:cursor-not-allowed disabled:border-slate-300 disabled:bg-slate-200 disabled:text-slate-500"
         >
-          <Download aria-hidden className="h-3.5 w-3.5" />
-          Download to PLC
+          <Send aria-hidden className="h-3.5 w-3.5" />
+          Send to cell
         </button>
         <span data-testid="download-status">
           {changed.length === 0
             ? 'The running cell has your edits.'
-            : `Edited, not yet in the running cell: ${changed.map((a) => NAMES[a]).join(', ')}. A download restarts the PLC logic (timers and counters from zero); a changed routine stops the robot at its first step.`}
+            : `Edited, not yet in the running cell: ${changed.map((a) => NAMES[a]).join(', ')}. Sending restarts the PLC logic (timers and counters from zero); a changed routine sends the robot back to its first step.`}
         </span>
       </div>
       {refused ? (
         <div role="alert" className="mt-1.5 rounded border border-amber-300 bg-amber-50 px-2 py-1 text-amber-900" data-testid="download-refused">
-          <p className="font-medium">The cell refused the download; the running cell keeps what it had. Correct these and download again:</p>
+          <p className="font-medium">The cell refused what was sent; the running cell keeps what it had. Correct these and send again:</p>
           <ul className="mt-0.5 list-disc space-y-0.5 pl-4">
             {refused.problems.map((p, i) => (
               <li key={i}>

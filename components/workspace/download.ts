@@ -1,5 +1,5 @@
 /**
- * "Download to PLC": the edited parts of a document sent to a running cell as one `download`
+ * "Send to cell": the edited parts of a document sent to a running cell as one `download`
  * event (docs/engine.md), instead of reloading the cell at time 0. Pure functions, shared by
  * the workspace store and its tests.
  */

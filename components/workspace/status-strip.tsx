@@ -35,7 +35,7 @@ export function StatusStrip({ speeds }: { speeds?: readonly RunSpeed[] } = {}) {
 
   return (
     <div className="flex flex-wrap items-center gap-x-5 gap-y-2 rounded-md border border-slate-300 bg-slate-800 px-3 py-2 text-slate-100" data-testid="status-strip">
-      <div role="group" aria-label="Run controls" className="flex items-center gap-1">
+      <div role="group" aria-label="Run controls" className="flex flex-wrap items-center gap-1">
         {SPEEDS.filter((s) => !speeds || speeds.includes(s.speed)).map(({ speed, label, icon: Icon }) => {
           const active = engine.running && engine.speed === speed;
           return (
@@ -121,7 +121,7 @@ export function StatusStrip({ speeds }: { speeds?: readonly RunSpeed[] } = {}) {
 function Readout({ label, children, mono, testId }: { label: string; children: React.ReactNode; mono?: boolean; testId?: string }) {
   return (
     <div className="flex items-baseline gap-1.5">
-      <dt className="text-slate-400">{label}</dt>
+      <dt className="text-slate-300">{label}</dt>
       <dd className={cn('font-semibold text-white', mono && 'font-mono tabular-nums')} data-testid={testId}>
         {children}
       </dd>

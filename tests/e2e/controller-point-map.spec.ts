@@ -4,10 +4,10 @@ import { STUDENT, newPickAndPlaceCell, openArea, signIn, waitCellTime } from './
 /**
  * Point-map edits are staged and take effect only after a controller restart (DESIGN.md).
  * The demo cell maps DO1..DO7 (ready, at home, …) to rack 0 slot 2 from channel 0; the PLC
- * reads "robot ready" from channel 0 of that module. Moving the row to first channel 8 must
- * leave the run on channel 0 until the restart, and put "ready" on channel 8 after it.
+ * reads "robot ready" from channel 0 of that module. Moving the range to first channel 8 on its
+ * slot card must leave the run on channel 0 until the reboot, and put "ready" on channel 8 after it.
  */
-test('a point-map edit stays staged until the controller restarts', async ({ page }) => {
+test('a point-map edit stays staged until the controller reboots', async ({ page }) => {
   await signIn(page, STUDENT);
   const id = await newPickAndPlaceCell(page, `Point-map e2e ${Date.now()}`);
   try {
@@ -23,13 +23,16 @@ test('a point-map edit stays staged until the controller restarts', async ({ pag
     await expect(ch0).toHaveAttribute('data-on', 'true');
     await expect(ch8).toHaveAttribute('data-on', 'false');
 
-    const row = page.getByTestId('point-map-row-pm-do');
-    await expect(row).toHaveAttribute('data-state', 'live');
-    const first = page.getByLabel('First channel of pm-do');
+    // The range is edited on the card of the slot it maps to.
+    const row = page.getByTestId('slot-0-2').getByTestId('point-map-row-pm-do');
+    await expect(row).toHaveAttribute('data-state', 'in-force');
+    await expect(page.getByTestId('point-map-state-pm-do')).toHaveText('in force');
+    const first = row.getByLabel('First channel of pm-do');
     await first.fill('8');
     await first.press('Enter');
 
-    await expect(row).toHaveAttribute('data-state', 'staged');
+    await expect(row).toHaveAttribute('data-state', 'waiting');
+    await expect(page.getByTestId('point-map-state-pm-do')).toHaveText('waits for reboot · changed');
     await expect(page.getByTestId('point-map-why-pm-do')).toContainText('first channel 0 → 8');
     // Nothing changes in the run: give it a second of cell time and look again.
     await waitCellTime(page, 1000);
@@ -37,12 +40,21 @@ test('a point-map edit stays staged until the controller restarts', async ({ pag
     await expect(ch0).toHaveAttribute('data-on', 'true');
     await expect(ch8).toHaveAttribute('data-on', 'false');
 
-    await page.getByTestId('restart-controller').click();
-    await expect(row).toHaveAttribute('data-state', 'live');
+    await page.getByRole('button', { name: 'Reboot controller, staged ranges in force' }).click();
+    await expect(row).toHaveAttribute('data-state', 'in-force');
     await expect(state).toHaveAttribute('data-state', 'ready', { timeout: 20_000 });
     await expect(ch8).toHaveAttribute('data-on', 'true');
     await expect(ch0).toHaveAttribute('data-on', 'false');
-    await expect(page.getByTestId('point-map-summary')).toContainText('No staged changes');
+    await expect(page.getByTestId('point-map-summary')).toContainText('Nothing staged');
+
+    // Moving the outputs onto the input module clashes: the range says why and the reboot waits.
+    await row.getByLabel('Slot of pm-do').selectOption('0.1');
+    const moved = page.getByTestId('slot-0-1').getByTestId('point-map-row-pm-do');
+    await expect(moved).toHaveAttribute('data-state', 'clash');
+    await expect(page.getByTestId('point-map-why-pm-do')).toContainText('digital out points need a digital-out module');
+    await expect(page.getByRole('button', { name: 'Reboot controller, staged ranges in force' })).toBeDisabled();
+    await page.getByRole('button', { name: 'Drop staged changes' }).click();
+    await expect(row).toHaveAttribute('data-state', 'in-force');
   } finally {
     await page.request.delete(`/api/cells/${id}`);
   }

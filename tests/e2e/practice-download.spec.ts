@@ -3,7 +3,7 @@ import { cellTimeMs, openArea, sharedDemoCellId, signIn, STUDENT } from './works
 
 /*
  * Free practice on the demo pick-and-place cell (simulator/demo/pick-and-place.ts): the student
- * edits a logic block's parameter while the cell runs, sends it with "Download to PLC", and the
+ * edits a logic block's parameter while the cell runs, sends it with "Send to cell", and the
  * run goes on (docs/engine.md "Downloading edits": the clock does not restart). The download is
  * part of the saved run's event log, so its replay runs it too.
  */
@@ -31,7 +31,7 @@ test('a student downloads a logic edit into a running practice cell; the run goe
   const bar = page.getByTestId('download-bar');
   await expect(bar).toBeVisible();
   await expect(page.getByTestId('download-status')).toHaveText('The running cell has your edits.');
-  await expect(bar.getByRole('button', { name: 'Download to PLC' })).toBeDisabled();
+  await expect(bar.getByRole('button', { name: 'Send to cell' })).toBeDisabled();
 
   // The start pulse is a TP block with PT 100 ms in the demo cell.
   const block = page.getByTestId('block-startPulse');
@@ -51,7 +51,7 @@ test('a student downloads a logic edit into a running practice cell; the run goe
   expect(beforeDownload).toBeGreaterThan(1_000);
   await expect.poll(() => cellTimeMs(page)).toBeGreaterThan(beforeDownload);
 
-  await bar.getByRole('button', { name: 'Download to PLC' }).click();
+  await bar.getByRole('button', { name: 'Send to cell' }).click();
   await expect(page.getByTestId('download-status')).toHaveText('The running cell has your edits.');
   await expect(page.getByTestId('download-refused')).toHaveCount(0);
   await expect(page.getByTestId('event-refused')).toHaveCount(0);

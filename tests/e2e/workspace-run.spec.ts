@@ -84,6 +84,21 @@ test('a student runs the demo cell: handshake, guard hold, e-stop, reset, restar
   await expect(page.getByTestId('force-banner')).toHaveCount(0);
   await expect(page.getByTestId('monitor-%IX0.5')).toHaveAttribute('data-forced', 'false');
 
+  // Forcing has its own caution; a point of the e-stop chain asks first (%IX0.2, wired to the e-stop).
+  await expect(page.getByTestId('force-caution')).toContainText('bypasses the logic and its interlocks');
+  await expect(page.getByTestId('monitor-%IX0.2-carries')).toHaveText('e-stop chain');
+  await page.getByRole('button', { name: 'Force %IX0.2 to 1' }).click();
+  const ask = page.getByRole('alertdialog');
+  await expect(ask).toContainText('%IX0.2 carries the e-stop chain');
+  await ask.getByRole('button', { name: 'Keep it unforced' }).click();
+  await expect(ask).toHaveCount(0);
+  await expect(page.getByTestId('monitor-%IX0.2')).toHaveAttribute('data-forced', 'false');
+  await page.getByRole('button', { name: 'Force %IX0.2 to 1' }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Force %IX0.2 to 1' }).click();
+  await expect(page.getByTestId('monitor-%IX0.2')).toHaveAttribute('data-forced', 'true');
+  await page.getByRole('button', { name: 'Unforce %IX0.2' }).click();
+  await expect(page.getByTestId('force-banner')).toHaveCount(0);
+
   // The run's event log (for replay and grading) starts with the part placed on the sensor.
   const download = page.waitForEvent('download');
   await page.getByRole('button', { name: /^Event log/ }).click();

@@ -56,11 +56,11 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
 
 
   return (
-    <div className="space-y-3" data-testid="workspace">
+    <div className="min-w-0 max-w-full space-y-3" data-testid="workspace">
       <header className="flex flex-wrap items-center justify-between gap-3">
-        <div>
+        <div className="min-w-0">
           <h1 className="text-xl font-semibold text-slate-900">{cellName}</h1>
-          <p className="text-xs text-slate-500">
+          <p className="text-xs text-slate-600">
             {canEdit ? 'Your cell' : 'Shared with your cohort (run only)'} · edits apply to the running cell at once and restart its clock
           </p>
         </div>
@@ -126,13 +126,14 @@ function WorkspaceBody({ cellName }: { cellName: string }) {
         area={area}
         onSelect={setArea}
         trailing={
-          <span className="ml-auto flex items-center gap-1 self-center text-xs text-slate-500">
+          <span className="ml-auto flex items-center gap-1 self-center text-xs text-slate-600">
             <Radio aria-hidden className="h-3.5 w-3.5" /> live
           </span>
         }
       />
 
-      <div role="tabpanel" id={`area-${area}`} aria-labelledby={`tab-${area}`} className="min-h-[420px]" data-testid={`area-${area}`}>
+      {/* The area scrolls inside itself on a narrow screen; the toolbars above wrap instead. */}
+      <div role="tabpanel" id={`area-${area}`} aria-labelledby={`tab-${area}`} className="min-h-[420px] min-w-0 overflow-x-auto" data-testid={`area-${area}`}>
         <AreaBody area={area} />
       </div>
     </div>
