@@ -112,7 +112,7 @@ export function Mailbox() {
               >
                 <span className="block truncate text-sm font-medium">{m.subject || '(no subject)'}</span>
                 <span className="block truncate font-mono text-xs text-slate-500">to {m.toHeader}</span>
-                <span className="block font-mono text-xs text-slate-400">{formatDateTime(m.receivedAt)}</span>
+                <span className="block font-mono text-xs text-slate-600">{formatDateTime(m.receivedAt)}</span>
               </button>
             </li>
           ))}

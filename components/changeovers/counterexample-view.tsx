@@ -44,7 +44,7 @@ export function CounterexampleView(props: CounterexampleViewProps) {
                   <th key={c} className="py-1 pr-3 font-medium">
                     <span className="font-mono">{c}</span>
                     {labels[c] ? <span className="block font-normal text-slate-500">{labels[c]}</span> : null}
-                    <span className="block font-normal text-slate-400">{inputs.includes(c) ? 'input' : 'rule signal'}</span>
+                    <span className="block font-normal text-slate-500">{inputs.includes(c) ? 'input' : 'rule signal'}</span>
                   </th>
                 ))}
               </tr>
@@ -62,7 +62,7 @@ export function CounterexampleView(props: CounterexampleViewProps) {
                     {columns.map((c) => {
                       const v = inputs.includes(c) ? s.inputs[c] : s.signals[c];
                       return (
-                        <td key={c} className={cn('py-1 pr-3 font-mono', v ? 'font-bold text-accent-800' : 'text-slate-500')}>
+                        <td key={c} className={cn('py-1 pr-3 font-mono', v ? 'font-bold text-accent-800' : 'text-slate-600')}>
                           {v ? 'ON' : 'off'}
                         </td>
                       );

@@ -26,7 +26,7 @@ export function DiffSummaryChips({ diff }: { diff: CellDiff }) {
 
 function SideCell({ lines, side, kind }: { lines: string[]; side: 'base' | 'proposed'; kind: DiffEntry['kind'] }) {
   if (lines.length === 0) {
-    return <span className="text-xs italic text-slate-400">{side === 'base' ? 'not in the base' : kind === 'removed' ? 'removed' : '—'}</span>;
+    return <span className="text-xs italic text-slate-600">{side === 'base' ? 'not in the base' : kind === 'removed' ? 'removed' : '—'}</span>;
   }
   return (
     <ul className="space-y-0.5">

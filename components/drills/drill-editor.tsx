@@ -12,6 +12,7 @@ import { useQuery } from '@tanstack/react-query';
 import { ImagePlus, Plus, Trash2 } from 'lucide-react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { SafetyCaution } from '@/components/ui/safety-caution';
 import { cn } from '@/components/ui/cn';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import { humanise } from '@/components/workspace/format';
@@ -101,6 +102,8 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-6" aria-label="Drill editor">
+      {/* Fault cards and grading rules model e-stops, guards and interlocks: the page's one caution. */}
+      <SafetyCaution compact />
       {locked ? <Notice>Students have started this drill: its faults, rules and answer are frozen so every stored grade stays reproducible. Create a new drill to change them.</Notice> : null}
 
       <Section title="Drill">
@@ -285,12 +288,24 @@ function BriefEditor({ drillId, register, control, setValue, error }: { drillId:
 
   return (
     <div className="space-y-2">
-      <div role="tablist" aria-label="Brief" className="flex gap-1">
-        {(['write', 'preview'] as const).map((t) => (
-          <button key={t} type="button" role="tab" aria-selected={tab === t} onClick={() => setTab(t)} className={cn('rounded px-3 py-1 text-sm', tab === t ? 'bg-accent-50 font-semibold text-accent-800 ring-1 ring-accent-200' : 'text-slate-600 hover:bg-slate-100')}>
-            {t === 'write' ? 'Write' : 'Preview'}
-          </button>
-        ))}
+      {/* The tab list holds only its tabs (WAI-ARIA tablist); the image upload sits beside it. */}
+      <div className="flex flex-wrap items-center gap-1">
+        <div role="tablist" aria-label="Brief" className="flex gap-1">
+          {(['write', 'preview'] as const).map((t) => (
+            <button
+              key={t}
+              id={`brief-tab-${t}`}
+              type="button"
+              role="tab"
+              aria-selected={tab === t}
+              aria-controls="brief-panel"
+              onClick={() => setTab(t)}
+              className={cn('rounded px-3 py-1 text-sm', tab === t ? 'bg-accent-50 font-semibold text-accent-800 ring-1 ring-accent-200' : 'text-slate-600 hover:bg-slate-100')}
+            >
+              {t === 'write' ? 'Write' : 'Preview'}
+            </button>
+          ))}
+        </div>
         <div className="ml-auto flex items-center gap-2">
           <input
             ref={fileRef}
@@ -310,13 +325,15 @@ function BriefEditor({ drillId, register, control, setValue, error }: { drillId:
           </Button>
         </div>
       </div>
-      {tab === 'write' ? (
-        <textarea aria-label="Brief (Markdown)" rows={10} className={cn(input, 'font-mono')} {...register('brief')} />
-      ) : (
-        <div className="min-h-40 rounded-md border border-slate-200 p-3">
-          <Markdown source={brief || '_Nothing written yet._'} drillId={drillId} />
-        </div>
-      )}
+      <div id="brief-panel" role="tabpanel" aria-labelledby={`brief-tab-${tab}`}>
+        {tab === 'write' ? (
+          <textarea aria-label="Brief (Markdown)" rows={10} className={cn(input, 'font-mono')} {...register('brief')} />
+        ) : (
+          <div className="min-h-40 rounded-md border border-slate-200 p-3">
+            <Markdown source={brief || '_Nothing written yet._'} drillId={drillId} />
+          </div>
+        )}
+      </div>
       {!drillId ? <p className="text-xs text-slate-500">Images can be added once the drill is created.</p> : null}
       <FieldError message={upload.error ?? error} />
     </div>

@@ -59,7 +59,7 @@ export function GradebookView({ cohorts, cohortId }: { cohorts: { id: string; na
           header: () => (
             <span>
               {col.drillTitle}
-              <span className="block text-[10px] font-normal normal-case text-slate-400">{col.state}</span>
+              <span className="block text-[10px] font-normal normal-case text-slate-600">{col.state}</span>
             </span>
           ),
           cell: (info) => {
@@ -109,10 +109,10 @@ export function GradebookView({ cohorts, cohortId }: { cohorts: { id: string; na
             .map((c, i) => (
               <span key={c.assignmentId}>
                 {i > 0 ? ' · ' : ''}
-                <a href={`/drills/assignments/${c.assignmentId}/live`} className="text-accent-700 hover:underline">
+                <a href={`/drills/assignments/${c.assignmentId}/live`} className="text-accent-700 underline hover:text-accent-900">
                   {c.drillTitle}
                 </a>{' '}
-                (<a href={`/api/assignments/${c.assignmentId}/findings?format=csv`} className="text-accent-700 hover:underline">CSV</a>)
+                (<a href={`/api/assignments/${c.assignmentId}/findings?format=csv`} className="text-accent-700 underline hover:text-accent-900">CSV</a>)
               </span>
             ))}
         </p>

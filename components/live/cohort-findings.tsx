@@ -67,7 +67,7 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Fault card', 'Found', 'Missed']} rows={f.faults.map((x) => [x.label, x.found, x.missed])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.faults} layout="vertical" margin={{ left: 8, right: 8 }}>
+          <BarChart accessibilityLayer={false} data={f.faults} layout="vertical" margin={{ left: 8, right: 8 }}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis type="number" allowDecimals={false} />
             <YAxis type="category" dataKey="label" width={150} tick={{ fontSize: 11 }} />
@@ -84,7 +84,7 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Cell time', 'Runs']} rows={f.diagnosis.buckets.map((b) => [b.label, b.count])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.diagnosis.buckets}>
+          <BarChart accessibilityLayer={false} data={f.diagnosis.buckets}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis dataKey="label" />
             <YAxis allowDecimals={false} />
@@ -99,7 +99,7 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Grade', 'Runs']} rows={f.grades.map((g) => [g.label, g.count])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.grades}>
+          <BarChart accessibilityLayer={false} data={f.grades}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis dataKey="label" />
             <YAxis allowDecimals={false} />
@@ -114,7 +114,7 @@ export function CohortFindings({ findings: f, csvHref }: { findings: Findings; c
         table={<Table head={['Rule', 'Failed', 'Inconclusive', 'Passed']} rows={f.rules.map((r) => [r.label, r.failed, r.inconclusive, r.passed])} />}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={f.rules} layout="vertical" margin={{ left: 8, right: 8 }}>
+          <BarChart accessibilityLayer={false} data={f.rules} layout="vertical" margin={{ left: 8, right: 8 }}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis type="number" allowDecimals={false} />
             <YAxis type="category" dataKey="label" width={150} tick={{ fontSize: 11 }} />

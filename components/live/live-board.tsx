@@ -33,7 +33,7 @@ function Tile({ tile, now }: { tile: BoardTile; now: number }) {
         <span className="truncate font-medium text-slate-900">{tile.name}</span>
         <span
           data-testid="tile-status"
-          className={`rounded px-1.5 py-0.5 text-xs ${tile.status === 'running' ? 'bg-accent-50 text-accent-800' : tile.status === 'submitted' ? 'bg-slate-200 text-slate-800' : 'bg-slate-100 text-slate-500'}`}
+          className={`rounded px-1.5 py-0.5 text-xs ${tile.status === 'running' ? 'bg-accent-50 text-accent-800' : tile.status === 'submitted' ? 'bg-slate-200 text-slate-800' : 'bg-slate-100 text-slate-700'}`}
         >
           {STATUS_TEXT[tile.status]}
         </span>
@@ -192,7 +192,7 @@ export function LiveBoard({ initial }: { initial: Board }) {
                   <span className="font-mono text-xs text-slate-500">{new Date(e.at).toISOString().slice(11, 19)}</span>
                   <span className="font-medium">{e.studentName}</span>
                   <span>{e.text}</span>
-                  <span className="font-mono text-xs text-slate-400">@{clock(e.t)}</span>
+                  <span className="font-mono text-xs text-slate-500">@{clock(e.t)}</span>
                 </li>
               ))}
             </ol>

@@ -246,7 +246,7 @@ export function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, viol
               <ol className="max-h-80 space-y-0.5 overflow-auto font-mono text-xs">
                 {events.map((e, i) => (
                   <li key={i}>
-                    <button type="button" onClick={() => show(e.t)} className={cn('w-full rounded px-1 text-left hover:bg-slate-100', e.t <= t ? 'text-slate-900' : 'text-slate-400')}>
+                    <button type="button" onClick={() => show(e.t)} className={cn('w-full rounded px-1 text-left hover:bg-slate-100', e.t <= t ? 'text-slate-900' : 'text-slate-500')}>
                       {formatCellTime(e.t)} {humanise(e.event.type)} {'device' in e.event ? e.event.device : 'target' in e.event ? e.event.target : ''}
                     </button>
                   </li>

@@ -115,7 +115,7 @@ function RunAreas({ editing, forceAllowed, strip, downloadable }: { editing: Are
       <AreaTabs
         area={area}
         onSelect={setArea}
-        badge={(id) => (id !== 'panel' && id !== 'monitor' && id !== 'scope' && !editing[id] ? <span className="text-[10px] font-normal text-slate-400">read-only</span> : null)}
+        badge={(id) => (id !== 'panel' && id !== 'monitor' && id !== 'scope' && !editing[id] ? <span className="text-[10px] font-normal text-slate-600">read-only</span> : null)}
       />
       <div
         role="tabpanel"

@@ -2,6 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { PageHeader } from '@/components/ui/card';
+import { SafetyCaution } from '@/components/ui/safety-caution';
 import { RunReplay } from '@/components/replay/run-replay';
 import { FollowLive } from '@/components/live/follow-live';
 import { requirePageUser } from '@/lib/auth/session';
@@ -56,6 +57,7 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
           </Link>
         }
       />
+      <SafetyCaution compact className="mb-4" />
       {following && run.assignmentId ? (
         <FollowLive assignmentId={run.assignmentId} runId={run.id}>
           {replay}
