@@ -26,7 +26,7 @@ type Props = {
 const OPS: Condition['op'][] = ['==', '!=', '>', '>=', '<', '<='];
 const sel = 'rounded border border-slate-300 px-1 py-0.5 text-sm disabled:border-transparent';
 
-function Num({ label, value, onCommit, disabled, integer, min, max, optional }: { label: string; value: number | undefined; onCommit(v: number | undefined): void; disabled: boolean; integer?: boolean; min?: number; max?: number; optional?: boolean }) {
+function Num({ label, ariaLabel, value, onCommit, disabled, integer, min, max, optional }: { label: string; /** The input's name where the visible label is empty. */ ariaLabel?: string; value: number | undefined; onCommit(v: number | undefined): void; disabled: boolean; integer?: boolean; min?: number; max?: number; optional?: boolean }) {
   const shown = value === undefined ? '' : String(value);
   const [text, setText] = useTextDraft(shown);
   const commit = () => {
@@ -41,6 +41,7 @@ function Num({ label, value, onCommit, disabled, integer, min, max, optional }: 
       {label}
       <input
         className="w-20 rounded border border-slate-300 px-1 py-0.5 font-mono text-sm text-slate-900"
+        aria-label={label ? undefined : ariaLabel}
         value={text}
         inputMode="decimal"
         placeholder={optional ? 'none' : undefined}
@@ -94,7 +95,7 @@ function ConditionFields({ c, points, disabled, onChange, label }: { c: Conditio
           <option key={o}>{o}</option>
         ))}
       </select>
-      <Num label="" value={c.value} disabled={disabled} onCommit={(v) => onChange({ ...c, value: v ?? 0 })} />
+      <Num label="" ariaLabel={`${label} value`} value={c.value} disabled={disabled} onCommit={(v) => onChange({ ...c, value: v ?? 0 })} />
     </span>
   );
 }

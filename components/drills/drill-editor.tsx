@@ -221,7 +221,7 @@ export function DrillEditor({ drillId, initial, cells, locked }: Props) {
             </label>
           ))}
         </fieldset>
-        <p className="mt-1 text-xs text-slate-500">A drill attempt runs on the server. Point-map changes reach it as staged rows (live after a controller restart); logic, wiring and routine edits reach it when the student presses “Download to PLC”, which restarts the PLC program like a real download.</p>
+        <p className="mt-1 text-xs text-slate-500">A drill attempt runs on the server. Point-map changes reach it as staged rows (live after a controller restart); logic, wiring and routine edits reach it when the student presses “Send to cell”, which restarts the PLC program like a real download.</p>
       </Section>
 
       {serverError ? (

@@ -87,7 +87,7 @@ function FieldDeviceCard({ device, state }: { device: FieldDevice; state: Device
       {state?.feedback ? (
         <ul className="mt-2 flex flex-wrap gap-2 text-xs">
           {Object.entries(state.feedback).map(([terminal, closed]) => (
-            <li key={terminal} className={cn('rounded px-1.5 py-0.5 font-mono', closed ? 'bg-slate-800 font-bold text-white' : 'bg-slate-100 text-slate-500')}>
+            <li key={terminal} className={cn('rounded px-1.5 py-0.5 font-mono', closed ? 'bg-slate-800 font-bold text-white' : 'bg-slate-100 text-slate-700')}>
               {terminal}: {closed ? 'closed' : 'open'}
             </li>
           ))}

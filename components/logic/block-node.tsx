@@ -121,14 +121,14 @@ function PortRow({ input, output, blockId }: { input?: PortSpec; output?: PortSp
               title={`${input.name}: ${input.type} — ${input.doc}`}
             />
             <span className="font-mono text-slate-800">{input.name}</span>
-            <span className="text-[9px] uppercase tracking-wide text-slate-400">{input.type}</span>
+            <span className="text-[9px] uppercase tracking-wide text-slate-600">{input.type}</span>
           </>
         ) : null}
       </span>
       <span className="flex items-center gap-1 pr-1.5">
         {output ? (
           <>
-            <span className="text-[9px] uppercase tracking-wide text-slate-400">{output.type}</span>
+            <span className="text-[9px] uppercase tracking-wide text-slate-600">{output.type}</span>
             <span className="font-mono text-slate-800">{output.name}</span>
             <LiveOutput blockId={blockId} port={output} />
             <Handle
@@ -166,7 +166,7 @@ function BlockNodeView({ data, selected }: NodeProps<BlockFlowNode>) {
     >
       <div className={cn('flex items-center justify-between gap-1 rounded-t-md px-2 py-1', hasProblem ? 'bg-red-50' : 'bg-slate-100')}>
         <span className="font-mono text-[11px] font-semibold tracking-wide">{block.type}</span>
-        <span className="truncate text-[11px] text-slate-500" title={block.id}>
+        <span className="truncate text-[11px] text-slate-700" title={block.id}>
           {block.label ?? block.id}
         </span>
       </div>

@@ -324,7 +324,7 @@ function LogicCanvas() {
               </button>
             </div>
           ) : null}
-          <div className="cw-logic min-h-0 flex-1" data-testid="logic-canvas" onDragOver={(e) => e.preventDefault()} onDrop={onDrop}>
+          <div className="cw-logic h-[420px] shrink-0 lg:h-auto lg:min-h-0 lg:flex-1 lg:shrink" data-testid="logic-canvas" onDragOver={(e) => e.preventDefault()} onDrop={onDrop}>
             <ReactFlow<BlockFlowNode, WireFlowEdge>
               nodes={nodes}
               edges={edges}

@@ -204,7 +204,7 @@ function StackLight({ device, state }: { device: Extract<PanelDevice, { type: 's
                 aria-label={`${colour} tier ${on ? 'on' : 'off'}`}
                 className={cn('h-6 w-10 rounded-sm', on ? `${CAP[colour].lit} ring-2 ring-white shadow-[0_0_12px_3px_rgba(255,255,255,0.5)]` : `${CAP[colour].off} opacity-50`)}
               />
-              <span className={cn('w-7 text-[10px]', on ? 'font-bold text-white' : 'text-slate-400')}>{on ? 'ON' : 'off'}</span>
+              <span className={cn('w-7 text-[10px]', on ? 'font-bold text-white' : 'text-slate-200')}>{on ? 'ON' : 'off'}</span>
             </div>
           );
         })}

@@ -52,7 +52,7 @@ describe('download helpers', () => {
   });
 });
 
-describe('workspace store: Download to PLC', () => {
+describe('workspace store: Send to cell (a download event)', () => {
   it('with a server-side run, edits stay local until downloaded; the download sends only what changed', () => {
     const { conn, sent, loads } = fakeEngine(true);
     const store = createWorkspaceStore({ cellId: 'c', version: 1, document: demoDocument(), canEdit: true }, () => conn);
