@@ -11,8 +11,8 @@ describe('changeover diff wording', () => {
   it('shows a re-terminated wire as its old and new terminal', () => {
     const e = entry('wiring', 'l-guard');
     expect(kindLabel(e)).toBe('re-terminated');
-    expect(sideLines(e, 'base')).toEqual(['to: rack 0 / slot 1 / ch 3']);
-    expect(sideLines(e, 'proposed')).toEqual(['to: rack 0 / slot 5 / ch 3']);
+    expect(sideLines(e, 'base')).toEqual(['to: rack 1 / slot 2 / ch 3']);
+    expect(sideLines(e, 'proposed')).toEqual(['to: rack 1 / slot 6 / ch 3']);
   });
 
   it('shows an added device only on the proposed side', () => {
@@ -31,6 +31,6 @@ describe('changeover diff wording', () => {
     expect(sideLines(entry('logic', 'yellowNeeded'), 'base')).toEqual(['inputs: 2']);
     expect(sideLines(entry('logic', 'yellowNeeded'), 'proposed')).toEqual(['inputs: 3']);
     expect(sideLines(entry('logic', 'c6'), 'proposed')).toEqual(['from: guardsClosed.Q']);
-    expect(sideLines(entry('pointMap', 'pm-di'), 'proposed')).toEqual(['slot: 5']);
+    expect(sideLines(entry('pointMap', 'pm-di'), 'proposed')).toEqual(['slot: 6']);
   });
 });

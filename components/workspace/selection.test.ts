@@ -5,11 +5,11 @@ import { demoDocument } from './test-helpers';
 describe('relatedToSelection', () => {
   const wiring = demoDocument().wiring;
   it('a device selects its rows and the addresses and channels they land on', () => {
-    // Demo wiring (simulator/demo/pick-and-place.ts): the e-stop has two channels, w-estop1 to %IX0.2 and w-estop2 to R0.S1.C4.
+    // Demo wiring (simulator/demo/pick-and-place.ts): the e-stop has two channels, w-estop1 to %IX0.2 and w-estop2 to R1.S2.C4.
     const r = relatedToSelection({ kind: 'device', id: 'estop' }, wiring);
     expect([...r.wires].sort()).toEqual(['w-estop1', 'w-estop2']);
     expect([...r.addresses]).toEqual(['%IX0.2']);
-    expect([...r.channels]).toEqual(['R0.S1.C4']);
+    expect([...r.channels]).toEqual(['R1.S2.C4']);
   });
   it('an address selects the rows on it and their devices', () => {
     const r = relatedToSelection({ kind: 'address', id: '%IX0.0' }, wiring);

@@ -29,12 +29,12 @@ describe('signalLabels on the pick-and-place demo', () => {
   });
 
   it('names a link address by the controller point on its channel', () => {
-    // l-start: %QX0.0 → R0.S1.C0; pm-di puts DI1 "Start" on rack 0 slot 1 channel 0.
-    expect(labels['%QX0.0']).toBe('DI1 Start (R0.S1.C0)');
-    // l-ready: R0.S2.C0 → %IX1.0; pm-do puts DO1 "Ready" on rack 0 slot 2 channel 0.
-    expect(labels['%IX1.0']).toBe('DO1 Ready (R0.S2.C0)');
-    // l-recipe: %QW2 → R0.S1.C8 over 4 bits; pm-wi puts WI1 "Recipe number" on channels 8..11.
-    expect(labels['%QW2']).toBe('WI1 Recipe number (R0.S1.C8)');
+    // l-start: %QX0.0 → R1.S2.C0; pm-di puts DI1 "Start" on rack 1 slot 2 channel 0.
+    expect(labels['%QX0.0']).toBe('DI1 Start (R1.S2.C0)');
+    // l-ready: R1.S3.C0 → %IX1.0; pm-do puts DO1 "Ready" on rack 1 slot 3 channel 0.
+    expect(labels['%IX1.0']).toBe('DO1 Ready (R1.S3.C0)');
+    // l-recipe: %QW2 → R1.S2.C8 over 4 bits; pm-wi puts WI1 "Recipe number" on channels 8..11.
+    expect(labels['%QW2']).toBe('WI1 Recipe number (R1.S2.C8)');
   });
 
   it('names every controller point by its point-map label', () => {
@@ -66,7 +66,7 @@ describe('signalLabels fallbacks', () => {
       const ti = d.controller.pointMap.find((r) => r.id === 'pm-ti')!;
       ti.points = [{ invert: true }, { label: 'Gripper open' }];
     });
-    // t-closed: gripper:closed → R0.S4.C0, which pm-ti maps to TI1; the gripper has three terminals.
+    // t-closed: gripper:closed → R1.S5.C0, which pm-ti maps to TI1; the gripper has three terminals.
     expect(labels.TI1).toBe('Parallel gripper closed (gripper:closed) (inverted)');
   });
 
@@ -79,12 +79,12 @@ describe('signalLabels fallbacks', () => {
 
   it('uses the wire label when a link channel has no mapped point', () => {
     const labels = edited((d) => {
-      d.wiring.push({ id: 'l-spare', from: { plc: '%QX0.6' }, to: { controller: { rack: 0, slot: 1, channel: 7 } }, label: 'Spare request' });
-      d.wiring.push({ id: 'l-spare2', from: { plc: '%QX0.7' }, to: { controller: { rack: 0, slot: 1, channel: 12 } } });
+      d.wiring.push({ id: 'l-spare', from: { plc: '%QX0.6' }, to: { controller: { rack: 1, slot: 2, channel: 7 } }, label: 'Spare request' });
+      d.wiring.push({ id: 'l-spare2', from: { plc: '%QX0.7' }, to: { controller: { rack: 1, slot: 2, channel: 12 } } });
     });
-    // Channel 7 of slot 1 lies between pm-di (0..5) and pm-wi (8..11): no point there.
-    expect(labels['%QX0.6']).toBe('Spare request (R0.S1.C7)');
-    expect(labels['%QX0.7']).toBe('R0.S1.C12');
+    // Channel 7 of rack 1 slot 2 lies between pm-di (0..5) and pm-wi (8..11): no point there.
+    expect(labels['%QX0.6']).toBe('Spare request (R1.S2.C7)');
+    expect(labels['%QX0.7']).toBe('R1.S2.C12');
   });
 
   it('falls back to the terminal text for a device it does not know', () => {

@@ -15,13 +15,13 @@ export const DEMO_COUNTERSIGNER = {
 } as const;
 
 export const DEMO_CHANGEOVER = {
-  title: 'Rear guard door and DI card to slot 5',
+  title: 'Rear guard door and DI card to slot 6',
   description:
     'Line 3 gets a second guard door at the rear (parts infeed). Its NC guard switch lands on %IX0.7 and is ANDed into ' +
     'the start permit; an open rear door also lights the yellow tier. At the same shutdown the controller\'s digital-input ' +
-    'card moves from slot 1 to slot 5 (slot 1 has a bent backplane pin), so every point of DI1–DI6 and the recipe word is ' +
+    'card in rack 1 moves from slot 2 to slot 6 (slot 2 has a bent backplane pin), so every point of DI1–DI6 and the recipe word is ' +
     're-terminated on the new card. Weekend shutdown, planned Saturday 06:00.',
-  proposalMessage: 'Rear guard door on %IX0.7 (start permit, yellow tier); DI card from slot 1 to slot 5',
+  proposalMessage: 'Rear guard door on %IX0.7 (start permit, yellow tier); DI card from slot 2 to slot 6',
 } as const;
 
 /**
@@ -33,7 +33,7 @@ export const DEMO_CHANGEOVER = {
  *    inputs). One path is missed: the guard signal passed to the robot (%QX0.3, which holds the
  *    arm when a guard opens) still comes from the front guard alone — so an interlock rule
  *    "%QX0.3 only if %IX0.4 and %IX0.7" is violated on the proposal and the proof shows it;
- * 2. the controller's digital-input card `ctl-di` moved from slot 1 to slot 5: the module, the
+ * 2. the controller's digital-input card `ctl-di` moved from rack 1 slot 2 to slot 6: the module, the
  *    point-map ranges DI1–DI6 and WI1, and every wire that lands on the card.
  * Addresses for the evidence seed's rules and scenarios: front guard %IX0.4, rear guard
  * %IX0.7, start request %QX0.0, guard closed to robot %QX0.3, yellow tier %QX1.1.
@@ -68,13 +68,13 @@ export function demoChangeoverProposal(base: CellDocument): CellDocument {
   yellow.params.inputs = 3;
   p.initial.devices = { ...p.initial.devices, rearGuard: { guardClosed: true } };
 
-  // 2. The digital-input card from slot 1 to slot 5.
+  // 2. The digital-input card from slot 2 to slot 6 (rack 1).
   const card = p.controller.modules.find((m) => m.id === 'ctl-di');
   if (!card) throw new Error('demo changeover: controller module ctl-di is missing');
-  card.slot = 5;
-  for (const row of p.controller.pointMap) if (row.rack === 0 && row.slot === 1) row.slot = 5;
+  card.slot = 6;
+  for (const row of p.controller.pointMap) if (row.rack === 1 && row.slot === 2) row.slot = 6;
   for (const row of p.wiring) {
-    for (const end of [row.from, row.to]) if ('controller' in end && end.controller.rack === 0 && end.controller.slot === 1) end.controller.slot = 5;
+    for (const end of [row.from, row.to]) if ('controller' in end && end.controller.rack === 1 && end.controller.slot === 2) end.controller.slot = 6;
   }
   return cellDocumentSchema.parse(p);
 }

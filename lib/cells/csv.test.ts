@@ -61,9 +61,9 @@ describe('I/O-list CSV', () => {
   });
 
   it('resolves a controller point through the live point map', () => {
-    // DI5 of the demo map is rack 0 slot 1, first channel 0 + 4 (simulator/demo/pick-and-place.ts, row pm-di).
+    // DI5 of the demo map is rack 1 slot 2, first channel 0 + 4 (simulator/demo/pick-and-place.ts, row pm-di).
     const r = parseIoListCsv('from,to\nestop:contact,DI5\n', demo);
     expect(r.errors).toEqual([]);
-    expect(r.rows[0].to).toEqual({ controller: { rack: 0, slot: 1, channel: 4 } });
+    expect(r.rows[0].to).toEqual({ controller: { rack: 1, slot: 2, channel: 4 } });
   });
 });

@@ -212,7 +212,7 @@ function parseEndpoint(text: string, doc: CellDocument): { ok: true; value: Endp
   } else if (text.includes(':')) {
     const at = text.indexOf(':');
     candidate = { device: text.slice(0, at), terminal: text.slice(at + 1) };
-  } else return { ok: false, message: `"${text}" is not an endpoint (device:terminal, a PLC address such as %IX0.0, R0/S1/C4 or a point such as DI5)` };
+  } else return { ok: false, message: `"${text}" is not an endpoint (device:terminal, a PLC address such as %IX0.0, R1/S2/C4 or a point such as DI5)` };
   const parsed = wiringRowSchema.shape.from.safeParse(candidate);
   if (!parsed.success) return { ok: false, message: `"${text}": ${parsed.error.issues.map((i) => i.message).join('; ')}` };
   return { ok: true, value: parsed.data };
@@ -319,15 +319,15 @@ export function ioListToCsv(rows: readonly WiringRow[]): string {
 export function csvTemplate(kind: CsvKind): string {
   if (kind === 'point-map') {
     return toCsv(POINT_MAP_COLUMNS, [
-      { row_id: 'pm-di', family: 'DI', first_point: 1, count: 4, rack: 0, slot: 1, first_channel: 0, bits: '', encoding: '', labels: 'Start|Stop request|Fault reset|Guard closed', invert: '' },
-      { row_id: 'pm-wi', family: 'WI', first_point: 1, count: 1, rack: 0, slot: 1, first_channel: 8, bits: 4, encoding: 'binary', labels: 'Recipe number', invert: '' },
-      { row_id: 'pm-do', family: 'DO', first_point: 1, count: 3, rack: 0, slot: 2, first_channel: 0, bits: '', encoding: '', labels: 'Ready|Cycling|Fault', invert: '3' },
+      { row_id: 'pm-di', family: 'DI', first_point: 1, count: 4, rack: 1, slot: 2, first_channel: 0, bits: '', encoding: '', labels: 'Start|Stop request|Fault reset|Guard closed', invert: '' },
+      { row_id: 'pm-wi', family: 'WI', first_point: 1, count: 1, rack: 1, slot: 2, first_channel: 8, bits: 4, encoding: 'binary', labels: 'Recipe number', invert: '' },
+      { row_id: 'pm-do', family: 'DO', first_point: 1, count: 3, rack: 1, slot: 3, first_channel: 0, bits: '', encoding: '', labels: 'Ready|Cycling|Fault', invert: '3' },
     ]);
   }
   return toCsv(IO_LIST_COLUMNS, [
     { wire_id: 'w-start', from: 'start:contact', to: '%IX0.0', bits: '', description: 'Cycle start button to PLC' },
-    { wire_id: 'l-start', from: '%QX0.0', to: 'R0/S1/C0', bits: '', description: 'PLC start request to controller' },
-    { wire_id: 'l-recipe', from: '%QW2', to: 'R0/S1/C8', bits: 4, description: 'Recipe number, 4 bits' },
+    { wire_id: 'l-start', from: '%QX0.0', to: 'R1/S2/C0', bits: '', description: 'PLC start request to controller' },
+    { wire_id: 'l-recipe', from: '%QW2', to: 'R1/S2/C8', bits: 4, description: 'Recipe number, 4 bits' },
     { wire_id: 'l-ready', from: 'DO1', to: '%IX1.0', bits: '', description: 'Controller ready to PLC (point resolved through the live point map)' },
   ]);
 }

@@ -96,14 +96,14 @@ describe('diffCells', () => {
   it('an input card moved to another slot: module, point-map rows and every wire on it', () => {
     const a = parsedCell();
     const d = diffCells(a, changeoverProposal(a));
-    expect(find(d, 'controller-module', 'ctl-di')[0]).toMatchObject({ kind: 'changed', changes: [{ path: 'slot', from: 1, to: 5 }] });
+    expect(find(d, 'controller-module', 'ctl-di')[0]).toMatchObject({ kind: 'changed', changes: [{ path: 'slot', from: 2, to: 6 }] });
     const wi = find(d, 'point-map-row', 'pm-wi')[0];
-    expect(wi).toMatchObject({ kind: 'changed', map: 'live', changes: [{ path: 'slot', from: 1, to: 5 }] });
+    expect(wi).toMatchObject({ kind: 'changed', map: 'live', changes: [{ path: 'slot', from: 2, to: 6 }] });
     const di = find(d, 'point-map-row', 'pm-di')[0];
     expect(di.map).toBe('live');
     expect(di.changes).toEqual(
       expect.arrayContaining([
-        { path: 'slot', from: 1, to: 5 },
+        { path: 'slot', from: 2, to: 6 },
         { path: 'count', from: 6, to: 7 },
         { path: 'points.DI7.label', to: 'Guards closed' },
       ]),
@@ -113,7 +113,7 @@ describe('diffCells', () => {
       const e = find(d, 'wire', id)[0];
       const was = a.wiring.find((r) => r.id === id)!.to;
       if (!('controller' in was)) throw new Error(`fixture: ${id} does not end on the controller`);
-      expect(e.ends).toEqual([{ end: 'to', was, now: { controller: { ...was.controller, slot: 5 } } }]);
+      expect(e.ends).toEqual([{ end: 'to', was, now: { controller: { ...was.controller, slot: 6 } } }]);
     }
   });
 
@@ -146,8 +146,8 @@ describe('diffCells', () => {
       id: 'inputs.guardClosed',
       path: ['controller', 'handshake', 'inputs', 'guardClosed'],
       // DI4 is the 4th point of pm-di (first channel 0), so channel 3; DI7 the 7th, channel 6 on the moved card.
-      was: { point: 'DI4', label: 'Guard closed', location: { rack: 0, slot: 1, channel: 3 }, wiredTo: ['%QX0.3'] },
-      now: { point: 'DI7', label: 'Guards closed', location: { rack: 0, slot: 5, channel: 6 }, wiredTo: ['%QX0.6'] },
+      was: { point: 'DI4', label: 'Guard closed', location: { rack: 1, slot: 2, channel: 3 }, wiredTo: ['%QX0.3'] },
+      now: { point: 'DI7', label: 'Guards closed', location: { rack: 1, slot: 6, channel: 6 }, wiredTo: ['%QX0.6'] },
     });
   });
 

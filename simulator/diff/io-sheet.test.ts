@@ -23,25 +23,25 @@ describe('ioChangeSheet', () => {
     expect(s.csv).toBe(`${IO_CHANGE_COLUMNS.map((c) => c.title).join(',')}\r\n`);
   });
 
-  it('the moved input card: every point on it moves to slot 5, same channel; the new point is an add', () => {
+  it('the moved input card: every point on it moves to slot 6, same channel; the new point is an add', () => {
     const { rows } = sheetOf();
-    // pm-di: DI1..DI6 on rack 0 slot 1 from channel 0, so DIn on channel n-1.
+    // pm-di: DI1..DI6 on rack 1 slot 2 from channel 0, so DIn on channel n-1.
     for (let n = 1; n <= 6; n++) {
       expect(pick(rows, `DI${n}`)).toEqual([
-        expect.objectContaining({ action: 'move', was: `rack 0 / slot 1 / ch ${n - 1}`, now: `rack 0 / slot 5 / ch ${n - 1}`, map: 'live', source: 'pointMap:pm-di' }),
+        expect.objectContaining({ action: 'move', was: `rack 1 / slot 2 / ch ${n - 1}`, now: `rack 1 / slot 6 / ch ${n - 1}`, map: 'live', source: 'pointMap:pm-di' }),
       ]);
     }
-    expect(pick(rows, 'DI7')).toEqual([expect.objectContaining({ action: 'add', label: 'Guards closed', was: '', now: 'rack 0 / slot 5 / ch 6' })]);
+    expect(pick(rows, 'DI7')).toEqual([expect.objectContaining({ action: 'add', label: 'Guards closed', was: '', now: 'rack 1 / slot 6 / ch 6' })]);
     // pm-wi: one 4-bit word point from channel 8.
-    expect(pick(rows, 'WI1')).toEqual([expect.objectContaining({ action: 'move', was: 'rack 0 / slot 1 / ch 8–11', now: 'rack 0 / slot 5 / ch 8–11' })]);
-    expect(pick(rows, 'ctl-di')).toEqual([expect.objectContaining({ action: 'move', was: 'rack 0 / slot 1', now: 'rack 0 / slot 5', source: 'modules:ctl-di' })]);
+    expect(pick(rows, 'WI1')).toEqual([expect.objectContaining({ action: 'move', was: 'rack 1 / slot 2 / ch 8–11', now: 'rack 1 / slot 6 / ch 8–11' })]);
+    expect(pick(rows, 'ctl-di')).toEqual([expect.objectContaining({ action: 'move', was: 'rack 1 / slot 2', now: 'rack 1 / slot 6', source: 'modules:ctl-di' })]);
   });
 
   it('wires: each moved end, each added wire with its address and label', () => {
     const { rows } = sheetOf();
     const wireRows = rows.filter((r) => r.wire !== '');
     expect(new Set(wireRows.filter((r) => r.action === 'move').map((r) => r.wire))).toEqual(new Set(INPUT_CARD_ROWS));
-    expect(wireRows.find((r) => r.wire === 'l-guard')).toMatchObject({ point: '%QX0.3', label: 'Guard closed', was: 'to rack 0 / slot 1 / ch 3', now: 'to rack 0 / slot 5 / ch 3' });
+    expect(wireRows.find((r) => r.wire === 'l-guard')).toMatchObject({ point: '%QX0.3', label: 'Guard closed', was: 'to rack 1 / slot 2 / ch 3', now: 'to rack 1 / slot 6 / ch 3' });
     expect(wireRows.find((r) => r.wire === 'w-guard2')).toMatchObject({ action: 'add', point: '%IX0.7', label: 'Rear guard', now: 'guard2:contact → %IX0.7' });
     expect(wireRows.find((r) => r.wire === 'l-guards')).toMatchObject({ action: 'add', point: '%QX0.6', label: 'Guards closed' });
   });
@@ -62,8 +62,8 @@ describe('ioChangeSheet', () => {
     staged.find((r) => r.id === 'pm-to')!.firstChannel = 1;
     b.controller.staged = staged;
     const { rows } = ioChangeSheet(diffCells(a, b), a, b);
-    // pm-to: TO1 alone on rack 0 slot 3; its first channel 0 → 1.
-    expect(rows).toEqual([expect.objectContaining({ action: 'move', point: 'TO1', label: 'Gripper close', was: 'rack 0 / slot 3 / ch 0', now: 'rack 0 / slot 3 / ch 1', map: 'staged' })]);
+    // pm-to: TO1 alone on rack 1 slot 4; its first channel 0 → 1.
+    expect(rows).toEqual([expect.objectContaining({ action: 'move', point: 'TO1', label: 'Gripper close', was: 'rack 1 / slot 4 / ch 0', now: 'rack 1 / slot 4 / ch 1', map: 'staged' })]);
   });
 
   it('a removed wire is a remove row', () => {

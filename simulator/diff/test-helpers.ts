@@ -12,14 +12,14 @@ export function parsedCell(input: CellDocumentInput = pickAndPlaceCell): CellDoc
   return cellDocumentSchema.parse(structuredClone(input));
 }
 
-/** Ids of the wiring rows that land on the controller's digital input card (rack 0, slot 1). */
+/** Ids of the wiring rows that land on the controller's digital input card (rack 1, slot 2). */
 export const INPUT_CARD_ROWS = ['w-estop2', 'l-start', 'l-stop', 'l-reset', 'l-guard', 'l-part', 'l-recipe'] as const;
 
 /**
  * The changeover proposal for Kestrel Vale Cell B (invented):
  * 1. a second, rear guard door: guard switch `guard2` wired to %IX0.7, a contact `guard2Ok`
  *    and a fifth input on `startPermit` (connection `c6b`), starting closed;
- * 2. the controller's digital input card moved from slot 1 to slot 5: module, point-map rows
+ * 2. the controller's digital input card moved from slot 2 to slot 6 (rack 1): module, point-map rows
  *    `pm-di` and `pm-wi`, and every wire on that card;
  * 3. the start pulse lengthened: `startPulse` PT 100 → 150 ms;
  * 4. connection `c12` re-pointed: the guard passed to the robot now comes from `guardOk`;
@@ -39,11 +39,11 @@ export function changeoverProposal(base: CellDocument): CellDocument {
   permit.params.inputs = 5;
   p.plc.sheet.connections.push({ id: 'c6b', from: { block: 'guard2Ok', port: 'Q' }, to: { block: 'startPermit', port: 'IN5' } });
   p.initial.devices = { ...p.initial.devices, guard2: { guardClosed: true } };
-  // 2. input card to slot 5
-  p.controller.modules.find((m) => m.id === 'ctl-di')!.slot = 5;
-  for (const row of p.controller.pointMap) if (row.id === 'pm-di' || row.id === 'pm-wi') row.slot = 5;
+  // 2. input card to slot 6
+  p.controller.modules.find((m) => m.id === 'ctl-di')!.slot = 6;
+  for (const row of p.controller.pointMap) if (row.id === 'pm-di' || row.id === 'pm-wi') row.slot = 6;
   for (const row of p.wiring) {
-    for (const end of [row.from, row.to]) if ('controller' in end && end.controller.slot === 1) end.controller.slot = 5;
+    for (const end of [row.from, row.to]) if ('controller' in end && end.controller.slot === 2) end.controller.slot = 6;
   }
   // 3. start pulse
   const pulse = p.plc.sheet.blocks.find((b) => b.id === 'startPulse');
@@ -59,7 +59,7 @@ export function changeoverProposal(base: CellDocument): CellDocument {
   const di = p.controller.pointMap.find((r) => r.id === 'pm-di')!;
   di.count = 7;
   di.points = [...(di.points ?? []), { label: 'Guards closed' }];
-  p.wiring.push({ id: 'l-guards', from: { plc: '%QX0.6' }, to: { controller: { rack: 0, slot: 5, channel: 6 } } });
+  p.wiring.push({ id: 'l-guards', from: { plc: '%QX0.6' }, to: { controller: { rack: 1, slot: 6, channel: 6 } } });
   p.controller.handshake.inputs.guardClosed = 'DI7';
   // a canvas move
   p.plc.sheet.blocks.find((b) => b.id === 'recipeWord')!.position = { x: 640, y: 1000 };

@@ -10,7 +10,7 @@ import { DEMO, mainNav, pageFor } from './foundation-helpers';
  * the lead rolls the change back and the cell gets a new version.
  */
 const SHIFT_LEAD = { email: 'shift.lead@brennick.test', password: 'lead-demo-2026', name: 'Kasimir Thorne' } as const;
-const TITLE = 'Rear guard door and DI card to slot 5';
+const TITLE = 'Rear guard door and DI card to slot 6';
 const SHOTS = process.env.E2E_SHOTS_DIR;
 
 /** Screenshots for a person to look at (E2E_SHOTS_DIR set): the page, or one part of it. */
@@ -60,8 +60,8 @@ test('the lead diffs, proves, signs and rolls back the demo changeover; a second
   await expect(devices.locator('[data-id="rearGuard"]')).toContainText('guard-switch “Rear guard door” (NC)');
   const wire = lead.getByTestId('diff-area-wiring').locator('[data-id="l-guard"]');
   await expect(wire).toContainText('re-terminated');
-  await expect(wire).toContainText('to: rack 0 / slot 1 / ch 3');
-  await expect(wire).toContainText('to: rack 0 / slot 5 / ch 3');
+  await expect(wire).toContainText('to: rack 1 / slot 2 / ch 3');
+  await expect(wire).toContainText('to: rack 1 / slot 6 / ch 3');
   await expect(lead.getByTestId('diff-area-pointMap').locator('[data-id="pm-di"]')).toContainText('live map');
 
   // The marked logic sheet: new and changed blocks carry a worded badge; the list jumps to each.
@@ -94,7 +94,7 @@ test('the lead diffs, proves, signs and rolls back the demo changeover; a second
   expect(file.suggestedFilename()).toMatch(/-io-changes-v1-to-v2\.csv$/);
   const csv = await readFile((await file.path())!, 'utf8');
   expect(csv.split('\r\n')[0]).toBe('Action,Point / address,Label,Was,Now,Map,Wire,Source');
-  expect(csv).toContain('move,DI4,Guard closed,rack 0 / slot 1 / ch 3,rack 0 / slot 5 / ch 3,live,,pointMap:pm-di');
+  expect(csv).toContain('move,DI4,Guard closed,rack 1 / slot 2 / ch 3,rack 1 / slot 6 / ch 3,live,,pointMap:pm-di');
   expect(csv).toContain('add,%IX0.7,Rear guard door');
 
   // Not ready yet, and the page says why.

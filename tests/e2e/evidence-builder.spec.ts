@@ -9,7 +9,7 @@ import { DEMO, pageFor } from './foundation-helpers';
  * and fault card with the same pickers, and the stored drill reads back the same.
  */
 
-const DEMO_CHANGEOVER = 'Rear guard door and DI card to slot 5';
+const DEMO_CHANGEOVER = 'Rear guard door and DI card to slot 6';
 const BROKEN = 'Robot held whenever the yellow tier shows a guard open';
 
 /** Types into a signal picker and chooses the option whose text matches. */

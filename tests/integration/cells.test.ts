@@ -218,7 +218,7 @@ describe('JSON import and export', () => {
   it('refuses a broken document with 422 and every problem’s path, writing nothing', async () => {
     const before = Number((await db()('cells').count<{ n: string }[]>({ n: '*' }))[0].n);
     const document = structuredClone(pickAndPlaceCell) as unknown as Json & { schemaVersion: number; panel: Json[]; controller: { poses: Json[] } };
-    document.schemaVersion = 2;
+    document.schemaVersion = 99; // no such version (2 is the current one, 1 is upgraded)
     document.panel[1].contact = 'NX';
     document.controller.poses[0].speed = -1;
     const res = await call(cellImport.POST, '/api/cells/import', { method: 'POST', cookie: cookie[student.id], body: { document } });
@@ -307,11 +307,11 @@ describe('CSV import and export', () => {
     // Row numbers count the header as row 1, as a spreadsheet shows them (common practice).
     const text = [
       'row_id,family,first_point,count,rack,slot,first_channel,bits,encoding,labels,invert',
-      'pm-di,DI,1,6,0,1,0,,,Start|Stop|Reset|Guard|E-stop|Part,', // row 2: good
-      'pm-bad-rack,DO,1,7,x,2,0,,,,', // row 3: rack is not a number
-      'pm-bad-family,ZZ,1,1,0,2,8,,,,', // row 4: unknown family
-      'pm-no-module,DO,20,1,0,9,0,,,,', // row 5: no module in rack 0 slot 9 (cross-check)
-      'pm-to,TO,1,1,0,3,0,,,Gripper close,', // row 6: good
+      'pm-di,DI,1,6,1,2,0,,,Start|Stop|Reset|Guard|E-stop|Part,', // row 2: good
+      'pm-bad-rack,DO,1,7,x,3,0,,,,', // row 3: rack is not a number
+      'pm-bad-family,ZZ,1,1,1,3,8,,,,', // row 4: unknown family
+      'pm-no-module,DO,20,1,1,9,0,,,,', // row 5: no module in rack 1 slot 9 (cross-check)
+      'pm-to,TO,1,1,1,4,0,,,Gripper close,', // row 6: good
     ].join('\n');
     const res = await importCsv(trainer, made.id, 'point-map', text, 1);
     expect(res.status).toBe(422);
@@ -401,8 +401,8 @@ describe('CSV import and export', () => {
     const io = await importCsv(trainer, made.id, 'io-list', csvTemplate('io-list'), 2);
     expect(io.status, JSON.stringify(io.body)).toBe(201);
     const doc = await latestDocument(made.id);
-    // DO1 of the demo's live map is rack 0, slot 2, channel 0 (simulator/demo/pick-and-place.ts, row pm-do).
-    expect(doc.wiring.find((w) => w.id === 'l-ready')?.from).toEqual({ controller: { rack: 0, slot: 2, channel: 0 } });
+    // DO1 of the demo's live map is rack 1, slot 3, channel 0 (simulator/demo/pick-and-place.ts, row pm-do).
+    expect(doc.wiring.find((w) => w.id === 'l-ready')?.from).toEqual({ controller: { rack: 1, slot: 3, channel: 0 } });
     expect(doc.controller.staged?.find((r) => r.id === 'pm-do')?.points?.[2]).toEqual({ label: 'Fault', invert: true });
   });
 

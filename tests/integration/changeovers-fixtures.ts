@@ -1,6 +1,6 @@
 /**
  * Fixtures for the changeover tests and matrix rows: a pick-and-place cell whose version 2 is
- * the demo proposal (rear guard door, DI card to slot 5), a changeover on it, and evidence
+ * the demo proposal (rear guard door, DI card to slot 6), a changeover on it, and evidence
  * made the way the worker makes it (the proofs job run in-process on a fresh run).
  */
 import { createCell, saveVersion } from '@/db/cells';

@@ -340,7 +340,7 @@ describe('the I/O change sheet', () => {
     const text = await res.text();
     const rows = Papa.parse<string[]>(text.trim()).data;
     expect(rows[0]).toEqual(['Action', 'Point / address', 'Label', 'Was', 'Now', 'Map', 'Wire', 'Source']);
-    expect(rows).toContainEqual(['move', 'DI4', 'Guard closed', 'rack 0 / slot 1 / ch 3', 'rack 0 / slot 5 / ch 3', 'live', '', 'pointMap:pm-di']);
+    expect(rows).toContainEqual(['move', 'DI4', 'Guard closed', 'rack 1 / slot 2 / ch 3', 'rack 1 / slot 6 / ch 3', 'live', '', 'pointMap:pm-di']);
     expect(rows.some((r) => r[0] === 'add' && r[1] === '%IX0.7' && r[6] === 'w-rear-guard')).toBe(true);
     expect((await call(ioSheet.GET, `/api/changeovers/${id}/io-sheet`, { cookie: as(otherLead), params: at(id) })).status).toBe(404);
   });

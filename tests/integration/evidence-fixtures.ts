@@ -16,7 +16,7 @@ import type { User } from '@/db/users';
 export async function evidenceChangeover(owner: User, opts: { rules?: boolean; scenarios?: boolean } = {}): Promise<{ changeover: Changeover; cellId: string }> {
   const base = cellDocumentSchema.parse(structuredClone(pickAndPlaceCell));
   const cell = await createCell({ ownerId: owner.id, name: `Evidence cell ${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`, origin: 'template', document: base, message: 'today' });
-  const saved = await saveVersion(cell.id, owner.id, 1, demoChangeoverProposal(base), 'rear guard door, DI card to slot 5');
+  const saved = await saveVersion(cell.id, owner.id, 1, demoChangeoverProposal(base), 'rear guard door, DI card to slot 6');
   if (!saved.ok) throw new Error('fixture: proposal not saved');
   if (opts.rules !== false) for (const r of DEMO_INTERLOCK_RULES) await createInterlockRule(cell.id, owner.id, r);
   if (opts.scenarios !== false) {

@@ -99,7 +99,7 @@ describe('PLC link', () => {
     expect(byAddress['%QW2']).toMatchObject({ table: 'holding-register', offset: 0, direction: 'plc-writes' });
     expect(rows.filter((x) => x.table === 'coil')).toHaveLength(16);
     expect(rows.filter((x) => x.table === 'discrete-input')).toHaveLength(16);
-    expect(lines).toContain('coil,0,%QX0.0,controller rack 0 slot 1 channel 0; sheet robotStart,plc-writes');
+    expect(lines).toContain('coil,0,%QX0.0,controller rack 1 slot 2 channel 0; sheet robotStart,plc-writes');
     expect(rows).toEqual(registerMap(cellDocumentSchema.parse(pickAndPlaceCell)));
   });
 
