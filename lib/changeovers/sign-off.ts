@@ -3,6 +3,8 @@ import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
 import { countersignChangeover, findChangeover, signChangeover, withdrawSignature } from '@/db/changeovers';
 import type { SignatureInput } from '@/lib/schemas/changeovers';
+import { runAfterResponse } from '@/lib/after-response';
+import { queueChangeoverReport } from '@/lib/reports/changeover-report-files';
 import { diffCells } from '@/simulator';
 import { changeoverDocuments } from './diff';
 import { loadEvidence } from './evidence';
@@ -112,5 +114,10 @@ export async function countersignFor(user: User, co: Changeover, body: Signature
     if (r.reason === 'not-signed') throw new ApiError(409, 'The signature was withdrawn before you countersigned.');
     throw new ApiError(409, 'The changeover was re-pinned while you countersigned. Review it again.');
   }
+  // The printed report (PDF) is made by a job, off this request; if queueing fails here, the
+  // download route queues it when someone asks for it.
+  runAfterResponse('queue the printed changeover report', async () => {
+    await queueChangeoverReport(co.id, user.id);
+  });
   return r.record;
 }

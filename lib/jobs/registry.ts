@@ -15,4 +15,5 @@ export const JOB_HANDLERS: Partial<Record<JobKind, () => Promise<JobHandler>>> =
   'drill-regrade': async () => (await import('@/lib/drills/regrade-job')).drillRegradeJob,
   'changeover-proofs': async () => (await import('@/lib/changeovers/jobs')).changeoverProofsJob,
   'changeover-checks': async () => (await import('@/lib/changeovers/jobs')).changeoverChecksJob,
+  'changeover-report': async () => (await import('@/lib/reports/changeover-report-job')).changeoverReportJob,
 };

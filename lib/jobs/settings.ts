@@ -19,6 +19,8 @@ export const JOB_SETTINGS: Record<JobKind, JobSettings> = {
   'changeover-proofs': { budgetSeconds: 600, retryLimit: 2, retryDelaySeconds: 5 },
   'changeover-checks': { budgetSeconds: 600, retryLimit: 2, retryDelaySeconds: 5 },
   'drill-regrade': { budgetSeconds: 900, retryLimit: 2, retryDelaySeconds: 5 },
+  // Printing one signed record takes well under a second (lib/reports); retries cover a bucket that was briefly away.
+  'changeover-report': { budgetSeconds: 120, retryLimit: 3, retryDelaySeconds: 5 },
 };
 
 /** For a kind the table does not name (tests' own kinds). */

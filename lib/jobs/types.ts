@@ -4,7 +4,7 @@
  */
 
 /** Every kind of job the worker knows. A new kind is added here, in JOB_SETTINGS (lib/jobs/settings.ts) and in JOB_HANDLERS (lib/jobs/registry.ts). */
-export const JOB_KINDS = ['changeover-proofs', 'changeover-checks', 'drill-regrade'] as const;
+export const JOB_KINDS = ['changeover-proofs', 'changeover-checks', 'drill-regrade', 'changeover-report'] as const;
 export type JobKind = (typeof JOB_KINDS)[number];
 
 /**

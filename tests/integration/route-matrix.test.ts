@@ -37,6 +37,7 @@ import { CHANGEOVER_ROUTES } from './changeovers-matrix-routes';
 import { EVIDENCE_ROUTES } from './evidence-matrix-routes';
 import { PLC_LINK_ROUTES } from './plc-link-matrix-routes';
 import { LIVE_ROUTES } from './live-matrix-routes';
+import { STORAGE_ROUTES } from './storage-matrix-routes';
 import { ACTORS, type Actor, type RouteCase, type World } from './route-matrix-cases';
 
 const PUBLIC = (status: number): Record<Actor, number> => ({
@@ -208,6 +209,7 @@ const ROUTES: RouteCase[] = [
   ...EVIDENCE_ROUTES,
   ...PLC_LINK_ROUTES,
   ...LIVE_ROUTES,
+  ...STORAGE_ROUTES,
 ];
 
 /** Server actions would be listed here with the same shape; there are none yet. */
