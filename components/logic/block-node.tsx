@@ -47,7 +47,7 @@ function LiveOutput({ blockId, port }: { blockId: string; port: PortSpec }) {
       data-value={String(value)}
       className={cn(
         'ml-1 rounded px-1 font-mono text-[10px] leading-4',
-        typeof value === 'boolean' ? (on ? 'bg-teal-500 font-bold text-white' : 'bg-slate-200 text-slate-600') : 'bg-slate-800 text-white',
+        typeof value === 'boolean' ? (on ? 'bg-teal-800 font-bold text-white' : 'bg-slate-200 text-slate-700') : 'bg-slate-800 text-white',
       )}
     >
       {formatLiveValue(value)}
