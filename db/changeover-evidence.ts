@@ -1,8 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { InterlockRuleInput, Trace } from '@/simulator';
-import type { Side, StoredVerdictBody } from '@/lib/changeovers/prove-rules';
-import type { OutcomeChange, ScenarioInput, ScenarioOutcome } from '@/lib/changeovers/scenario-check';
+import type { OutcomeChange, ScenarioInput, ScenarioOutcome, Side, StoredVerdictBody } from './types/evidence';
 import { db } from './knex';
 import { isUuid } from './users';
 

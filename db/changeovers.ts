@@ -2,7 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import type { CellDocument } from '@/simulator';
 import { upgradeCellDocument } from '@/simulator';
-import type { Role } from '@/lib/roles';
+import type { Role } from './types/users';
 import type {
   Changeover,
   ChangeoverEvent,
@@ -12,7 +12,7 @@ import type {
   PersonRef,
   RecordContent,
   SignedRecord,
-} from '@/lib/changeovers/types';
+} from './types/changeovers';
 import { db } from './knex';
 import { isUuid } from './users';
 
@@ -22,7 +22,7 @@ import { isUuid } from './users';
  * live in lib/changeovers/ (access, sign-off), these functions only read and write.
  */
 export type { Changeover, ChangeoverEvent, ChangeoverEventKind, ChangeoverState, PersonRef, RecordContent, SignedRecord };
-export { CHANGEOVER_STATES } from '@/lib/changeovers/types';
+export { CHANGEOVER_STATES } from './types/changeovers';
 const iso = (d: Date | string | null) => (d === null ? null : new Date(d).toISOString());
 
 function baseQuery(k: Knex = db()) {

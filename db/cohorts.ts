@@ -1,6 +1,6 @@
 import 'server-only';
 import { db } from './knex';
-import type { CohortDetail, CohortMember, CohortSummary, PendingInvitation } from '@/lib/cohorts/types';
+import type { CohortDetail, CohortMember, CohortSummary, PendingInvitation } from './types/cohorts';
 import { isUuid } from './users';
 
 export type { CohortDetail, CohortMember, CohortSummary, PendingInvitation };

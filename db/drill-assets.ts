@@ -1,6 +1,6 @@
 import 'server-only';
 import { randomUUID } from 'node:crypto';
-import type { AssetType } from '@/lib/schemas/drills';
+import type { AssetType } from './types/drills';
 import { drillAssetKey } from '@/lib/storage/keys';
 import { objectStore, sha256Hex } from '@/lib/storage/object-store';
 import { db } from './knex';

@@ -1,4 +1,4 @@
-import type { DrillInput } from '@/lib/schemas/drills';
+import type { DrillInput } from './types/drills';
 
 /**
  * The `drills` columns a drill's input fills (JSON columns serialised), shared by the data

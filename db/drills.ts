@@ -1,8 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { FaultCard } from '@/simulator';
-import type { DrillInput, DrillPermissions, WeightedRule } from '@/lib/schemas/drills';
-import { notClosedSince } from '@/lib/drills/assignment-window';
+import type { DrillInput, DrillPermissions, WeightedRule } from './types/drills';
 import { drillColumns } from './drill-columns';
 import { db } from './knex';
 import { isUuid } from './users';
@@ -215,13 +214,15 @@ export async function isDrillOpenedToMember(drillId: string, userId: string): Pr
 
 /**
  * True while the user could still attempt the drill: an assignment of it to one of their
- * cohorts has not closed yet (open now, or still to open). Its hidden parts stay hidden then.
+ * cohorts has not closed yet (open now, or still to open), that is, closes at or after
+ * `notClosedSince` (the window rule's instant, lib/drills/assignment-window.ts). Its hidden
+ * parts stay hidden then.
  */
-export async function hasUnclosedAssignmentFor(drillId: string, userId: string): Promise<boolean> {
+export async function hasUnclosedAssignmentFor(drillId: string, userId: string, notClosedSince: Date): Promise<boolean> {
   const row = await db()('assignments as a')
     .join('memberships as m', 'm.cohort_id', 'a.cohort_id')
     .where({ 'a.drill_id': drillId, 'm.user_id': userId })
-    .where('a.closes_at', '>=', notClosedSince())
+    .where('a.closes_at', '>=', notClosedSince)
     .first('a.id');
   return Boolean(row);
 }

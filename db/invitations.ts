@@ -1,8 +1,7 @@
 import 'server-only';
-import { hashToken, newToken } from '@/lib/tokens';
 import { db } from './knex';
 import { writeAudit } from './audit';
-import { findTokenRow, tokenRefusal } from './tokens';
+import { findTokenRow, hashToken, newToken, tokenRefusal } from './tokens';
 import { createUser, isUuid, normalizeEmail } from './users';
 
 export const INVITATION_TTL_DAYS = 7;

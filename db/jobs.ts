@@ -1,6 +1,6 @@
 import 'server-only';
 import type { Knex } from 'knex';
-import type { JobKind, JobProgress, JobRecord, JobState } from '@/lib/jobs/types';
+import type { JobKind, JobProgress, JobRecord, JobState } from './types/jobs';
 import { db } from './knex';
 import { isUuid } from './users';
 

@@ -1,6 +1,6 @@
 import 'server-only';
 import type { LoggedEvent } from '@/simulator';
-import type { BoardMessage, StudentMessage } from '@/lib/live/types';
+import type { BoardMessage, StudentMessage } from './types/live';
 import { db } from './knex';
 import { isUuid } from './users';
 

@@ -1,7 +1,6 @@
 import 'server-only';
-import { newToken } from '@/lib/tokens';
 import { db } from './knex';
-import { findTokenRow, tokenRefusal } from './tokens';
+import { findTokenRow, newToken, tokenRefusal } from './tokens';
 import { writeAudit } from './audit';
 
 export const RESET_TTL_MINUTES = 60;

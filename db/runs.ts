@@ -1,8 +1,8 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import type { LoggedEvent } from '@/simulator';
-import type { Diagnosis } from '@/lib/schemas/runs';
-import type { GradeBreakdown } from '@/lib/runs/grade';
+import type { Diagnosis } from './types/drills';
+import type { GradeBreakdown } from './types/runs';
 import { writeAudit } from './audit';
 import { db } from './knex';
 import { isUuid } from './users';

@@ -1,6 +1,17 @@
 import 'server-only';
+import { createHash, randomBytes } from 'node:crypto';
 import type { Knex } from 'knex';
-import { hashToken } from '@/lib/tokens';
+
+/** A fresh single-use token (256 bits, URL-safe) and the hash that is stored instead of it. */
+export function newToken(): { token: string; hash: string } {
+  const token = randomBytes(32).toString('base64url');
+  return { token, hash: hashToken(token) };
+}
+
+/** The SHA-256 (hex) stored for a token: the token itself is never stored. */
+export function hashToken(token: string): string {
+  return createHash('sha256').update(token).digest('hex');
+}
 
 /** The tables that store single-use link tokens (only their hash, in `token_hash`). */
 type TokenTable = 'invitations' | 'password_resets';

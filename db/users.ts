@@ -1,7 +1,6 @@
 import 'server-only';
 import type { Knex } from 'knex';
-import type { Role } from '@/lib/roles';
-import type { User } from '@/lib/users/types';
+import type { Role, User } from './types/users';
 import { db } from './knex';
 import { writeAudit } from './audit';
 

@@ -1,5 +1,6 @@
-export const ROLES = ['student', 'trainer', 'lead', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+// The roles are stored on accounts: their list lives below db/ and lib/ (db/types/users.ts).
+import type { Role } from '@/db/types/users';
+export { ROLES, type Role } from '@/db/types/users';
 
 export const ROLE_LABELS: Record<Role, string> = {
   student: 'Student',

@@ -2,15 +2,13 @@
  * One interlock rule proved on one version of a cell, as the proofs job stores it. Pure over
  * the engine (no database): the job worker calls it, tests call it directly.
  */
-import { proveRules, type InterlockRuleInput, type Verdict } from '@/simulator';
+import { proveRules, type InterlockRuleInput } from '@/simulator';
 import { documentSha256 } from './hash';
 
-export type Side = 'base' | 'proposed';
+import type { Side, StoredVerdictBody } from '@/db/types/evidence';
 
-/** A rule the engine could not prove at all (its signals or the sheet do not validate). */
-export type ErrorVerdict = { rule: string; title: string; status: 'error'; problems: { path: string; message: string }[] };
-
-export type StoredVerdictBody = Verdict | ErrorVerdict;
+// Verdicts are stored: their shapes live below db/ and lib/ (db/types/evidence.ts).
+export type { ErrorVerdict, Side, StoredVerdictBody } from '@/db/types/evidence';
 
 export type ProvedRule = {
   status: 'proved' | 'violated' | 'undecided' | 'error';

@@ -7,23 +7,12 @@
  * would watch — so a signal the proposal adds (a second guard's input) does not by itself
  * make every trace differ; a scenario's rules may still name it.
  */
-import { checkRules, hashTrace, replay, ruleSignals, type FaultCard, type LoggedEvent, type Rule, type Trace } from '@/simulator';
+import { checkRules, hashTrace, replay, ruleSignals, type Rule, type Trace } from '@/simulator';
 import { documentSha256 } from './hash';
-import type { Side } from './prove-rules';
+import type { OutcomeChange, RuleOutcome, ScenarioInput, ScenarioOutcome } from '@/db/types/evidence';
 
-export type ScenarioInput = { name: string; events: LoggedEvent[]; rules: Rule[]; faults: FaultCard[]; seed: number | null; durationMs: number };
-
-export type RuleStatus = 'pass' | 'fail' | 'inconclusive' | 'error';
-
-export type RuleOutcome = { id: string; label?: string; status: RuleStatus; violation?: { timeMs: number; message: string } };
-
-/** What a scenario did on one version. `hash` is over the compared signals only. */
-export type ScenarioOutcome = { version: number; ok: boolean; endMs: number; hash: string | null; rules: RuleOutcome[]; problems: string[] };
-
-export type OutcomeChange =
-  | { kind: 'rule'; rule: string; label?: string; from: RuleStatus | 'absent'; to: RuleStatus | 'absent' }
-  | { kind: 'trace'; from: string | null; to: string | null }
-  | { kind: 'error'; side: Side; message: string };
+// Scenarios and their outcomes are stored: their shapes live below db/ and lib/ (db/types/evidence.ts).
+export type { OutcomeChange, RuleOutcome, RuleStatus, ScenarioInput, ScenarioOutcome } from '@/db/types/evidence';
 
 /** Most samples of one trace kept for the comparison scope (a long scenario is cut, and says so). */
 export const MAX_STORED_SAMPLES = 150_000;

@@ -3,45 +3,9 @@
  * (components/jobs/*): no `server-only`, no imports from the server side.
  */
 
-/** Every kind of job the worker knows. A new kind is added here, in JOB_SETTINGS (lib/jobs/settings.ts) and in JOB_HANDLERS (lib/jobs/registry.ts). */
-export const JOB_KINDS = ['changeover-proofs', 'changeover-checks', 'drill-regrade', 'changeover-report'] as const;
-export type JobKind = (typeof JOB_KINDS)[number];
-
-/**
- * Where a job stands. A failed attempt that will be retried goes back to `queued` with its
- * error kept in `error`; `failed` is final (retries spent, or a failure retrying cannot fix).
- */
-export const JOB_STATES = ['queued', 'running', 'done', 'failed'] as const;
-export type JobState = (typeof JOB_STATES)[number];
-
-/** How far a job has come, as its handler last reported it; `total` 0 means "not known yet". */
-export interface JobProgress {
-  done: number;
-  total: number;
-  note: string;
-}
-
-/** A job as the app shows it (GET /api/jobs/[id], the stream's snapshot). The payload stays on the server. */
-export interface JobRecord {
-  id: string;
-  kind: JobKind;
-  /** What the job is about, `<kind>:<uuid>` (`changeover:…`, `drill:…`): who may read it follows from it (lib/jobs/access.ts). */
-  subject: string;
-  ownerId: string;
-  state: JobState;
-  progress: JobProgress;
-  /** The handler's answer once `done` (JSON), else null. */
-  result: unknown;
-  /** The last attempt's error: final when `failed`, the reason for a retry when `queued` again. */
-  error: string | null;
-  /** Attempts started so far (0 while it waits for its first). */
-  attempts: number;
-  /** Grows by one with every change of the row: of two views of a job, the higher version is newer. */
-  version: number;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
-}
+// The stored shapes live below db/ and lib/ (db/types/jobs.ts); re-exported here for the browser and lib/.
+import type { JobKind, JobProgress, JobState } from '@/db/types/jobs';
+export { JOB_KINDS, JOB_STATES, type JobKind, type JobProgress, type JobRecord, type JobState } from '@/db/types/jobs';
 
 /** What every change of a job row announces (PostgreSQL NOTIFY on JOB_EVENTS_CHANNEL, then the SSE stream). */
 export interface JobEvent {

@@ -1,4 +1,8 @@
 /** Shared with the browser: what the live board and a student's message stream carry. */
+import type { BoardMessage } from '@/db/types/live';
+
+// The stored message shapes live below db/ and lib/ (db/types/live.ts).
+export type { BoardMessage, StudentMessage } from '@/db/types/live';
 
 export const LIVE_CHANNEL = 'cellwright_live';
 
@@ -45,17 +49,6 @@ export interface BoardTile {
   lastEvent: string | null;
 }
 
-export interface BoardMessage {
-  id: string;
-  kind: 'hint' | 'message';
-  body: string;
-  /** null: to everyone of the assignment. */
-  toUserId: string | null;
-  toName: string | null;
-  authorName: string;
-  createdAt: string;
-}
-
 export interface Board {
   assignment: { id: string; drillId: string; drillTitle: string; cohortName: string; opensAt: string; closesAt: string; state: 'upcoming' | 'open' | 'closed'; timeLimitMs: number };
   tiles: BoardTile[];
@@ -63,11 +56,3 @@ export interface Board {
   messages: BoardMessage[];
 }
 
-/** What a student receives of a message: never who else got it. */
-export interface StudentMessage {
-  id: string;
-  kind: 'hint' | 'message';
-  body: string;
-  authorName: string;
-  createdAt: string;
-}

@@ -3,6 +3,7 @@ import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
 import { findDrill, hasUnclosedAssignmentFor } from '@/db/drills';
 import { findRun, type Run } from '@/db/runs';
+import { notClosedSince } from '@/lib/drills/assignment-window';
 
 /** A run the user owns (batches, view, submit); anybody else gets 404. */
 export async function runForOwner(user: User, id: string): Promise<Run> {
@@ -52,7 +53,7 @@ export async function ownerRunView(run: Run) {
 /** Whether a student may see a drill's hidden parts: only when no assignment of it to any of their cohorts is still open or to come. */
 export async function drillSecretsVisibleToStudent(drillId: string | null, userId: string): Promise<boolean> {
   if (!drillId) return false;
-  return !(await hasUnclosedAssignmentFor(drillId, userId));
+  return !(await hasUnclosedAssignmentFor(drillId, userId, notClosedSince()));
 }
 
 /**

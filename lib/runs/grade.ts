@@ -5,38 +5,13 @@
  * and the same inputs always give the same grade (the engine is deterministic).
  */
 import { checkRules, hashTrace, type LoggedEvent, type Problem, type Result } from '@/simulator';
-
-type RuleResult = Extract<ReturnType<typeof checkRules>, { ok: true }>['value'][number];
 import type { WeightedRule } from '@/lib/schemas/drills';
 import type { Diagnosis } from '@/lib/schemas/runs';
+import type { DiagnosisScore, GradeBreakdown, RuleScore } from '@/db/types/runs';
 import { gradeSignals, replayRun, type RunContext } from './engine';
 
-export interface RuleScore {
-  id: string;
-  label: string | null;
-  kind: RuleResult['kind'];
-  weight: number;
-  status: RuleResult['status'];
-  earned: number;
-  violation: RuleResult['violation'] | null;
-}
-
-export interface DiagnosisScore {
-  weight: number;
-  earned: number;
-  kindCorrect: boolean;
-  locationCorrect: boolean;
-  given: Diagnosis | null;
-}
-
-/** How a grade came about: per rule, the diagnosis, and the totals. */
-export interface GradeBreakdown {
-  rules: RuleScore[];
-  diagnosis: DiagnosisScore;
-  earned: number;
-  possible: number;
-  endedMs: number;
-}
+// The breakdown is stored with the run: its shapes live below db/ and lib/ (db/types/runs.ts).
+export type { DiagnosisScore, GradeBreakdown, RuleScore } from '@/db/types/runs';
 
 export interface GradeResult {
   /** Percent, 0–100, one decimal. */

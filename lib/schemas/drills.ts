@@ -1,5 +1,10 @@
 import { z } from 'zod';
 import { faultCardSchema, ruleSchema, FAULT_KINDS } from '@/simulator';
+import { EDITABLE_AREAS, type DrillInput, type DrillPermissions, type WeightedRule } from '@/db/types/drills';
+import type { Proven, SameShape } from './same-shape';
+
+// The stored drill shapes live below db/ and lib/ (db/types/drills.ts); the schemas below are checked against them.
+export { ASSET_TYPES, EDITABLE_AREAS, type AssetType, type Diagnosis, type DrillInput, type DrillPermissions, type EditableArea, type WeightedRule } from '@/db/types/drills';
 
 /**
  * What a student may name as the cause: any fault card kind, or one of two configuration
@@ -10,10 +15,6 @@ import { faultCardSchema, ruleSchema, FAULT_KINDS } from '@/simulator';
 export const CONFIG_FAULT_KINDS = ['staged-not-applied', 'wrong-word-encoding'] as const;
 export const DIAGNOSIS_KINDS = [...FAULT_KINDS, ...CONFIG_FAULT_KINDS] as readonly string[];
 export type DiagnosisKind = (typeof DIAGNOSIS_KINDS)[number];
-
-/** Areas of the workspace a drill may open for editing (the panel is always operable). */
-export const EDITABLE_AREAS = ['point-map', 'logic', 'wiring', 'routine'] as const;
-export type EditableArea = (typeof EDITABLE_AREAS)[number];
 
 /** Limits of one drill. */
 export const DRILL_LIMITS = {
@@ -32,7 +33,7 @@ const weight = z.number().int().min(0).max(DRILL_LIMITS.weight);
 
 /** A rule of the engine (simulator/trace/rules.ts) with the points it is worth. */
 export const weightedRuleSchema = z.object({ rule: ruleSchema, weight });
-export type WeightedRule = z.infer<typeof weightedRuleSchema>;
+type _WeightedRuleFits = Proven<SameShape<z.output<typeof weightedRuleSchema>, WeightedRule>>;
 
 export const diagnosisKindSchema = z.string().refine((k) => DIAGNOSIS_KINDS.includes(k), { message: 'Choose a kind from the fault catalogue.' });
 /** Where: a device id, a wiring row id (two, comma-separated, for swapped wires), a module or point-map row id. */
@@ -42,7 +43,7 @@ export const permissionsSchema = z.object({
   forceAllowed: z.boolean(),
   editable: z.array(z.enum(EDITABLE_AREAS)).max(EDITABLE_AREAS.length),
 });
-export type DrillPermissions = z.infer<typeof permissionsSchema>;
+type _PermissionsFit = Proven<SameShape<z.output<typeof permissionsSchema>, DrillPermissions>>;
 
 /**
  * A drill as a trainer writes it. Fault cards and rules are checked against the engine's own
@@ -62,7 +63,7 @@ export const drillInputSchema = z.object({
   timeLimitMs: z.number().int().min(DRILL_LIMITS.timeLimitMinMs).max(DRILL_LIMITS.timeLimitMaxMs),
   permissions: permissionsSchema.default({ forceAllowed: true, editable: ['point-map'] }),
 });
-export type DrillInput = z.output<typeof drillInputSchema>;
+type _DrillInputFits = Proven<SameShape<z.output<typeof drillInputSchema>, DrillInput>>;
 
 /** A partial update: every field optional, same checks. */
 export const drillPatchSchema = drillInputSchema.partial();
@@ -82,6 +83,4 @@ export type AssignInput = z.infer<typeof assignSchema>;
 
 /** Brief images: at most 1 MiB, PNG, JPEG, WebP or GIF (sniffed from the bytes, never the client's word). */
 export const MAX_ASSET_BYTES = 1_048_576;
-export const ASSET_TYPES = ['image/png', 'image/jpeg', 'image/webp', 'image/gif'] as const;
-export type AssetType = (typeof ASSET_TYPES)[number];
 export const assetNameSchema = z.string().trim().min(1).max(200).regex(/^[^/\\\0]+$/, { message: 'A file name without slashes.' });

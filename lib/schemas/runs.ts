@@ -1,6 +1,11 @@
 import { z } from 'zod';
 import { cellEventSchema } from '@/simulator';
+import type { Diagnosis } from '@/db/types/drills';
 import { diagnosisKindSchema, locationSchema } from './drills';
+import type { Proven, SameShape } from './same-shape';
+
+// A diagnosis is stored with its run (db/types/drills.ts); the schema is checked against it.
+export type { Diagnosis } from '@/db/types/drills';
 
 /** Limits of one batch: a client sends a batch every second or two, so these are generous. */
 /**
@@ -26,7 +31,7 @@ export const batchSchema = z.object({
 export type BatchInput = z.infer<typeof batchSchema>;
 
 export const diagnosisSchema = z.object({ kind: diagnosisKindSchema, location: locationSchema, note: z.string().max(2000).default('') });
-export type Diagnosis = z.infer<typeof diagnosisSchema>;
+type _DiagnosisFits = Proven<SameShape<z.output<typeof diagnosisSchema>, Diagnosis>>;
 
 /** Submit: a drill run needs a diagnosis; a practice run may finish without one. */
 export const submitSchema = z.object({ diagnosis: diagnosisSchema.optional() });

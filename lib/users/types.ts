@@ -1,17 +1,2 @@
-import type { Role } from '@/lib/roles';
-
-/**
- * A person's account as db/users.ts returns it and the admin routes answer it (dates as ISO
- * strings; never the password hash). Here rather than in db/ so client components can import
- * it: db/ modules are server-only.
- */
-export interface User {
-  id: string;
-  email: string;
-  name: string;
-  role: Role;
-  organization: string | null;
-  disabled: boolean;
-  lastSignInAt: string | null;
-  createdAt: string;
-}
+// A person's account: the stored shape lives below db/ and lib/ (db/types/users.ts); re-exported for the browser.
+export type { User } from '@/db/types/users';

@@ -15,7 +15,7 @@ import { encode } from 'next-auth/jwt';
 import { authOptions } from '@/lib/auth/options';
 import { TEST_ENV } from './test-env';
 import { authenticate } from '@/lib/auth/credentials';
-import { hashToken } from '@/lib/tokens';
+import { hashToken } from '@/db/tokens';
 import { closeDb, db } from '@/db/knex';
 import { lookupInvitation } from '@/db/invitations';
 import { lookupPasswordReset } from '@/db/password-resets';

@@ -140,7 +140,7 @@ const ROUTES: RouteCase[] = [
       await db()('invitations').where({ cohort_id: w.otherCohortId, email }).update({ revoked_at: db().fn.now() });
       await db()('memberships').where({ cohort_id: w.otherCohortId }).delete();
       const k = db();
-      const { newToken } = await import('@/lib/tokens');
+      const { newToken } = await import('@/db/tokens');
       const { token, hash } = newToken();
       await k('invitations').insert({
         cohort_id: w.otherCohortId,

@@ -13,7 +13,7 @@ vi.mock('@/lib/password', async (importOriginal) => {
 import * as accept from '@/app/api/invitations/accept/route';
 import * as resetComplete from '@/app/api/password-resets/complete/route';
 import { hashPassword } from '@/lib/password';
-import { hashToken } from '@/lib/tokens';
+import { hashToken } from '@/db/tokens';
 import { closeDb, db } from '@/db/knex';
 import { createInvitation, revokeInvitation } from '@/db/invitations';
 import { createPasswordReset } from '@/db/password-resets';
