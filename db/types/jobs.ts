@@ -1,7 +1,7 @@
 /** The job row's shapes as db/jobs.ts returns them (GET /api/jobs/[id], the stream's snapshot). See db/types/users.ts for why here. */
 
 /** Every kind of job the worker knows. A new kind is added here, in JOB_SETTINGS (lib/jobs/settings.ts) and in JOB_HANDLERS (lib/jobs/registry.ts). */
-export const JOB_KINDS = ['changeover-proofs', 'changeover-checks', 'drill-regrade'] as const;
+export const JOB_KINDS = ['changeover-proofs', 'changeover-checks', 'drill-regrade', 'changeover-report'] as const;
 export type JobKind = (typeof JOB_KINDS)[number];
 
 /**
