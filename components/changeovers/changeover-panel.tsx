@@ -19,6 +19,7 @@ import { Button } from '@/components/ui/button';
 import { formatDateTime } from '@/components/ui/format';
 import { Notice } from '@/components/ui/notice';
 import { Dialog } from '@/components/cells/dialog';
+import { DownloadButton } from '@/components/files/download-button';
 import { evidenceKey, useEvidence } from './use-evidence';
 
 type Props = {
@@ -235,6 +236,13 @@ function SignOffSection({ co, abilities, me }: { co: Changeover; abilities: Chan
             <Link href={`/changeovers/${co.id}/record`} className="inline-flex items-center gap-2 text-sm font-medium text-accent-700 hover:underline" data-testid="open-record">
               <FileText aria-hidden className="h-4 w-4" /> Open the signed record
             </Link>
+            <DownloadButton
+              label="Download the printed report (PDF)"
+              url={`/api/changeovers/${co.id}/report`}
+              fallbackName="changeover-record.pdf"
+              waitingNote="The report is being printed; it downloads as soon as it is ready."
+              testId="download-report"
+            />
           </div>
         ) : (
           <p className="text-sm text-slate-600">Abandoned before sign-off: nothing was signed.</p>

@@ -14,6 +14,7 @@ import { runIdParamSchema } from '@/lib/schemas/runs';
 import { findDrill } from '@/db/drills';
 import { findCell } from '@/db/cells';
 import { KeepScenarioButton } from '@/components/changeovers/keep-scenario-button';
+import { RunArchiveButton } from '@/components/runs/archive-button';
 import { ROLE_TABLE } from '@/lib/roles';
 
 export const metadata: Metadata = { title: 'Run · Cellwright' };
@@ -37,6 +38,7 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
         description={`${run.mode === 'drill' ? 'Drill run' : 'Practice run'} by ${run.userName} · started ${formatDateTime(run.startedAt)}`}
         actions={
           <div className="flex flex-wrap items-start gap-2">
+            <RunArchiveButton runId={run.id} />
             {keep ? <KeepScenarioButton runId={run.id} cellName={keep.name} suggestedName={`${title} — ${run.userName}, ${run.startedAt.slice(0, 10)}`} /> : null}
             <Link href={`/runs/${run.id}/replay`} className="inline-flex items-center gap-2 rounded-md bg-accent-700 px-3 py-2 text-sm font-medium text-white hover:bg-accent-800">
               <PlayCircle aria-hidden className="h-4 w-4" /> Replay
