@@ -34,11 +34,12 @@ ensure_chromium() {
   apt_install chromium
 }
 
-# npm ci when node_modules is missing or older than package-lock.json.
+# npm ci when node_modules is missing or older than package-lock.json. --include=dev: start.sh exports
+# NODE_ENV=production first, which makes npm leave out devDependencies (tsx, the build's CSS tools) by default.
 ensure_node_modules() {
   if [[ -d node_modules && -f node_modules/.package-lock.json && ! package-lock.json -nt node_modules/.package-lock.json ]]; then return; fi
   log "npm ci"
-  npm ci --no-audit --no-fund
+  npm ci --no-audit --no-fund --include=dev
 }
 
 start_database() {
