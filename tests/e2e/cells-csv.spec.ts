@@ -26,12 +26,12 @@ test('a point-map CSV with one bad row shows that row’s error and saves nothin
   await expect(row.getByTestId('cell-version-count')).toHaveText('1');
   await page.screenshot({ path: testInfo.outputPath('cells-list.png'), fullPage: true });
 
-  // Row 3 (the header is row 1) names rack "x": the only bad row among three.
+  // Row 3 (the header is row 1) names rack "x": the only bad row among three (the demo's cards are in rack 1).
   const csv = [
     'row_id,family,first_point,count,rack,slot,first_channel,bits,encoding,labels,invert',
-    'pm-di,DI,1,6,0,1,0,,,Start|Stop|Reset|Guard|E-stop|Part,',
-    'pm-do,DO,1,7,x,2,0,,,,',
-    'pm-to,TO,1,1,0,3,0,,,Gripper close,',
+    'pm-di,DI,1,6,1,2,0,,,Start|Stop|Reset|Guard|E-stop|Part,',
+    'pm-do,DO,1,7,x,3,0,,,,',
+    'pm-to,TO,1,1,1,4,0,,,Gripper close,',
   ].join('\r\n');
   await row.getByRole('button', { name: `Import CSV into ${name}` }).click();
   const dialog = page.getByRole('dialog', { name: `Import CSV into “${name}”` });
