@@ -134,6 +134,10 @@ test('the lead diffs, proves, signs and rolls back the demo changeover; a second
   await shift.getByTestId('countersign-form').getByRole('textbox').fill(SHIFT_LEAD.name);
   await shift.getByTestId('countersign-form').getByRole('button', { name: 'Countersign' }).click();
   await expect(shift.getByTestId('changeover-state').first()).toHaveText('Signed off');
+  // The printed report (PDF): made by the job worker after the countersignature, downloaded through the app.
+  const [pdf] = await Promise.all([shift.waitForEvent('download', { timeout: 30_000 }), shift.getByTestId('download-report').click()]);
+  expect(pdf.suggestedFilename()).toMatch(/^changeover-[\w-]+\.pdf$/);
+  expect((await readFile((await pdf.path())!)).subarray(0, 5).toString('latin1')).toBe('%PDF-');
 
   // The signed record: caution, both hashes, the accepted reason, both signatures.
   await shift.getByTestId('open-record').click();
