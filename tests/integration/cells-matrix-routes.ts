@@ -21,11 +21,11 @@ import { createCell, shareCell } from '@/db/cells';
 import { cellDocumentSchema } from '@/simulator';
 import { csvTemplate } from '@/lib/cells/csv';
 import { templateDocument } from '@/lib/cells/templates';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
-const ANY_CELL_ROLE = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: ok, lead: ok, admin: 403, otherTrainer: ok });
-const OWNER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 404, trainer: ok, lead: 404, admin: 403, otherTrainer: 404 });
-const OWNER_SHARE_ROLE = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 404, admin: 403, otherTrainer: 404 });
+const ANY_CELL_ROLE = (ok: number) => byRole('cells', ok);
+const OWNER = (ok: number) => byRole('cells', ok, { student: 404, lead: 404, otherTrainer: 404 });
+const OWNER_SHARE_ROLE = (ok: number) => byRole('shareCells', ok, { lead: 404, otherTrainer: 404 });
 
 /** A fresh pick-and-place cell owned by the demo trainer. */
 async function trainerCell(w: World): Promise<string> {
@@ -168,7 +168,7 @@ export const CELL_ROUTES: RouteCase[] = [
       await shareCell(id, w.cohortId, w.users.trainer.id);
       return { path: `/api/cells/${id}/copy`, params: at(id) };
     },
-    expect: { anonymous: 401, student: 201, trainer: 403, lead: 403, admin: 403, otherTrainer: 403 },
+    expect: byRole('copySharedCells', 201),
   },
   {
     name: 'GET /api/cells/[id]/export',

@@ -15,12 +15,12 @@ import * as countersign from '@/app/api/changeovers/[id]/countersign/route';
 import * as rollback from '@/app/api/changeovers/[id]/rollback/route';
 import * as record from '@/app/api/changeovers/[id]/record/route';
 import { draftingChangeover, cellWithProposal } from './changeovers-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 /** Reading routes: the opener (demo lead) and the admin. */
-const READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: ok, otherTrainer: 404 });
+const READER = (ok: number) => byRole('changeovers', ok, { trainer: 404, otherTrainer: 404 });
 /** Changing routes: the opener only; the admin reads but does not change (403). */
-const EDITOR = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: 403, otherTrainer: 404 });
+const EDITOR = (ok: number) => byRole('changeovers', ok, { trainer: 404, admin: 403, otherTrainer: 404 });
 
 const fresh = async (w: World, opts: { edited?: boolean; countersignerId?: string } = {}) => (await draftingChangeover(w.users.lead.id, opts)).id;
 const path = (id: string, rest = '') => `/api/changeovers/${id}${rest}`;
@@ -31,7 +31,7 @@ export const CHANGEOVER_ROUTES: RouteCase[] = [
     handler: changeovers.GET,
     method: 'GET',
     prepare: async () => ({ path: '/api/changeovers' }),
-    expect: { anonymous: 401, student: 403, trainer: 200, lead: 200, admin: 200, otherTrainer: 200 },
+    expect: byRole('changeovers', 200),
   },
   {
     name: 'POST /api/changeovers',
@@ -42,7 +42,7 @@ export const CHANGEOVER_ROUTES: RouteCase[] = [
       const owner = actor === 'trainer' || actor === 'otherTrainer' || actor === 'lead' ? w.users[actor].id : w.users.lead.id;
       return { path: '/api/changeovers', body: { cellId: await cellWithProposal(owner), title: `Matrix ${actor}` } };
     },
-    expect: { anonymous: 401, student: 403, trainer: 201, lead: 201, admin: 403, otherTrainer: 201 },
+    expect: byRole('openChangeovers', 201),
   },
   {
     name: 'GET /api/changeovers/[id]',
@@ -137,7 +137,7 @@ export const CHANGEOVER_ROUTES: RouteCase[] = [
       const name = actor === 'anonymous' ? 'Nobody' : w.users[actor].name;
       return { path: path(id, '/countersign'), params: at(id), body: { baseVersion: 1, proposedVersion: 2, confirmName: name } };
     },
-    expect: { anonymous: 401, student: 403, trainer: 409, lead: 403, admin: 409, otherTrainer: 404 },
+    expect: byRole('countersign', 409, { lead: 403, otherTrainer: 404 }),
   },
   {
     name: 'POST /api/changeovers/[id]/rollback',

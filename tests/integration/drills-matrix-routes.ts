@@ -32,15 +32,15 @@ import { drillInputSchema } from '@/lib/schemas/drills';
 import { submit } from '@/lib/runs/service';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { drillBody } from './drills-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type Actor, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 /** Trainer-only routes on a drill of the demo trainer: other trainers 404, other roles 403. */
-const AUTHOR = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 403, admin: ok, otherTrainer: 404 });
+const AUTHOR = (ok: number) => byRole('drills', ok, { otherTrainer: 404 });
 /** Run routes only the run's owner (the demo student) may call. */
 const RUN_OWNER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: 404, lead: 404, admin: 404, otherTrainer: 404 });
 /** Run routes its owner, the drill's trainer and admins may call. */
 const RUN_READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: ok, lead: 404, admin: ok, otherTrainer: 404 });
-const STUDENT_ONLY = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: 403, lead: 403, admin: 403, otherTrainer: 403 });
+const STUDENT_ONLY = (ok: number) => byRole('attemptDrills', ok);
 
 const PNG_1x1 = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8ffff3f0005fe02fea7d6a1bb0000000049454e44ae426082', 'hex');
 
@@ -83,14 +83,14 @@ async function uploadHandler(req: Request, ctx: { params: Promise<{ id: string }
 const window = () => ({ opensAt: new Date(Date.now() - 60_000).toISOString(), closesAt: new Date(Date.now() + 86_400_000).toISOString() });
 
 export const DRILL_ROUTES: RouteCase[] = [
-  { name: 'GET /api/drills', handler: drills.GET, method: 'GET', prepare: async () => ({ path: '/api/drills' }), expect: { anonymous: 401, student: 403, trainer: 200, lead: 403, admin: 200, otherTrainer: 200 } },
+  { name: 'GET /api/drills', handler: drills.GET, method: 'GET', prepare: async () => ({ path: '/api/drills' }), expect: byRole('drills', 200) },
   {
     name: 'POST /api/drills',
     handler: drills.POST,
     method: 'POST',
     prepare: async (w) => ({ path: '/api/drills', body: drillBody(await trainerCell(w)) }),
     // The base cell is the demo trainer's: another trainer's drill on it is refused as a field error.
-    expect: { anonymous: 401, student: 403, trainer: 201, lead: 403, admin: 201, otherTrainer: 422 },
+    expect: byRole('drills', 201, { otherTrainer: 422 }),
   },
   ...(['GET', 'PATCH', 'DELETE'] as const).map((method) => ({
     name: `${method} /api/drills/[id]`,
@@ -169,7 +169,7 @@ export const DRILL_ROUTES: RouteCase[] = [
     handler: assignments.GET,
     method: 'GET',
     prepare: async () => ({ path: '/api/assignments' }),
-    expect: { anonymous: 401, student: 200, trainer: 200, lead: 403, admin: 200, otherTrainer: 200 },
+    expect: byRole('assignments', 200),
   },
   {
     name: 'GET /api/assignments/[id]',
@@ -196,7 +196,7 @@ export const DRILL_ROUTES: RouteCase[] = [
     handler: runs.GET,
     method: 'GET',
     prepare: async () => ({ path: '/api/runs' }),
-    expect: { anonymous: 401, student: 200, trainer: 200, lead: 200, admin: 403, otherTrainer: 200 },
+    expect: byRole('cells', 200),
   },
   {
     name: 'POST /api/runs',
@@ -209,7 +209,7 @@ export const DRILL_ROUTES: RouteCase[] = [
       await shareCell(cellId, w.cohortId, w.users.trainer.id);
       return { path: '/api/runs', body: { cellId } };
     },
-    expect: { anonymous: 401, student: 201, trainer: 201, lead: 404, admin: 403, otherTrainer: 404 },
+    expect: byRole('cells', 201, { lead: 404, otherTrainer: 404 }),
   },
   {
     name: 'GET /api/runs/[id]',

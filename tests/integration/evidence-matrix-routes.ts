@@ -29,14 +29,14 @@ import { DEMO_INTERLOCK_RULES, DEMO_SCENARIOS } from '@/db/seeds/demo-evidence';
 import { runChangeoverChecks, runChangeoverProofs } from '@/lib/changeovers/jobs';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { evidenceChangeover } from './evidence-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 /** Changeover reading routes: the owner (demo lead) and the admin. */
-const READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: ok, otherTrainer: 404 });
+const READER = (ok: number) => byRole('changeovers', ok, { trainer: 404, otherTrainer: 404 });
 /** Changeover evidence that changes: the owner only. */
-const EDITOR = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: 403, otherTrainer: 404 });
+const EDITOR = (ok: number) => byRole('changeovers', ok, { trainer: 404, admin: 403, otherTrainer: 404 });
 /** A cell's rules and scenarios: its owner; the admin and students by role. */
-const CELL_OWNER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: 403, otherTrainer: 404 });
+const CELL_OWNER = (ok: number) => byRole('cellEvidence', ok, { trainer: 404, otherTrainer: 404 });
 
 const leadCell = async (w: World) => (await createCell({ ownerId: w.users.lead.id, name: 'Matrix evidence cell', origin: 'template', document: cellDocumentSchema.parse(structuredClone(pickAndPlaceCell)), message: 'v1' })).id;
 
@@ -258,6 +258,6 @@ export const EVIDENCE_ROUTES: RouteCase[] = [
       await db()('runs').where({ id: run.id }).update({ status: 'submitted', submitted_at: db().fn.now(), ended_ms: 3000 });
       return { path: `/api/runs/${run.id}/scenario`, params: at(run.id), body: { name: 'Kept in the matrix' } };
     },
-    expect: { anonymous: 401, student: 403, trainer: 404, lead: 201, admin: 403, otherTrainer: 404 },
+    expect: CELL_OWNER(201),
   },
 ];

@@ -15,7 +15,7 @@ import { enqueueJob } from '@/lib/jobs/queue';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { drillBody } from './drills-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 // The rows open the queue's sending pool and the stream's LISTEN connection: close them with the file.
 afterAll(async () => {
@@ -44,7 +44,7 @@ async function streamStatus(req: Request): Promise<Response> {
 }
 
 /** The drill's trainer and admins; other roles 403 by role, another trainer 404. */
-const DRILL_READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 403, admin: ok, otherTrainer: 404 });
+const DRILL_READER = (ok: number) => byRole('drills', ok, { otherTrainer: 404 });
 
 export const JOB_ROUTES: RouteCase[] = [
   {
@@ -77,6 +77,6 @@ export const JOB_ROUTES: RouteCase[] = [
       const drillId = await trainerDrill(w);
       return { path: `/api/drills/${drillId}/regrade`, params: at(drillId) };
     },
-    expect: { anonymous: 401, student: 403, trainer: 201, lead: 403, admin: 201, otherTrainer: 404 },
+    expect: DRILL_READER(201),
   },
 ];

@@ -14,7 +14,7 @@ import { closeLiveEvents } from '@/lib/live/listener';
 import { drillInputSchema } from '@/lib/schemas/drills';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { drillBody } from './drills-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 // The stream rows open this process's LISTEN connection: close it with the file.
 afterAll(async () => {
@@ -51,9 +51,9 @@ function streamStatus(handler: unknown): Handler {
 }
 
 /** The drill's trainer and admins; other roles 403 by role, another trainer 404. */
-const WATCHER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 403, admin: ok, otherTrainer: 404 });
+const WATCHER = (ok: number) => byRole('drills', ok, { otherTrainer: 404 });
 /** Students of the cohort only. */
-const COHORT_STUDENT = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: 403, lead: 403, admin: 403, otherTrainer: 403 });
+const COHORT_STUDENT = (ok: number) => byRole('attemptDrills', ok);
 
 export const LIVE_ROUTES: RouteCase[] = [
   {

@@ -11,10 +11,10 @@ import { createCell } from '@/db/cells';
 import { cellDocumentSchema } from '@/simulator';
 import { templateDocument } from '@/lib/cells/templates';
 import { startSession, stopAllSessions } from '@/lib/plc-link/sessions';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type RouteCase, type World, byRole } from './route-matrix-cases';
 
-const TRAINER_LEAD = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: ok, admin: 403, otherTrainer: ok });
-const OWNER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: ok, lead: 404, admin: 403, otherTrainer: 404 });
+const TRAINER_LEAD = (ok: number) => byRole('plcLink', ok);
+const OWNER = (ok: number) => byRole('plcLink', ok, { lead: 404, otherTrainer: 404 });
 
 // Ports 15030–15039 belong to the matrix (plc-link.test.ts uses 15021–15022).
 let nextPort = 0;

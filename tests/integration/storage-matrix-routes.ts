@@ -13,10 +13,10 @@ import { exportRunArchive } from '@/lib/reports/run-archive';
 import { cellDocumentSchema, pickAndPlaceCell } from '@/simulator';
 import { draftingChangeover } from './changeovers-fixtures';
 import { drillBody } from './drills-fixtures';
-import { at, type Actor, type RouteCase, type World } from './route-matrix-cases';
+import { at, type Actor, type RouteCase, type World, byRole } from './route-matrix-cases';
 
 /** The changeover's readers (the opener, the demo lead, and the admin), as for GET …/record. */
-const CHANGEOVER_READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: 403, trainer: 404, lead: ok, admin: ok, otherTrainer: 404 });
+const CHANGEOVER_READER = (ok: number) => byRole('changeovers', ok, { trainer: 404, otherTrainer: 404 });
 /** A run's readers: its owner, its drill's trainer and admins. */
 const RUN_READER = (ok: number): Record<Actor, number> => ({ anonymous: 401, student: ok, trainer: ok, lead: 404, admin: ok, otherTrainer: 404 });
 
