@@ -13,7 +13,7 @@ describe('safetyCarriers', () => {
     expect(carriers.get('%IX0.4')).toBe('guard');
     expect(carriers.get('DI4')).toBe('guard');
     expect(carriers.get('%QX0.3')).toBe('guard');
-    // The start button and the job word carry neither.
+    // The start button and the recipe word carry neither.
     expect(carriers.has('%IX0.0')).toBe(false);
     expect(carriers.has('DI1')).toBe(false);
     expect(carriers.has('WI1')).toBe(false);
