@@ -145,7 +145,7 @@ export function UsersTable({ currentUserId }: { currentUserId: string }) {
       </div>
       {query.error ? <Notice tone="error">{query.error.message}</Notice> : null}
       {update.error ? <Notice tone="error">{update.error.message}</Notice> : null}
-      <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-sm">
+      <div className="relative overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-sm">
         <table className="w-full text-left text-sm" aria-label="Users">
           <thead className="border-b border-slate-200 bg-slate-50 text-xs uppercase tracking-wide text-slate-500">
             {table.getHeaderGroups().map((hg) => (

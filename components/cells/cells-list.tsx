@@ -58,7 +58,7 @@ export function MyCells({ cells, canShare, open }: { cells: CellSummaryDto[]; ca
   });
   if (cells.length === 0) return <p className="text-sm text-slate-500">No cells yet. Create one from a template, or import one.</p>;
   return (
-    <div className="overflow-x-auto">
+    <div className="relative overflow-x-auto">
       {duplicate.error ? <Notice tone="error">{duplicate.error.message}</Notice> : null}
       <table className="w-full text-left text-sm" data-testid="my-cells">
         <caption className="sr-only">My cells</caption>

@@ -89,7 +89,7 @@ export function ChangeoversList({ initial, cells, canOpen }: { initial: Changeov
           {canOpen ? 'Open one on a cell you keep: the version that runs today is its base, and you edit the proposal in the workspace.' : 'Changeovers you are asked to countersign appear here.'}
         </p>
       ) : (
-        <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-sm">
+        <div className="relative overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-sm">
           <table className="w-full text-left text-sm" aria-label="Changeovers" data-testid="changeovers-table">
             <thead className="border-b border-slate-200 bg-slate-50 text-xs uppercase tracking-wide text-slate-500">
               {table.getHeaderGroups().map((hg) => (

@@ -34,7 +34,7 @@ export function CounterexampleView(props: CounterexampleViewProps) {
     <div className="space-y-6">
       <section aria-label="Input sequence" className="rounded-md border border-slate-200 bg-white p-3">
         <h2 className="mb-2 text-sm font-semibold text-slate-700">The input sequence, scan by scan</h2>
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="min-w-full text-xs" data-testid="counterexample-scans">
             <thead>
               <tr className="border-b border-slate-200 text-left">

@@ -94,7 +94,7 @@ export function DiffAreaTable({ area, entries, baseVersion, proposedVersion }: {
         {AREA_TITLES[area]} <span className="font-normal text-slate-500">— {entries.length} change{entries.length === 1 ? '' : 's'}</span>
       </h3>
       {main.length > 0 ? (
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="w-full text-left text-sm">
             {head}
             <tbody className="divide-y divide-slate-100">

@@ -123,7 +123,7 @@ export function GradebookView({ cohorts, cohortId }: { cohorts: { id: string; na
         book.columns.length === 0 ? (
           <p className="text-sm text-slate-500">No drills assigned to this cohort yet.</p>
         ) : (
-          <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
+          <div className="relative overflow-x-auto rounded-lg border border-slate-200 bg-white">
             <table className="w-full text-left text-sm" data-testid="gradebook">
               <thead className="bg-slate-50 text-xs uppercase tracking-wide text-slate-500">
                 {table.getHeaderGroups().map((hg) => (

@@ -16,7 +16,7 @@ function Figure({ title, summary, children, table }: { title: string; summary: s
         <div className="h-56" aria-hidden>
           {children}
         </div>
-        <div className="overflow-x-auto text-sm">{table}</div>
+        <div className="relative overflow-x-auto text-sm">{table}</div>
       </div>
     </figure>
   );

@@ -188,7 +188,7 @@ export function PlcLinkSession({ initial, map }: { initial: PlcLinkView; map: Re
         <p className="mb-2 text-xs text-slate-600">
           Offsets count from 0 (the address in the request); tools that number registers from 1 show offset + 1. The PLC writes coils and holding registers and reads discrete inputs and input registers.
         </p>
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="min-w-full text-sm" data-testid="plc-link-register-map">
             <thead>
               <tr className="text-left text-slate-500">

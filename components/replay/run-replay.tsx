@@ -231,7 +231,7 @@ export function ReplayPlayer({ document, faults, seed, hiddenVisible, mode, viol
               {violation ? ` · red: first rule violation (${violation.rule}: ${violation.message})` : ''}
             </p>
           </div>
-          <section aria-label="Panel" className="overflow-x-auto rounded-md border border-slate-200 bg-white p-3">
+          <section aria-label="Panel" className="relative overflow-x-auto rounded-md border border-slate-200 bg-white p-3">
             <h2 className="mb-2 text-sm font-semibold text-slate-700">Panel</h2>
             <PanelArea />
           </section>

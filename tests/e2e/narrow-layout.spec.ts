@@ -1,5 +1,6 @@
 import { expect, test, type Locator, type Page } from '@playwright/test';
-import { DEMO, mainNav, signInAs } from './foundation-helpers';
+import { DEMO, DEMO_COHORT, mainNav, signInAs } from './foundation-helpers';
+import { DEMO_CELL_NAME } from './workspace-helpers';
 
 /*
  * Issue 12, "usable anywhere": at 800 px (a tablet, or a laptop window beside the drill brief) the
@@ -10,7 +11,7 @@ import { DEMO, mainNav, signInAs } from './foundation-helpers';
 
 const NARROW = { width: 800, height: 900 };
 const WIDE = { width: 1440, height: 900 };
-const DEMO_CELL = 'Harbourside Cell B — pick and place';
+const NARROWEST = { width: 768, height: 900 };
 
 /** The element is rendered and lies wholly inside the viewport's width. */
 async function expectInside(page: Page, locator: Locator, what: string): Promise<void> {
@@ -55,12 +56,13 @@ test('at 800 px the sidebar is a rail, the user menu and the main actions stay o
   await expectNoSidewaysScroll(page, 'the dashboard');
 
   await page.goto('/cells');
+  await expect(page.getByTestId('my-cells')).toBeVisible();
   await expectUserMenu(page, 'cells');
   await expectInside(page, page.getByRole('button', { name: 'New cell' }), 'cells: New cell');
   await expectNoSidewaysScroll(page, 'cells');
 
   const { cells } = (await (await page.request.get('/api/cells')).json()) as { cells: { id: string; name: string }[] };
-  const own = cells.find((c) => c.name === DEMO_CELL) ?? cells[0];
+  const own = cells.find((c) => c.name === DEMO_CELL_NAME) ?? cells[0];
   await page.goto(`/cells/${own.id}`);
   await expect(page.getByTestId('status-strip')).toBeVisible();
   await expectUserMenu(page, 'the workspace');
@@ -75,14 +77,62 @@ test('at 800 px the sidebar is a rail, the user menu and the main actions stay o
   await expectNoSidewaysScroll(page, 'the drill editor');
 
   await page.goto('/gradebook');
-  await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
+  await expect(page.getByTestId('gradebook')).toBeVisible();
   await expectUserMenu(page, 'the gradebook');
   await expectNoSidewaysScroll(page, 'the gradebook');
 
   await page.goto('/cohorts');
+  await expect(page.getByRole('link', { name: DEMO_COHORT })).toBeVisible();
   await expectUserMenu(page, 'cohorts');
   await expectNoSidewaysScroll(page, 'cohorts');
   await context.close();
+});
+
+test('at 768 px no page outside the workspace scrolls sideways: wide tables scroll inside themselves', async ({ browser }) => {
+  test.setTimeout(120_000);
+  const visit = async (page: Page, path: string, ready: Locator) => {
+    await page.goto(path);
+    await expect(ready).toBeVisible();
+    await expectUserMenu(page, path);
+    await expectNoSidewaysScroll(page, path);
+  };
+  const as = async (who: { email: string; password: string }) => {
+    const context = await browser.newContext({ viewport: NARROWEST });
+    const page = await context.newPage();
+    await signInAs(page, who);
+    return page;
+  };
+
+  const trainer = await as(DEMO.trainer);
+  await visit(trainer, '/dashboard', trainer.getByRole('region', { name: 'Your cohorts' }));
+  await visit(trainer, '/cells', trainer.getByTestId('my-cells'));
+  await visit(trainer, '/drills', trainer.getByTestId('new-drill'));
+  await visit(trainer, '/drills/new', trainer.getByTestId('save-drill'));
+  await visit(trainer, '/gradebook', trainer.getByTestId('gradebook'));
+  await visit(trainer, '/cohorts', trainer.getByRole('link', { name: DEMO_COHORT }));
+  await trainer.getByRole('link', { name: DEMO_COHORT }).click();
+  await expect(trainer.getByLabel('E-mail addresses')).toBeVisible();
+  await expectNoSidewaysScroll(trainer, 'a cohort');
+  await visit(trainer, '/plc-link', trainer.getByRole('button', { name: 'Start PLC link' }));
+  await trainer.context().close();
+
+  const lead = await as(DEMO.lead);
+  await visit(lead, '/changeovers', lead.getByTestId('changeovers-table'));
+  await lead.getByTestId('changeovers-table').getByRole('link').first().click();
+  await expect(lead.getByTestId('changeover-caution')).toBeVisible();
+  await expectUserMenu(lead, 'a changeover');
+  await expectNoSidewaysScroll(lead, 'a changeover');
+  await lead.context().close();
+
+  const student = await as(DEMO.student);
+  await visit(student, '/drills', student.getByRole('heading', { level: 1 }));
+  await visit(student, '/runs', student.getByRole('heading', { level: 1 }));
+  await student.context().close();
+
+  const admin = await as(DEMO.admin);
+  await visit(admin, '/admin/users', admin.getByRole('table', { name: 'Users' }));
+  await visit(admin, '/admin/mailbox', admin.getByRole('heading', { level: 1 }));
+  await admin.context().close();
 });
 
 test('the sidebar toggle works from the keyboard; wide screens keep the reader\'s choice', async ({ browser }) => {
