@@ -1,12 +1,18 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
-import type { CellRecord } from '@/db/cells';
-import { findCell, isSharedWithMember } from '@/db/cells';
+import type { CellRecord, CellSummary, SharedCellSummary } from '@/db/cells';
+import { findCell, isSharedWithMember, listCellsSharedWithMember, listOwnedCells } from '@/db/cells';
 import type { CohortSummary } from '@/db/cohorts';
 import { findCohort, listCohorts } from '@/db/cohorts';
 
 export type CellAccess = 'owner' | 'shared';
+
+/** The user's own cells and, for a student, the cells shared with their cohorts (and their copies). */
+export async function cellsOf(user: User): Promise<{ cells: CellSummary[]; shared: SharedCellSummary[] }> {
+  const [cells, shared] = await Promise.all([listOwnedCells(user.id), user.role === 'student' ? listCellsSharedWithMember(user.id) : Promise.resolve([])]);
+  return { cells, shared };
+}
 
 /**
  * A cell the user may read: their own, or one shared with a cohort they belong to. Anything

@@ -1,13 +1,39 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
 import type { User } from '@/db/users';
-import { findAssignment, findDrill, isCohortMember, isDrillOpenedToMember, type Assignment, type Drill } from '@/db/drills';
+import {
+  cohortStudents,
+  findAssignment,
+  findDrill,
+  isCohortMember,
+  isDrillOpenedToMember,
+  listAssignmentsForStudent,
+  listAssignmentsOfTrainer,
+  listDrills,
+  type Assignment,
+  type Drill,
+} from '@/db/drills';
 import { findCohort, type CohortSummary } from '@/db/cohorts';
 import { listAssets, type DrillAssetMeta } from '@/db/drill-assets';
 // The diagnosis form's catalogue (DIAGNOSIS_KINDS in lib/schemas/drills.ts) is static and not
 // sent here, so a payload search for fault kinds finds only what would be a leak.
 import type { DrillPermissions } from '@/lib/schemas/drills';
 import { assignmentState, type AssignmentState } from './assignment-window';
+
+/** The drills the user authors: a trainer's own (hidden parts included: they wrote them), every drill for an admin. */
+export function drillsAuthoredBy(user: User): Promise<Drill[]> {
+  return listDrills(user.role === 'admin' ? null : user.id);
+}
+
+/**
+ * The assignments the user sees, each marked upcoming / open / closed: a student's (with their
+ * run if started), a trainer's drills' (every one for an admin). Other roles have none.
+ */
+export async function assignmentsOf(user: User) {
+  if (user.role === 'student') return (await listAssignmentsForStudent(user.id)).map((a) => ({ ...a, state: assignmentState(a) }));
+  if (user.role === 'trainer' || user.role === 'admin') return (await listAssignmentsOfTrainer(user.role === 'admin' ? null : user.id)).map((a) => ({ ...a, state: assignmentState(a) }));
+  return [];
+}
 
 /** A drill the user may author: 404 for another trainer's (ids reveal nothing). */
 export async function drillForAuthor(user: User, id: string): Promise<Drill> {
@@ -35,6 +61,14 @@ export async function cohortForAssigning(user: User, cohortId: string): Promise<
   if (!cohort) throw new ApiError(422, 'Some fields are not valid.', { cohortId: ['No such cohort.'] });
   if (user.role !== 'admin' && cohort.trainerId !== user.id) throw new ApiError(403, 'You can assign drills only to cohorts you run.');
   return cohort;
+}
+
+/** Whom a message on the assignment may go to: a student of its cohort (422 naming `to` otherwise), or everyone (`null`). */
+export async function messageRecipient(assignment: Assignment, to: string | null): Promise<string | null> {
+  if (to !== null && !(await cohortStudents(assignment.cohortId)).some((s) => s.id === to)) {
+    throw new ApiError(422, 'Pick a student of this cohort.', { to: ['Not a student of this cohort.'] });
+  }
+  return to;
 }
 
 /** An assignment given to a cohort the student belongs to; anything else is 404. */

@@ -4,6 +4,7 @@ import { env } from '@/lib/env';
 import { userFromRequest } from '@/lib/auth/session';
 import { assignmentState } from '@/lib/drills/access';
 import { locationKey } from '@/lib/runs/grade';
+import { may } from '@/lib/roles';
 import { peekLive } from '@/lib/runs/engine-host';
 import type { User } from '@/db/users';
 import { cohortStudents, findAssignment, findDrill, type Assignment, type Drill } from '@/db/drills';
@@ -30,7 +31,7 @@ export async function assignmentForWatcher(user: User, id: string): Promise<{ as
 /** True while the user may still watch (the stream's minute re-check). */
 async function mayWatch(req: Request, id: string): Promise<boolean> {
   const user = await userFromRequest(req);
-  if (!user || (user.role !== 'admin' && user.role !== 'trainer')) return false;
+  if (!user || !may(user.role, 'drills')) return false;
   return assignmentForWatcher(user, id).then(
     () => true,
     () => false,

@@ -1,6 +1,8 @@
 import 'server-only';
 import Papa from 'papaparse';
+import { ApiError } from '@/lib/api/errors';
 import { csvSafeCell } from '@/lib/csv-cell';
+import { assignmentState } from '@/lib/drills/assignment-window';
 import type { Assignment, Drill } from '@/db/drills';
 import { cohortStudents } from '@/db/drills';
 import { listRunsOfAssignments } from '@/db/runs';
@@ -35,6 +37,12 @@ function timeBuckets(ms: number[]): { label: string; count: number }[] {
     out[i < 0 ? out.length - 1 : i].count += 1;
   }
   return out;
+}
+
+/** The findings of a closed assignment; 409 while it is still open or to come: the figures would change under the trainer. */
+export async function findingsOfClosed(assignment: Assignment, drill: Drill): Promise<Findings> {
+  if (assignmentState(assignment) !== 'closed') throw new ApiError(409, 'The findings open when the assignment closes.');
+  return buildFindings(assignment, drill);
 }
 
 export async function buildFindings(assignment: Assignment, drill: Drill): Promise<Findings> {

@@ -1,8 +1,7 @@
 import { apiRoute } from '@/lib/api/errors';
 import { requireApiUser } from '@/lib/auth/session';
 import { ROLE_TABLE } from '@/lib/roles';
-import { assignmentState } from '@/lib/drills/access';
-import { listAssignmentsForStudent, listAssignmentsOfTrainer } from '@/db/drills';
+import { assignmentsOf } from '@/lib/drills/access';
 
 /**
  * Students: the drills assigned to their cohorts, each marked upcoming / open / closed, with
@@ -10,10 +9,5 @@ import { listAssignmentsForStudent, listAssignmentsOfTrainer } from '@/db/drills
  */
 export const GET = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, ROLE_TABLE.assignments);
-  if (user.role === 'student') {
-    const rows = await listAssignmentsForStudent(user.id);
-    return Response.json({ assignments: rows.map((a) => ({ ...a, state: assignmentState(a) })) });
-  }
-  const rows = await listAssignmentsOfTrainer(user.role === 'admin' ? null : user.id);
-  return Response.json({ assignments: rows.map((a) => ({ ...a, state: assignmentState(a) })) });
+  return Response.json({ assignments: await assignmentsOf(user) });
 });

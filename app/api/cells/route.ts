@@ -2,16 +2,16 @@ import { apiRoute } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { ROLE_TABLE } from '@/lib/roles';
+import { cellsOf } from '@/lib/cells/access';
 import { checkDocument } from '@/lib/cells/document';
 import { TEMPLATE_LABELS, templateDocument } from '@/lib/cells/templates';
 import { createCellSchema } from '@/lib/schemas/cells';
-import { createCell, listCellsSharedWithMember, listOwnedCells } from '@/db/cells';
+import { createCell } from '@/db/cells';
 
 /** My cells; for students also the cells shared with their cohorts (and their copies). */
 export const GET = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, ROLE_TABLE.cells);
-  const [cells, shared] = await Promise.all([listOwnedCells(user.id), user.role === 'student' ? listCellsSharedWithMember(user.id) : Promise.resolve([])]);
-  return Response.json({ cells, shared });
+  return Response.json(await cellsOf(user));
 });
 
 /** Create a cell from a template (pick-and-place demo, panel starter, blank); version 1 is the template. */

@@ -3,13 +3,13 @@ import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { ROLE_TABLE } from '@/lib/roles';
 import { createCohortSchema } from '@/lib/schemas/cohorts';
-import { createCohort, listCohorts } from '@/db/cohorts';
+import { cohortsManagedBy } from '@/lib/cohorts/access';
+import { createCohort } from '@/db/cohorts';
 
 /** Trainers list their own cohorts; admins list all. */
 export const GET = apiRoute(async (req: Request) => {
   const user = await requireApiUser(req, ROLE_TABLE.cohorts);
-  const cohorts = await listCohorts(user.role === 'admin' ? null : user.id);
-  return Response.json({ cohorts });
+  return Response.json({ cohorts: await cohortsManagedBy(user) });
 });
 
 /** Trainers and admins create a cohort they then own. */

@@ -1,12 +1,11 @@
-import { apiRoute, ApiError, parseParams } from '@/lib/api/errors';
+import { apiRoute, parseParams } from '@/lib/api/errors';
 import { parseJsonBody } from '@/lib/api/body';
 import { requireApiUser } from '@/lib/auth/session';
 import { ROLE_TABLE } from '@/lib/roles';
-import { assignmentForStudent } from '@/lib/drills/access';
+import { assignmentForStudent, messageRecipient } from '@/lib/drills/access';
 import { assignmentForWatcher } from '@/lib/live/board';
 import { runMessageSchema } from '@/lib/schemas/live';
 import { assignmentIdParamSchema } from '@/lib/schemas/drills';
-import { cohortStudents } from '@/db/drills';
 import { insertRunMessage, listMessagesForStudent } from '@/db/live';
 
 type Ctx = { params: Promise<{ id: string }> };
@@ -25,9 +24,7 @@ export const POST = apiRoute(async (req: Request, ctx: Ctx) => {
   const { id } = await parseParams(ctx.params, assignmentIdParamSchema);
   const { assignment } = await assignmentForWatcher(user, id);
   const input = await parseJsonBody(req, runMessageSchema, 'form');
-  if (input.to !== null && !(await cohortStudents(assignment.cohortId)).some((s) => s.id === input.to)) {
-    throw new ApiError(422, 'Pick a student of this cohort.', { to: ['Not a student of this cohort.'] });
-  }
-  const message = await insertRunMessage({ assignmentId: assignment.id, userId: input.to, authorId: user.id, kind: input.kind, body: input.body });
+  const to = await messageRecipient(assignment, input.to);
+  const message = await insertRunMessage({ assignmentId: assignment.id, userId: to, authorId: user.id, kind: input.kind, body: input.body });
   return Response.json({ message }, { status: 201 });
 });
