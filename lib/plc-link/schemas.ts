@@ -15,3 +15,6 @@ export const startPlcLinkSchema = z.object({
 export type StartPlcLinkInput = z.infer<typeof startPlcLinkSchema>;
 
 export const plcLinkIdParamSchema = z.object({ id: z.uuid() });
+
+/** The register map as CSV (the default, a download) or as JSON rows (`?format=json`). */
+export const registerMapQuerySchema = z.object({ format: z.enum(['csv', 'json']).default('csv') });

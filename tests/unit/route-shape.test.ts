@@ -48,6 +48,20 @@ describe('route handlers', () => {
     expect(bare).toEqual([]);
   });
 
+  it('read params, query and body only through the shared parsers', () => {
+    const raw: string[] = [];
+    for (const f of files) {
+      const src = text(f);
+      for (const [what, re] of [
+        ['the query string', /searchParams/],
+        ['the body', /\breq\.(json|text|formData|arrayBuffer|blob)\(/],
+      ] as const) {
+        if (re.test(src)) raw.push(`${f} reads ${what} itself`);
+      }
+    }
+    expect(raw).toEqual([]);
+  });
+
   it('never build an error answer by hand (throw ApiError instead)', () => {
     const handBuilt: string[] = [];
     for (const f of [...files, ...sourceFiles('lib')]) {
