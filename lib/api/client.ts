@@ -1,11 +1,16 @@
 import type { ApiErrorBody } from './errors';
 
-/** An error answer from our API, with the field errors when there are any. */
+/**
+ * An error answer from our API, as the one error shape carries it: the message, the field
+ * errors when there are any, and the extra fields the route named (a stale save's
+ * `latestVersion`, a CSV's `rowErrors` and `problemCount`).
+ */
 export class ApiClientError extends Error {
   constructor(
     public readonly status: number,
     message: string,
     public readonly fields?: Record<string, string[]>,
+    public readonly extra: Record<string, unknown> = {},
   ) {
     super(message);
   }
@@ -22,8 +27,8 @@ export async function fetchJson<T>(url: string, init?: { method?: string; body?:
   const text = await res.text();
   const data = text ? (JSON.parse(text) as unknown) : null;
   if (!res.ok) {
-    const body = (data ?? {}) as Partial<ApiErrorBody>;
-    throw new ApiClientError(res.status, body.error ?? `Request failed (${res.status}).`, body.fields);
+    const { error, fields, ...extra } = (data ?? {}) as Partial<ApiErrorBody> & Record<string, unknown>;
+    throw new ApiClientError(res.status, error ?? `Request failed (${res.status}).`, fields, extra);
   }
   return data as T;
 }
