@@ -1,6 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Browser, type Page } from '@playwright/test';
+import { expect, test, type APIResponse, type Browser, type Page } from '@playwright/test';
 import { DEMO, DEMO_COHORT, pageFor } from './foundation-helpers';
+import { DEMO_CELL_NAME } from './workspace-helpers';
 
 /*
  * Issue 12, "Accessible and usable anywhere": every page of the app, and every area of the cell
@@ -14,8 +15,8 @@ import { DEMO, DEMO_COHORT, pageFor } from './foundation-helpers';
  * /runs/practice/[cellId], /drills, /drills/new, /drills/[id], /drills/[id]/preview,
  * /drills/assignments/[id] and …/live, /gradebook, /runs, /runs/[id], /runs/[id]/replay, /cohorts,
  * /cohorts/[id], /changeovers, /changeovers/[id], …/counterexample/[verdictId], /plc-link,
- * /plc-link/[id], /admin/users, /admin/mailbox. The signed record (/changeovers/[id]/record)
- * exists only after a countersignature: changeover.spec.ts reaches it and runs this same check.
+ * /plc-link/[id], /admin/users, /admin/mailbox, and /changeovers/[id]/record once a changeover
+ * of the lead's own is signed and countersigned (the demo changeover is left to the other specs).
  *
  * A student attempt starts a run: this file uses Noor (a demo student no other spec signs in as),
  * so the live board's and the drill flow's expectations about Ada stay true.
@@ -23,7 +24,6 @@ import { DEMO, DEMO_COHORT, pageFor } from './foundation-helpers';
 
 const NOOR = { email: 'noor.achterberg@kestrelvale.test', password: 'student-demo-2026' };
 const SHIFT_LEAD = { email: 'shift.lead@brennick.test', password: 'lead-demo-2026' };
-const DEMO_CELL = 'Kestrel Vale Cell B — pick and place';
 /** This spec's Modbus TCP port for a PLC link (plc-link.spec.ts uses 15036, integration tests 15020–15039). */
 const PLC_PORT = 15046;
 
@@ -75,6 +75,11 @@ async function checkAreas(page: Page, label: string): Promise<void> {
     await expect(page.getByTestId(`area-${name.toLowerCase()}`)).toBeVisible();
     await checkPage(page, `${label}, ${name} area`);
   }
+}
+
+/** The answer has the status; its body is shown when not. */
+async function expectStatus(res: APIResponse, status: number, what: string): Promise<void> {
+  expect(res.status(), `${what}: ${res.status() === status ? '' : await res.text()}`).toBe(status);
 }
 
 async function json<T>(page: Page, path: string): Promise<T> {
@@ -142,7 +147,7 @@ test('a student: dashboard, cells, the shared cell workspace, practice, drills, 
   await checkPage(page, 'the student dashboard');
   await visit(page, '/cells', 'cells (student)');
   const { shared } = await json<{ shared: { id: string; name: string }[] }>(page, '/api/cells');
-  const cell = shared.find((c) => c.name === DEMO_CELL)!;
+  const cell = shared.find((c) => c.name === DEMO_CELL_NAME)!;
   await visit(page, `/cells/${cell.id}`, 'the shared cell workspace (run only)', { ready: strip, caution: true });
   await checkAreas(page, 'the shared cell workspace');
   await visit(page, `/runs/practice/${cell.id}`, 'a practice run', { ready: strip, caution: true });
@@ -169,7 +174,7 @@ test('a trainer: dashboard, own cell in all six areas, drills, editor, preview, 
   await checkPage(page, 'the trainer dashboard');
   await visit(page, '/cells', 'cells (trainer)');
   const { cells } = await json<{ cells: { id: string; name: string }[] }>(page, '/api/cells');
-  const own = cells.find((c) => c.name === DEMO_CELL) ?? cells[0];
+  const own = cells.find((c) => c.name === DEMO_CELL_NAME) ?? cells[0];
   await visit(page, `/cells/${own.id}`, 'an own cell workspace', { ready: strip, caution: true });
   await checkAreas(page, 'an own cell workspace');
   await page.getByRole('button', { name: 'Edit layout' }).click();
@@ -214,31 +219,88 @@ test('a trainer: dashboard, own cell in all six areas, drills, editor, preview, 
   await page.context().close();
 });
 
-test('a maintenance lead: dashboard, cells, changeovers, a changeover with its verdicts, a counterexample', async ({ browser }) => {
-  test.setTimeout(240_000);
+type ChangeoverRow = { id: string; title: string; cellId: string; baseVersion: number; proposedVersion: number };
+
+/** The seeded demo changeover of the lead (the one this spec did not open). */
+async function demoChangeover(page: Page): Promise<ChangeoverRow> {
+  const { changeovers } = await json<{ changeovers: ChangeoverRow[] }>(page, '/api/changeovers');
+  const demo = changeovers.find((c) => !c.title.startsWith(OWN_CHANGEOVER));
+  expect(demo, 'the demo changeover is seeded').toBeTruthy();
+  return demo!;
+}
+
+const OWN_CHANGEOVER = 'Accessibility check';
+
+/**
+ * A changeover of the lead's own, never the demo one (other specs walk that one from drafting to
+ * sign-off): a copy of the demo cell at its base version, the demo's proposal saved on top and
+ * the cell's interlock rules copied, so its proofs find the same violation.
+ */
+async function ownChangeover(page: Page): Promise<{ id: string; cellId: string }> {
+  const demo = await demoChangeover(page);
+  const base = await json<{ version: { document: unknown } }>(page, `/api/cells/${demo.cellId}/versions/${demo.baseVersion}`);
+  const proposal = await json<{ version: { document: unknown } }>(page, `/api/cells/${demo.cellId}/versions/${demo.proposedVersion}`);
+  const imported = await page.request.post('/api/cells/import', { data: { name: `Accessibility check ${Date.now().toString(36)}`, document: base.version.document } });
+  expect(imported.status()).toBe(201);
+  const cellId = ((await imported.json()) as { cell: { id: string } }).cell.id;
+  const saved = await page.request.post(`/api/cells/${cellId}/versions`, { data: { baseVersion: 1, document: proposal.version.document, message: 'The rear door proposal' } });
+  expect(saved.status()).toBe(201);
+  const { rules } = await json<{ rules: { title: string; body: Record<string, unknown> }[] }>(page, `/api/cells/${demo.cellId}/interlock-rules`);
+  for (const r of rules) expect((await page.request.post(`/api/cells/${cellId}/interlock-rules`, { data: { title: r.title, rule: r.body } })).status()).toBe(201);
+  const made = await page.request.post('/api/changeovers', { data: { cellId, baseVersion: 1, title: `${OWN_CHANGEOVER}: the demo change` } });
+  expect(made.status()).toBe(201);
+  return { id: ((await made.json()) as { changeover: { id: string } }).changeover.id, cellId };
+}
+
+type EvidenceAnswer = {
+  evidence: { ready: boolean; runs: { proofs: unknown }; open: { proofs: unknown }; proofs: { proposed: { verdictId: string; status: string } | null }[] };
+};
+
+test('a maintenance lead and a countersigner: changeovers, a changeover with its verdicts, a counterexample, the signed record', async ({ browser }) => {
+  test.setTimeout(300_000);
   const page = await pageFor(browser, DEMO.lead);
   await checkCaution(page, 'the lead dashboard', true);
   await checkPage(page, 'the lead dashboard');
   await visit(page, '/cells', 'cells (lead)');
   await visit(page, '/changeovers', 'changeovers (lead)', { caution: true });
-  const { changeovers } = await json<{ changeovers: { id: string; title: string }[] }>(page, '/api/changeovers');
-  const co = changeovers[0];
-  await visit(page, `/changeovers/${co.id}`, 'a changeover', { caution: true });
+  await visit(page, `/changeovers/${(await demoChangeover(page)).id}`, 'the demo changeover', { caution: true });
 
-  // The counterexample page needs a violated verdict: the demo change breaks one of its cell's rules.
-  const proofs = await page.request.post(`/api/changeovers/${co.id}/proofs`);
-  expect(proofs.status()).toBe(202);
-  await page.reload();
-  const counterexample = page.getByRole('link', { name: 'Open the counterexample' }).first();
-  await expect(counterexample).toBeVisible({ timeout: 150_000 });
-  await checkPage(page, 'a changeover with its verdicts');
-  await counterexample.click();
+  // Pinned and proved: the change breaks one of the cell's rules, so there is a counterexample.
+  const co = await ownChangeover(page);
+  await expectStatus(await page.request.post(`/api/changeovers/${co.id}/pin`), 200, 'pin');
+  await expectStatus(await page.request.post(`/api/changeovers/${co.id}/proofs`), 202, 'run the proofs');
+  await expect
+    .poll(async () => {
+      const { evidence } = await json<EvidenceAnswer>(page, `/api/changeovers/${co.id}/evidence`);
+      return evidence.runs.proofs !== null && evidence.open.proofs === null;
+    }, { timeout: 150_000 })
+    .toBe(true);
+  await visit(page, `/changeovers/${co.id}`, 'a changeover with its verdicts', { caution: true });
+  await page.getByRole('link', { name: 'Open the counterexample' }).first().click();
   await page.waitForURL(/\/counterexample\/[0-9a-f-]{36}$/);
   await expect(page.getByTestId('counterexample-scans')).toBeVisible();
   await checkCaution(page, 'a counterexample', true);
   await checkPage(page, 'a counterexample');
+
+  // Accepted in writing, signed, countersigned by the admin: the record exists.
+  const { evidence } = await json<EvidenceAnswer>(page, `/api/changeovers/${co.id}/evidence`);
+  for (const p of evidence.proofs) {
+    if (p.proposed && (p.proposed.status === 'violated' || p.proposed.status === 'undecided')) {
+      const accepted = await page.request.put(`/api/changeovers/${co.id}/verdicts/${p.proposed.verdictId}/acceptance`, { data: { reason: 'Accepted for the accessibility check: a rehearsal only.' } });
+      await expectStatus(accepted, 200, 'accept a violation');
+    }
+  }
+  await expect.poll(async () => (await json<EvidenceAnswer>(page, `/api/changeovers/${co.id}/evidence`)).evidence.ready).toBe(true);
+  const versions = { baseVersion: 1, proposedVersion: 2 };
+  await expectStatus(await page.request.post(`/api/changeovers/${co.id}/sign`, { data: { ...versions, confirmName: DEMO.lead.name } }), 200, 'sign');
   await visit(page, '/plc-link', 'PLC link (lead)', { caution: true });
   await page.context().close();
+
+  const admin = await pageFor(browser, DEMO.admin);
+  await expectStatus(await admin.request.post(`/api/changeovers/${co.id}/countersign`, { data: { ...versions, confirmName: DEMO.admin.name } }), 201, 'countersign');
+  await visit(admin, `/changeovers/${co.id}`, 'a signed-off changeover', { caution: true });
+  await visit(admin, `/changeovers/${co.id}/record`, 'the signed record', { ready: (p) => expect(p.getByTestId('signed-record')).toBeVisible(), caution: true });
+  await admin.context().close();
 });
 
 test('the shift lead and the admin: dashboards, changeovers, users, mailbox, cohorts', async ({ browser }) => {
