@@ -67,12 +67,14 @@ async function visit(page: Page, path: string, label: string, { ready, caution =
 
 const AREAS = ['Panel', 'Field', 'Logic', 'Controller', 'Monitor', 'Scope'] as const;
 
-/** Each of the six workspace areas selected in turn, checked once it shows. */
+/** Each of the six workspace areas selected in turn, checked (and its caution counted) once it shows. */
 async function checkAreas(page: Page, label: string): Promise<void> {
   for (const name of AREAS) {
     await page.getByRole('tab', { name }).click();
     await expect(page.getByRole('tab', { name })).toHaveAttribute('aria-selected', 'true');
     await expect(page.getByTestId(`area-${name.toLowerCase()}`)).toBeVisible();
+    // Every workspace models e-stops, guards and interlocks: one full caution whichever area shows.
+    await checkCaution(page, `${label}, ${name} area`, true);
     await checkPage(page, `${label}, ${name} area`);
   }
 }
