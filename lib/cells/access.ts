@@ -1,5 +1,6 @@
 import 'server-only';
 import { ApiError } from '@/lib/api/errors';
+import { may } from '@/lib/roles';
 import type { User } from '@/db/users';
 import type { CellRecord, CellSummary, SharedCellSummary } from '@/db/cells';
 import { findCell, isSharedWithMember, listCellsSharedWithMember, listOwnedCells } from '@/db/cells';
@@ -52,6 +53,6 @@ export async function cohortForSharing(user: User, cohortId: string): Promise<Co
   const cohort = await findCohort(cohortId);
   if (!cohort) throw new ApiError(422, 'Some fields are not valid.', { cohortId: ['No such cohort.'] });
   if (user.role === 'trainer' && cohort.trainerId !== user.id) throw new ApiError(403, 'You can share only with cohorts you run.');
-  if (user.role !== 'trainer' && user.role !== 'lead') throw new ApiError(403, 'Your role may not do this.');
+  if (!may(user.role, 'shareCells')) throw new ApiError(403, 'Your role may not do this.');
   return cohort;
 }
