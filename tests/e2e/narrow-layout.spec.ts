@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type Locator, type Page } from '@playwright/test';
 import { DEMO, DEMO_COHORT, mainNav, signInAs } from './foundation-helpers';
 import { DEMO_CELL_NAME } from './workspace-helpers';
@@ -21,6 +22,13 @@ async function expectInside(page: Page, locator: Locator, what: string): Promise
   expect(box, what).not.toBeNull();
   expect(box!.x, `${what}: left edge`).toBeGreaterThanOrEqual(0);
   expect(box!.x + box!.width, `${what}: right edge within ${width} px`).toBeLessThanOrEqual(width);
+}
+
+/** axe's WCAG 2 A/AA rules find nothing (as in accessibility.spec.ts, here with the rail or the opened sidebar). */
+async function expectAxeClean(page: Page, what: string): Promise<void> {
+  const { violations } = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa']).analyze();
+  const found = violations.flatMap((v) => v.nodes.map((n) => `${v.id}: ${n.target.join(' ')} — ${n.failureSummary ?? ''}`));
+  expect(found, `${what}:\n${found.join('\n')}`).toEqual([]);
 }
 
 /** The page itself does not scroll sideways: wide content scrolls inside its own box. */
@@ -144,6 +152,7 @@ test('the sidebar toggle works from the keyboard; wide screens keep the reader\'
   await expect(toggle).toHaveAccessibleName('Expand the navigation');
   // The rail keeps each link's name for assistive technology, with its label hidden.
   await expect(mainNav(page).getByRole('link', { name: 'Changeovers', exact: true })).toBeVisible();
+  await expectAxeClean(page, 'the dashboard with the rail');
 
   await toggle.focus();
   await page.keyboard.press('Enter');
@@ -151,6 +160,7 @@ test('the sidebar toggle works from the keyboard; wide screens keep the reader\'
   await expect(toggle).toHaveAccessibleName('Collapse the navigation');
   await expect(mainNav(page).getByText('Changeovers', { exact: true })).toBeVisible();
   await expectInside(page, mainNav(page), 'the opened sidebar');
+  await expectAxeClean(page, 'the dashboard with the sidebar opened over it');
   // On a narrow screen the opened sidebar lies over the page; Escape closes it.
   await page.keyboard.press('Escape');
   await expect(toggle).toHaveAttribute('aria-expanded', 'false');
