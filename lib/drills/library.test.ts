@@ -42,6 +42,10 @@ describe('built-in drill library', () => {
     expect(brief).toContain('local codes and licensed practice take precedence');
   });
 
+  it('no brief carries a safety caution of its own: the attempt page shows the full one once (a second, shorter box left out the deference to local codes)', () => {
+    for (const d of DRILL_LIBRARY) expect(d.input.brief, d.key).not.toMatch(/not safety functions|lockout\/tagout/);
+  });
+
   it.each(DRILL_LIBRARY.map((d) => [d.key]))('%s fits its base cell (faults arm, rule signals exist, answer names a place)', (key) => {
     expect(drillProblems(libraryBaseDocument(drill(key).base), input(key))).toEqual({});
   });

@@ -100,8 +100,6 @@ const ESTOP_RULE: WeightedRule = {
 
 const TEN_MIN = 600_000;
 const READ_ONLY = { forceAllowed: true, editable: [] as ('point-map' | 'logic' | 'wiring' | 'routine')[] };
-const CAUTION =
-  '> Cellwright is a training tool: its interlocks are not safety functions. Real e-stop and guard circuits are hardwired or use safety-rated devices (ISO 13849-1 / IEC 62061, IEC 60204-1); robot cells follow ISO 10218; real work needs lockout/tagout.';
 
 function card(c: FaultCard): FaultCard {
   return c;
@@ -114,7 +112,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Cell B holds for no reason',
-      brief: `## Night shift report\n\nCell B at Kestrel Vale ran fine at the start of the shift. Then the robot went to hold mid-cycle and now refuses to start; the yellow lamp is lit. Nobody touched the stop button.\n\nFind the cause with the monitor, the meter readings on the terminal strip and the scope. Do not bypass anything you cannot explain.\n\n${CAUTION}`,
+      brief: `## Night shift report\n\nCell B at Kestrel Vale ran fine at the start of the shift. Then the robot went to hold mid-cycle and now refuses to start; the yellow lamp is lit. Nobody touched the stop button.\n\nFind the cause with the monitor, the meter readings on the terminal strip and the scope. Do not bypass anything you cannot explain.`,
       faults: [card({ id: 'f1', kind: 'open-wire', row: 'w-stop', at: 15_000, label: 'Stop circuit conductor broken in the cable chain' })],
       objectives: ['Run the cell and watch what happens when the robot holds.', 'Compare the stop button with what the PLC input reads.', 'Name the fault and the terminal-strip row.'],
       rules: [GUARD_RULE, ESTOP_RULE],
@@ -129,7 +127,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'The new part sensor lights but nothing happens',
-      brief: `## After the sensor swap\n\nMaintenance replaced the part sensor at the pick station from the stores. Its LED lights when a part is there, but the robot waits for a part forever ("No part at the pick station").\n\nThe PLC's input card is a sinking card. Find out why the input never turns on.\n\n${CAUTION}`,
+      brief: `## After the sensor swap\n\nMaintenance replaced the part sensor at the pick station from the stores. Its LED lights when a part is there, but the robot waits for a part forever ("No part at the pick station").\n\nThe PLC's input card is a sinking card. Find out why the input never turns on.`,
       faults: [card({ id: 'f1', kind: 'sensor-type-mismatch', device: 'part', label: 'NPN sensor fitted where a PNP one belongs' })],
       objectives: ['Put a part at the pick station and compare the sensor LED with the PLC input.', 'Check the input card type against the sensor output type.', 'Name the fault and the device.'],
       rules: [GUARD_RULE],
@@ -144,7 +142,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Start resets, reset starts',
-      brief: `## After the panel rewire\n\nThe operator panel of Cell B was taken off its hinges for a repaint and wired back up. Since then the buttons "do strange things".\n\nWork out what is going on from the inputs and the robot's behaviour.\n\n${CAUTION}`,
+      brief: `## After the panel rewire\n\nThe operator panel of Cell B was taken off its hinges for a repaint and wired back up. Since then the buttons "do strange things".\n\nWork out what is going on from the inputs and the robot's behaviour.`,
       faults: [card({ id: 'f1', kind: 'swapped-wires', rows: ['w-start', 'w-reset'], label: 'Start and fault-reset conductors landed on each other\'s terminals' })],
       objectives: ['Press each panel button and note which PLC input follows it.', 'Name the fault and both terminal-strip rows.'],
       rules: [GUARD_RULE, ESTOP_RULE],
@@ -159,7 +157,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'staged-restart',
     input: {
       title: 'The I/O card move that never took effect',
-      brief: `## Change left half done\n\nLast week the controller's digital-input range was moved and a correction was entered afterwards. The robot still reacts to the wrong buttons: start does nothing, and it reports a stop request that nobody made.\n\nFind out why the correction is not in effect, put it in effect, and run one full cycle.\n\n${CAUTION}`,
+      brief: `## Change left half done\n\nLast week the controller's digital-input range was moved and a correction was entered afterwards. The robot still reacts to the wrong buttons: start does nothing, and it reports a stop request that nobody made.\n\nFind out why the correction is not in effect, put it in effect, and run one full cycle.`,
       faults: [],
       objectives: ['Compare the live point map with the staged one.', 'Bring the correction into effect.', 'Complete one full cycle.', 'Name the fault and the point-map row.'],
       rules: [
@@ -177,7 +175,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'recipe-encoding',
     input: {
       title: 'Recipe 2 parts land on place 1',
-      brief: `## Wrong place\n\nSince the controller's recipe input was reconfigured, parts for recipe 2 end up at place 1. Recipe 1 still works.\n\nFind the cause from the recipe word's bits and what the controller makes of them, correct it, and place one recipe-2 part at place 2.\n\n${CAUTION}`,
+      brief: `## Wrong place\n\nSince the controller's recipe input was reconfigured, parts for recipe 2 end up at place 1. Recipe 1 still works.\n\nFind the cause from the recipe word's bits and what the controller makes of them, correct it, and place one recipe-2 part at place 2.`,
       faults: [],
       objectives: ['Select recipe 2 and read the recipe word bits and the value the controller decodes.', 'Correct the configuration (a controller restart applies point-map changes).', 'Place one part at place 2.', 'Name the fault and the point-map row.'],
       rules: [
@@ -204,12 +202,12 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'pick-and-place',
     input: {
       title: 'Ghost parts at the pick station',
-      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope and name the fault and where it is. Until maintenance can re-terminate the wire, debounce the part signal in the logic sheet (the robot's part-present output %QX0.5 and the start permission should only see a steady part) and download the sheet to the PLC. Take the part off the sensor before you download: a download restarts the PLC logic, and its outputs drop for a moment.\n\n> A software workaround for a hardware fault is a change to a running machine. In a real plant it goes through the site's change procedure (management of change: a review of what it hides, approval, a record, and a date to take it out once the wire is repaired) before anyone downloads it, and local codes and licensed practice take precedence. Here it is an exercise on a simulated cell.\n\n${CAUTION}`,
+      brief: `## Intermittent\n\nOperators say the part-present lamp flickers and the robot sometimes starts for a part that is not there yet — or stops waiting for one that is. The sensor looks fine and steady.\n\nCapture the input on the scope and name the fault and where it is. Until maintenance can re-terminate the wire, debounce the part signal in the logic sheet (the robot's part-present output %QX0.5 and the start permission should only see a steady part) and send the sheet to the cell (Send to cell). Take the part off the sensor first: sending restarts the PLC logic, and its outputs drop for a moment.\n\n> A software workaround for a hardware fault is a change to a running machine. In a real plant it goes through the site's change procedure (management of change: a review of what it hides, approval, a record, and a date to take it out once the wire is repaired) before anyone sends it to the PLC, and local codes and licensed practice take precedence. Here it is an exercise on a simulated cell.`,
       faults: [card({ id: 'f1', kind: 'chatter', row: 'w-part', periodMs: 30, probability: 0.35, label: 'Loose terminal on the part-sensor input' })],
       objectives: [
         'Put the part sensor on the scope and compare it with the device.',
         'Name the fault and the row.',
-        'Debounce the part signal in the logic sheet (timer blocks and presets of your choice) and download it.',
+        'Debounce the part signal in the logic sheet (timer blocks and presets of your choice) and send it to the cell.',
         'Show the fix: put a part on the sensor, run one full cycle, then take the part off.',
       ],
       rules: [
@@ -266,7 +264,7 @@ export const DRILL_LIBRARY: readonly LibraryDrill[] = [
     base: 'air-pressure',
     input: {
       title: 'Supply air reading dropped out',
-      brief: `## Pressure alarm\n\nCell B now monitors its supply air with a 4–20 mA transmitter on a new analog input. Twenty seconds into the shift the reading fell to nothing, although the gauge on the regulator still shows about 6 bar.\n\nMeasure the loop, decide whether the air or the signal is lost, and say where.\n\n${CAUTION}`,
+      brief: `## Pressure alarm\n\nCell B now monitors its supply air with a 4–20 mA transmitter on a new analog input. Twenty seconds into the shift the reading fell to nothing, although the gauge on the regulator still shows about 6 bar.\n\nMeasure the loop, decide whether the air or the signal is lost, and say where.`,
       faults: [card({ id: 'f1', kind: 'analog-loss', device: 'airPressure', at: 20_000, label: 'Transmitter loop interrupted at the junction box' })],
       objectives: ['Read the loop current on the terminal strip before and after the drop.', 'Classify the loop against the NAMUR NE 43 bands.', 'Name the fault and where it is.'],
       rules: [GUARD_RULE],
