@@ -1,13 +1,9 @@
 import type { ReactNode } from 'react';
 import { ShieldAlert } from 'lucide-react';
+import { SAFETY_CAUTION_TEXT } from '@/lib/cautions';
 import { cn } from './cn';
 
-/**
- * The standard caution text (DESIGN.md, Safety), in full on every screen that carries it: the
- * deference to local codes and licensed practice is the part a shortened version used to drop.
- */
-export const SAFETY_CAUTION_TEXT =
-  'Cellwright is a training and rehearsal tool; its interlocks are not safety functions. Real emergency-stop and guard circuits are hardwired or run through safety-rated devices designed to ISO 13849-1 / IEC 62061 and IEC 60204-1, robot cells follow ISO 10218, work on real equipment needs lockout/tagout, and local codes and licensed practice take precedence.';
+export { SAFETY_CAUTION_TEXT } from '@/lib/cautions';
 
 /**
  * The caution every screen that models e-stops, guards or interlocks carries, once per page

@@ -5,13 +5,13 @@ import type { SignedRecord } from '@/lib/changeovers/types';
 import { ROLE_LABELS } from '@/lib/roles';
 import { AREA_TITLES } from '@/components/changeovers/diff-format';
 import { formatDateTime } from '@/components/ui/format';
-import { PRINTED_CHANGEOVER_CAUTION, PRINTED_SAFETY_CAUTION } from './cautions';
+import { CHANGEOVER_CAUTION_LINES, SAFETY_CAUTION_TEXT } from '@/lib/cautions';
 import { createPdfWriter } from './pdf-writer';
 
 /**
  * The printed changeover report: the signed record (db/changeovers.ts, never changed once
  * written) set as a PDF, with the same sections as the record page
- * (components/changeovers/signed-record.tsx) and the same cautions (cautions.ts). Made from the record alone,
+ * (components/changeovers/signed-record.tsx) and the same cautions (lib/cautions.ts). Made from the record alone,
  * so it can be made again at any time and says the same; the same record prints to the same bytes.
  */
 
@@ -59,8 +59,8 @@ export async function renderChangeoverReport(record: SignedRecord): Promise<Uint
   w.rule();
 
   w.heading('Training model — not a safety function');
-  w.paragraph(PRINTED_SAFETY_CAUTION, { size: 9 });
-  w.bullets(PRINTED_CHANGEOVER_CAUTION, { size: 9 });
+  w.paragraph(SAFETY_CAUTION_TEXT, { size: 9 });
+  w.bullets(CHANGEOVER_CAUTION_LINES, { size: 9 });
 
   w.heading('What changes and why');
   w.paragraph(record.description || '—');
