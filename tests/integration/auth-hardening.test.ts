@@ -35,7 +35,7 @@ afterAll(async () => {
 });
 
 describe('the session secret (point 4)', () => {
-  const production = (secret: string | undefined) => parseEnv({ NODE_ENV: 'production', ...(secret === undefined ? {} : { NEXTAUTH_SECRET: secret }) });
+  const production = (secret: string | undefined) => parseEnv({ NODE_ENV: 'production', S3_BUCKET: 'cellwright-files', ...(secret === undefined ? {} : { NEXTAUTH_SECRET: secret }) });
 
   it('refuses a missing secret in production, saying how to set one', () => {
     expect(() => production(undefined)).toThrow(/NEXTAUTH_SECRET is not set.*openssl rand -base64 48/);
