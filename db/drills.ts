@@ -1,27 +1,15 @@
 import 'server-only';
 import type { Knex } from 'knex';
-import type { FaultCard } from '@/simulator';
-import type { DrillInput, DrillPermissions, WeightedRule } from './types/drills';
+import type { DrillInput } from './types/drills';
 import { drillColumns } from './drill-columns';
 import { db } from './knex';
 import { isUuid } from './users';
 
 /** A drill with everything, hidden parts included: only for its trainer, admins and the grader. */
-export interface Drill {
+export interface Drill extends DrillInput {
   id: string;
   trainerId: string;
   trainerName: string;
-  title: string;
-  cellId: string;
-  cellVersion: number;
-  brief: string;
-  faults: FaultCard[];
-  objectives: string[];
-  rules: WeightedRule[];
-  answer: { kind: string; location: string };
-  diagnosisWeight: number;
-  timeLimitMs: number;
-  permissions: DrillPermissions;
   libraryKey: string | null;
   createdAt: string;
   updatedAt: string;

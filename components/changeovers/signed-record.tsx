@@ -1,35 +1,11 @@
 import './record.css';
 import { DIFF_AREAS, type DiffSummary } from '@/simulator';
-import type { CheckEvidence, ProofEvidence, VerdictSummary } from '@/lib/changeovers/evidence';
-import type { OutcomeChange, ScenarioOutcome } from '@/lib/changeovers/scenario-check';
+import { changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
 import type { Changeover, SignedRecord } from '@/lib/changeovers/types';
 import { ROLE_LABELS } from '@/lib/roles';
 import { formatDateTime } from '@/components/ui/format';
 import { ChangeoverCaution } from './changeover-caution';
 import { AREA_TITLES } from './diff-format';
-
-type RecordEvidence = { ranOn: { baseVersion: number; proposedVersion: number } | null; proofs: ProofEvidence[]; checks: CheckEvidence[] };
-
-const VERDICT_WORDS = { proved: 'proved', violated: 'VIOLATED', undecided: 'undecided', error: 'not provable' } as const;
-
-function verdictText(v: VerdictSummary | null): string {
-  if (!v) return 'not proved';
-  return `${VERDICT_WORDS[v.status]} (v${v.version})`;
-}
-
-function outcomeText(o: ScenarioOutcome): string {
-  if (o.problems.length > 0) return `could not run: ${o.problems[0]}`;
-  const pass = o.rules.filter((r) => r.status === 'pass').length;
-  const fail = o.rules.filter((r) => r.status === 'fail').length;
-  const other = o.rules.length - pass - fail;
-  return `${pass} pass, ${fail} fail${other ? `, ${other} other` : ''} · ${o.endMs} ms`;
-}
-
-function changeText(c: OutcomeChange): string {
-  if (c.kind === 'rule') return `rule ${c.label ?? c.rule}: ${c.from} → ${c.to}`;
-  if (c.kind === 'trace') return 'the compared signals’ trace differs';
-  return `${c.side} could not run it: ${c.message}`;
-}
 
 function Acceptance({ a }: { a: { reason: string; by: { name: string }; at: string } | null }) {
   if (!a) return null;
@@ -181,7 +157,7 @@ export function SignedRecordView({ record, changeover }: { record: SignedRecord;
                 <tr key={c.checkId} data-testid="record-check">
                   <td className={td}>
                     <p className="font-medium">{c.name}</p>
-                    <p className="text-xs">{c.changed ? `Outcome changed: ${c.changes.map(changeText).join('; ')}` : 'Outcome unchanged'}</p>
+                    <p className="text-xs">{c.changed ? `Outcome changed: ${c.changes.map((x) => changeText(x)).join('; ')}` : 'Outcome unchanged'}</p>
                     <Acceptance a={c.acceptance} />
                   </td>
                   <td className={td}>{outcomeText(c.base)}</td>

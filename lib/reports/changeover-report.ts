@@ -1,6 +1,5 @@
 import { DIFF_AREAS, type DiffSummary } from '@/simulator';
-import type { CheckEvidence, ProofEvidence, VerdictSummary } from '@/lib/changeovers/evidence';
-import type { OutcomeChange, ScenarioOutcome } from '@/lib/changeovers/scenario-check';
+import { changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
 import type { SignedRecord } from '@/lib/changeovers/types';
 import { ROLE_LABELS } from '@/lib/roles';
 import { AREA_TITLES } from '@/components/changeovers/diff-format';
@@ -14,29 +13,6 @@ import { createPdfWriter } from './pdf-writer';
  * (components/changeovers/signed-record.tsx) and the same cautions (lib/cautions.ts). Made from the record alone,
  * so it can be made again at any time and says the same; the same record prints to the same bytes.
  */
-
-type RecordEvidence = { ranOn: { baseVersion: number; proposedVersion: number } | null; proofs: ProofEvidence[]; checks: CheckEvidence[] };
-
-const VERDICT_WORDS = { proved: 'proved', violated: 'VIOLATED', undecided: 'undecided', error: 'not provable' } as const;
-
-function verdictText(v: VerdictSummary | null): string {
-  if (!v) return 'not proved';
-  return `${VERDICT_WORDS[v.status]} (v${v.version})\n${v.detail}`;
-}
-
-function outcomeText(o: ScenarioOutcome): string {
-  if (o.problems.length > 0) return `could not run: ${o.problems[0]}`;
-  const pass = o.rules.filter((r) => r.status === 'pass').length;
-  const fail = o.rules.filter((r) => r.status === 'fail').length;
-  const other = o.rules.length - pass - fail;
-  return `${pass} pass, ${fail} fail${other ? `, ${other} other` : ''} · ${o.endMs} ms`;
-}
-
-function changeText(c: OutcomeChange): string {
-  if (c.kind === 'rule') return `rule ${c.label ?? c.rule}: ${c.from} to ${c.to}`;
-  if (c.kind === 'trace') return 'the compared signals’ trace differs';
-  return `${c.side} could not run it: ${c.message}`;
-}
 
 function acceptanceText(a: { reason: string; by: { name: string }; at: string } | null): string {
   return a ? `\nAccepted by ${a.by.name}, ${formatDateTime(a.at)}: “${a.reason}”` : '';
@@ -106,7 +82,7 @@ export async function renderChangeoverReport(record: SignedRecord): Promise<Uint
         { title: 'Base', share: 1.4 },
         { title: 'Proposal', share: 1.4 },
       ],
-      evidence.proofs.map((p) => [`${p.title || p.sentence}${p.title ? `\n${p.sentence}` : ''}${acceptanceText(p.acceptance)}`, verdictText(p.base), verdictText(p.proposed)]),
+      evidence.proofs.map((p) => [`${p.title || p.sentence}${p.title ? `\n${p.sentence}` : ''}${acceptanceText(p.acceptance)}`, verdictText(p.base, true), verdictText(p.proposed, true)]),
     );
 
   w.heading('Scenario checks');
@@ -119,7 +95,7 @@ export async function renderChangeoverReport(record: SignedRecord): Promise<Uint
         { title: 'Proposal', share: 1.4 },
       ],
       evidence.checks.map((c) => [
-        `${c.name}\n${c.changed ? `Outcome changed: ${c.changes.map(changeText).join('; ')}` : 'Outcome unchanged'}${acceptanceText(c.acceptance)}`,
+        `${c.name}\n${c.changed ? `Outcome changed: ${c.changes.map((x) => changeText(x, 'to')).join('; ')}` : 'Outcome unchanged'}${acceptanceText(c.acceptance)}`,
         outcomeText(c.base),
         outcomeText(c.proposed),
       ]),
