@@ -9,13 +9,14 @@ import { DEMO, signInAs } from './foundation-helpers';
  * Port 15036 is this spec's (the integration tests use 15020–15039 in their own processes).
  */
 const PORT = 15036;
+const SHOTS = process.env.E2E_SHOTS_DIR;
 
 test('a trainer starts a PLC link, a Modbus client drives it, the page shows link health and link loss', async ({ page }) => {
   test.setTimeout(60_000);
   await signInAs(page, DEMO.trainer);
   await page.goto('/plc-link');
   await expect(page.getByTestId('plc-link-caution')).toBeVisible();
-  await page.getByLabel('Cell').selectOption({ label: 'Kestrel Vale Cell B — pick and place' });
+  await page.getByLabel('Cell', { exact: true }).selectOption({ label: 'Kestrel Vale Cell B — pick and place' });
   await page.getByLabel('Modbus TCP port').fill(String(PORT));
   await page.getByLabel('Link-loss timeout (ms)').fill('500');
   await page.getByRole('button', { name: 'Start PLC link' }).click();
@@ -37,11 +38,13 @@ test('a trainer starts a PLC link, a Modbus client drives it, the page shows lin
   await expect(page.getByTestId('plc-link-state')).toHaveText('Linked');
   await expect(page.getByTestId('plc-link-register-map').getByRole('row', { name: /%QX0\.3/ })).toContainText('ON');
   await expect(page.getByTestId('plc-link-controller-state')).toHaveText('ready');
+  if (SHOTS) await page.screenshot({ path: `${SHOTS}/plc-link-linked.png`, fullPage: true });
 
   polling = false;
   await poll;
   await expect(page.getByTestId('plc-link-state')).toHaveText('Link lost');
   await expect(page.getByTestId('plc-link-register-map').getByRole('row', { name: /%QX0\.3/ })).toContainText('off');
+  if (SHOTS) await page.screenshot({ path: `${SHOTS}/plc-link-lost.png`, fullPage: true });
 
   await page.getByRole('button', { name: 'Stop' }).click();
   await expect(page.getByTestId('plc-link-state')).toHaveText('Stopped');
