@@ -7,6 +7,8 @@
  *
  * Every change goes through the workspace store's `editDocument`, so undo and redo cover it.
  * Moving a block does not change what the sheet computes, so it keeps the run going.
+ * The toolbar's sheet files (./sheet-files.tsx) export the sheet as Structured Text or
+ * IEC 61131-10 XML and import such XML in its place.
  */
 import '@xyflow/react/dist/base.css';
 import './logic.css';
@@ -34,6 +36,7 @@ import { BlockInspector } from './block-inspector';
 import { LogicActionsContext, type LogicActions } from './logic-context';
 import { blurOnEnter, useTextDraft } from '@/components/workspace/use-text-draft';
 import { useLogic } from './use-logic';
+import { SheetFilesControls, SheetFilesPanel, useSheetFiles } from './sheet-files';
 import {
   addBlock,
   checkConnection,
@@ -104,8 +107,18 @@ export default function LogicArea() {
 }
 
 function LogicCanvas() {
-  const { sheet, editSheet, canEdit, running, selectedId, selectBlock, problems } = useLogic();
+  const { sheet, editSheet, replaceSheet, cellName, canEdit, running, selectedId, selectBlock, problems } = useLogic();
   const flow = useReactFlow();
+  const onReplace = useCallback(
+    (next: Sheet, label: string) => {
+      replaceSheet(next, label);
+      // The imported blocks may sit elsewhere on the sheet: show them all once they are drawn.
+      window.requestAnimationFrame(() => void flow.fitView({ padding: 0.1, minZoom: 0.05, maxZoom: 1 }));
+    },
+    [replaceSheet, flow],
+  );
+  // Exports in any workspace; import only where this workspace may edit the sheet.
+  const files = useSheetFiles({ sheet, cellName, canImport: canEdit, onReplace });
   const sheetRef = useRef(sheet);
   useLayoutEffect(() => {
     sheetRef.current = sheet;
@@ -270,6 +283,7 @@ function LogicCanvas() {
             <span className="text-slate-500">
               {sheet.blocks.length} blocks · {sheet.connections.length} wires
             </span>
+            <SheetFilesControls files={files} />
             <span className={cn('inline-flex items-center gap-1', running ? 'text-teal-700' : 'text-slate-500')} data-testid="logic-run-state">
               <span aria-hidden className={cn('inline-block h-2 w-2 rounded-full', running ? 'bg-teal-500' : 'border border-slate-400')} />
               {running ? 'Live values' : 'Paused — values as of the last scan'}
@@ -288,6 +302,7 @@ function LogicCanvas() {
               {problems.length === 0 ? 'Sheet compiles' : `${problems.length} problem${problems.length === 1 ? '' : 's'} — not running this sheet`}
             </button>
           </div>
+          <SheetFilesPanel files={files} />
           {index.sheet.length > 0 ? (
             <ul className="border-b border-red-200 bg-red-50 px-3 py-1 text-xs text-red-800">
               {index.sheet.map((p, i) => (

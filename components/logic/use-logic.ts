@@ -1,8 +1,9 @@
 'use client';
 /**
  * The Logic area's one hook over the workspace store: the sheet, its edits (each one undo step),
- * the selected block (the workspace's one shared selection), the sheet's problems and whether
- * the cell runs. Blocks and wires read their live values through `useLiveOutput`.
+ * the selected block (the workspace's one shared selection), the sheet's problems, whether
+ * the cell runs, and the cell's name and a whole-sheet replacement for the sheet files.
+ * Blocks and wires read their live values through `useLiveOutput`.
  */
 import { useCallback, useMemo } from 'react';
 import type { CellDocument, Problem } from '@/simulator';
@@ -19,6 +20,8 @@ export function useLogic() {
   const canEdit = useCanEdit();
   const running = useWorkspace((s) => s.engine.running);
   const selectedId = useWorkspace((s) => (s.selection?.kind === 'block' ? s.selection.id : null));
+  const cellName = useWorkspace((s) => s.document.name);
+  const replaceLogicSheet = useWorkspace((s) => s.replaceLogicSheet);
   const api = useWorkspaceApi();
   const { errors } = useAreaProblems('logic');
   // The canvas indexes problems by paths inside the sheet.
@@ -38,6 +41,8 @@ export function useLogic() {
       ),
     [editDocument],
   );
+  /** Replaces the whole sheet (an imported file) as one undo step. */
+  const replaceSheet = useCallback((next: Sheet, label: string) => replaceLogicSheet(next as DocSheet, label), [replaceLogicSheet]);
   const selectBlock = useCallback(
     (id: string | null) => {
       const { selection, select } = api.getState();
@@ -47,7 +52,7 @@ export function useLogic() {
     },
     [api],
   );
-  return { sheet, editSheet, canEdit, running, selectedId, selectBlock, problems };
+  return { sheet, editSheet, replaceSheet, cellName, canEdit, running, selectedId, selectBlock, problems };
 }
 
 /** The live value of one block output (undefined before the first snapshot). */

@@ -215,6 +215,11 @@ export type WorkspaceActions = {
    */
   downloadEdits(areas: readonly DownloadArea[]): DownloadEvent | null;
   /**
+   * Replaces the whole logic sheet (an imported file) as one undo step named `label`, through
+   * `editDocument` like any sheet edit; drops a block selection the new sheet does not have.
+   */
+  replaceLogicSheet(sheet: CellDocument['plc']['sheet'], label: string): void;
+  /**
    * Stages `rows` as the controller's next point map (one undo step named `label`): the document
    * keeps them for saving, the engine records them with `stage-point-map` (unless they clash, which
    * the engine would refuse), and the run keeps its map until `restartController`. Rows equal to

@@ -262,3 +262,74 @@ describe('workspace store: staging the point map and rebooting the controller', 
     expect(calls).toEqual(['send:discard-staged']);
   });
 });
+
+describe('workspace store: replacing the logic sheet (an imported file)', () => {
+  /** The demo sheet without its first block and that block's wires (what a shorter imported file holds). */
+  const shorter = (doc: ReturnType<typeof demoDocument>) => {
+    const sheet = structuredClone(doc.plc.sheet);
+    const gone = sheet.blocks[0].id;
+    sheet.blocks = sheet.blocks.slice(1);
+    sheet.connections = sheet.connections.filter((c) => c.from.block !== gone && c.to.block !== gone);
+    return { sheet, gone };
+  };
+
+  it('replaces the sheet as one named undo step that reloads the cell; undo and redo walk it', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore(init(), () => conn);
+    const original = store.getState().document.plc.sheet;
+    const { sheet } = shorter(store.getState().document);
+    calls.length = 0;
+    store.getState().replaceLogicSheet(sheet, 'Import sheet from cell-logic.xml');
+    const s = store.getState();
+    expect(s.document.plc.sheet).toEqual(sheet);
+    expect(s.document.plc.sheet).not.toBe(sheet); // the store keeps its own copy
+    expect(s.past.map((p) => p.label)).toEqual(['Import sheet from cell-logic.xml']);
+    expect(s.dirty).toBe(true);
+    expect(calls).toEqual(['load']);
+    // Nothing else in the document changed.
+    expect({ ...s.document, plc: { ...s.document.plc, sheet: null } }).toEqual({ ...s.savedDocument, plc: { ...s.savedDocument.plc, sheet: null } });
+    store.getState().undo();
+    expect(store.getState().document.plc.sheet).toEqual(original);
+    expect(store.getState().dirty).toBe(false);
+    store.getState().redo();
+    expect(store.getState().document.plc.sheet).toEqual(sheet);
+  });
+
+  it('an identical sheet adds no undo step', () => {
+    const store = createWorkspaceStore(init());
+    store.getState().replaceLogicSheet(structuredClone(store.getState().document.plc.sheet), 'Import');
+    expect(store.getState().past).toEqual([]);
+    expect(store.getState().dirty).toBe(false);
+  });
+
+  it('drops a selected block the new sheet lacks and keeps any other selection', () => {
+    const store = createWorkspaceStore(init());
+    const { sheet, gone } = shorter(store.getState().document);
+    store.getState().select({ kind: 'block', id: gone });
+    store.getState().replaceLogicSheet(sheet, 'Import');
+    expect(store.getState().selection).toBeNull();
+
+    store.getState().undo();
+    const kept = sheet.blocks[0].id;
+    store.getState().select({ kind: 'block', id: kept });
+    store.getState().replaceLogicSheet(sheet, 'Import');
+    expect(store.getState().selection).toEqual({ kind: 'block', id: kept });
+
+    store.getState().undo();
+    store.getState().select({ kind: 'address', id: '%IX0.0' });
+    store.getState().replaceLogicSheet(sheet, 'Import');
+    expect(store.getState().selection).toEqual({ kind: 'address', id: '%IX0.0' });
+  });
+
+  it('where edits wait for "Send to cell", the imported sheet waits too and goes as one download', () => {
+    const { conn, calls } = fakeEngine();
+    const store = createWorkspaceStore({ ...init(), editsWaitForDownload: true }, () => conn);
+    const { sheet } = shorter(store.getState().document);
+    calls.length = 0;
+    store.getState().replaceLogicSheet(sheet, 'Import');
+    expect(calls).toEqual([]);
+    const event = store.getState().downloadEdits(['logic']);
+    expect(event?.logic).toEqual(sheet);
+    expect(calls).toEqual(['send:download']);
+  });
+});

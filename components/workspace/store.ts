@@ -189,6 +189,14 @@ export function createWorkspaceStore(init: WorkspaceInit, engineFactory?: Engine
         get().sendEvent(event);
         return event;
       },
+      replaceLogicSheet(sheet, label) {
+        get().editDocument((d) => {
+          d.plc.sheet = structuredClone(sheet);
+        }, label);
+        // A selected block the new sheet no longer has would leave the details panel pointing at nothing.
+        const { selection } = get();
+        if (selection?.kind === 'block' && !sheet.blocks.some((b) => b.id === selection.id)) set({ selection: null });
+      },
       stagePointMap(rows, label) {
         const state = get();
         const unchanged = JSON.stringify(rows) === JSON.stringify(runningPointMap(state));
