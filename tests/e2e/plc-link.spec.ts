@@ -16,7 +16,7 @@ test('a trainer starts a PLC link, a Modbus client drives it, the page shows lin
   await signInAs(page, DEMO.trainer);
   await page.goto('/plc-link');
   await expect(page.getByTestId('plc-link-caution')).toBeVisible();
-  await page.getByLabel('Cell', { exact: true }).selectOption({ label: 'Kestrel Vale Cell B — pick and place' });
+  await page.getByRole('combobox', { name: 'Cell', exact: true }).selectOption({ label: 'Kestrel Vale Cell B — pick and place' });
   await page.getByLabel('Modbus TCP port').fill(String(PORT));
   await page.getByLabel('Link-loss timeout (ms)').fill('500');
   await page.getByRole('button', { name: 'Start PLC link' }).click();
