@@ -1,7 +1,7 @@
 /**
  * The engine's exchange calls as the Logic area uses them (docs/engine.md, "Logic exchange").
- * The area loads this module with `import()` when an export or import button is used, so the
- * exporters and the XML reader stay out of the workspace's first load.
+ * They run in ./sheet-exchange.worker.ts, started when an export or import button is used, so
+ * the exporters and the XML reader stay out of the workspace's bundles and off the main thread.
  */
 import { plcXmlToSheet, sheetToPlcXml, sheetToStructuredText } from '@/simulator';
 import { exchangeProblemRows, exportFileName, exportMediaType, sheetCounts, type ExchangeProblemRow, type ExportKind, type SheetCounts } from './exchange-flow';
@@ -29,3 +29,11 @@ export function importSheet(xml: string): ImportOutcome {
   if (!result.ok) return { ok: false, problems: exchangeProblemRows(result.errors) };
   return { ok: true, sheet: result.value, counts: sheetCounts(result.value) };
 }
+
+/** What the Logic area asks the worker. */
+export type ExchangeRequest =
+  | { op: 'export'; sheet: Sheet; cellName: string; kind: ExportKind; /** ISO 8601 export time. */ now: string }
+  | { op: 'import'; xml: string };
+
+/** The worker's answer to one request. */
+export type ExchangeReply = { op: 'export'; outcome: ExportOutcome } | { op: 'import'; outcome: ImportOutcome };

@@ -5,7 +5,8 @@
  *
  * `useSheetFiles` holds the flow; `SheetFilesControls` sit in the area's toolbar and
  * `SheetFilesPanel` below it (the problem list, the confirmation, what happened). The engine's
- * exchange code is loaded with `import()` on the first click (./sheet-exchange.ts).
+ * exchange code runs in a worker started on each click (./sheet-exchange.worker.ts), so it
+ * adds nothing to the workspace's bundles and a big file does not freeze the page.
  * An import is read and checked in full before anything changes: a file with problems lists
  * them (focus moves to the list) and leaves the sheet as it is; a good one asks first, naming
  * both sheets' blocks and wires, then replaces the sheet through `onReplace` (one undo step).
@@ -15,6 +16,7 @@ import { AlertTriangle, FileCode2, FileDown, FileUp, X } from 'lucide-react';
 import { cn } from '@/components/ui/cn';
 import { countsText, importFileRefusal, replaceQuestion, sheetCounts, type ExchangeProblemRow, type ExportKind } from './exchange-flow';
 import type { Sheet } from './sheet-graph';
+import type { ExchangeReply, ExchangeRequest, ExportOutcome, ImportOutcome } from './sheet-exchange';
 
 type Panel =
   | { kind: 'idle' }
@@ -49,9 +51,28 @@ function saveText(text: string, fileName: string, mediaType: string) {
   window.setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
 
-const loadFailed = (e: unknown): ExchangeProblemRow[] => [
-  { where: 'this page', message: `The exchange code did not load (${e instanceof Error ? e.message : String(e)}). Check the connection and reload the page.`, code: 'load_failed' },
+const workerFailed = (message: string): ExchangeProblemRow[] => [
+  { where: 'this page', message: `The file work stopped (${message}). Reload the page and try again.`, code: 'worker_failed' },
 ];
+
+/**
+ * Runs one request in a fresh exchange worker and stops it after the answer. Type-only imports
+ * from ./sheet-exchange keep the engine's exchange code in the worker's bundle alone.
+ */
+function inWorker<R extends ExchangeRequest>(request: R): Promise<R extends { op: 'export' } ? ExportOutcome : ImportOutcome> {
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(new URL('./sheet-exchange.worker.ts', import.meta.url), { type: 'module' });
+    worker.addEventListener('message', (e: MessageEvent<ExchangeReply>) => {
+      worker.terminate();
+      resolve(e.data.outcome as R extends { op: 'export' } ? ExportOutcome : ImportOutcome);
+    });
+    worker.addEventListener('error', (e) => {
+      worker.terminate();
+      reject(new Error(e.message || 'the worker failed'));
+    });
+    worker.postMessage(request);
+  });
+}
 
 export function useSheetFiles({ sheet, cellName, canImport, onReplace }: SheetFilesOptions) {
   const [panel, setPanel] = useState<Panel>({ kind: 'idle' });
@@ -66,14 +87,13 @@ export function useSheetFiles({ sheet, cellName, canImport, onReplace }: SheetFi
   const exportAs = useCallback(
     async (kind: ExportKind) => {
       setPanel({ kind: 'busy', message: `Preparing the ${EXPORT_NAMES[kind]} file…` });
-      let exchange: typeof import('./sheet-exchange');
+      let out: ExportOutcome;
       try {
-        exchange = await import('./sheet-exchange');
+        out = await inWorker({ op: 'export', sheet: sheetRef.current, cellName, kind, now: new Date().toISOString() });
       } catch (e) {
-        setPanel({ kind: 'problems', title: 'Not exported', intro: 'Nothing was downloaded.', rows: loadFailed(e) });
+        setPanel({ kind: 'problems', title: 'Not exported', intro: 'Nothing was downloaded.', rows: workerFailed(e instanceof Error ? e.message : String(e)) });
         return;
       }
-      const out = exchange.exportSheet(sheetRef.current, cellName, kind, new Date());
       if (!out.ok) {
         const n = out.problems.length;
         setPanel({
@@ -102,15 +122,13 @@ export function useSheetFiles({ sheet, cellName, canImport, onReplace }: SheetFi
         return;
       }
       setPanel({ kind: 'busy', message: `Reading ${file.name}…` });
-      let exchange: typeof import('./sheet-exchange');
-      let text: string;
+      let read: ImportOutcome;
       try {
-        [exchange, text] = await Promise.all([import('./sheet-exchange'), file.text()]);
+        read = await inWorker({ op: 'import', xml: await file.text() });
       } catch (err) {
-        setPanel({ kind: 'problems', title: 'Not imported', intro: 'The current sheet is unchanged.', rows: loadFailed(err) });
+        setPanel({ kind: 'problems', title: 'Not imported', intro: 'The current sheet is unchanged.', rows: workerFailed(err instanceof Error ? err.message : String(err)) });
         return;
       }
-      const read = exchange.importSheet(text);
       if (!read.ok) {
         const n = read.problems.length;
         setPanel({
