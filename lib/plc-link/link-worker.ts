@@ -69,13 +69,20 @@ function start(): void {
   const recent: number[] = [];
   const writeTimes: number[] = [];
   let lost = false;
-  // The PLC's own last written value per output, so a recovered link shows what it writes next.
+  // modbus-serial calls the vector once per address: a request for 16 inputs is 16 calls, all
+  // in the same turn of the event loop. A request is counted once, at its first call.
+  let inRequest = false;
   const seen = () => {
     const at = performance.now();
-    requests++;
     lastRequestAt = at;
-    recent.push(at);
     if (lost) lost = false;
+    if (inRequest) return;
+    inRequest = true;
+    queueMicrotask(() => {
+      inRequest = false;
+    });
+    requests++;
+    recent.push(at);
   };
   const wrote = () => {
     const at = performance.now();

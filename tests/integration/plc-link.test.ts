@@ -160,6 +160,12 @@ describe('PLC link', () => {
     expect(v.health!.updatePeriodMs).not.toBeNull();
     expect(v.snapshot!.controller.cyclesCompleted).toBe(1);
     expect(v.snapshot!.plc.addresses['%QX0.3']).toMatchObject({ value: 1 });
+
+    // Health counts Modbus requests, not the addresses they name: five reads of 16 inputs are five.
+    for (let i = 0; i < 5; i++) await client.readDiscreteInputs(0, 16);
+    await sleep(300);
+    const after = await view(session.id);
+    expect(after.health!.requests - v.health!.requests).toBe(5);
   });
 
   it('a silent PLC is a lost link after the timeout: the coils drop and the session says so; requests recover it', { timeout: 15_000 }, async () => {
