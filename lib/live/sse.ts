@@ -1,9 +1,10 @@
 import 'server-only';
 
 /**
- * A Server-Sent Events response (the job stream's shape, lib/jobs/stream.ts): `retry: 3000`,
- * a keep-alive comment every 20 s, a re-check of the reader's right every minute, and the
- * cleanup run once whether the browser leaves or the server ends the stream.
+ * A Server-Sent Events response, the one shape for every stream (the live board's, a student's
+ * messages, the job queue's in lib/jobs/stream.ts): `retry: 3000`, a keep-alive comment every
+ * 20 s, a re-check of the reader's right every minute, and the cleanup run once whether the
+ * browser leaves or the server ends the stream. Each kind of stream counts its own open streams.
  */
 
 const HEARTBEAT_MS = 20_000;
@@ -16,28 +17,42 @@ export interface SseChannel {
   readonly closed: boolean;
 }
 
-/** Streams open in this process (tests and diagnostics). */
-const g = globalThis as unknown as { cellwrightLiveStreams?: { open: number } };
-const counter = () => (g.cellwrightLiveStreams ??= { open: 0 });
+/** How many streams of one kind are open in this process. */
+export interface StreamCounter {
+  open: number;
+}
+
+/** Streams one app process keeps open at once, per kind; past it a new stream is refused with 503. */
+export const MAX_STREAMS = 2000;
+
+/** The open-stream count of one kind, kept on globalThis so a reloaded module keeps counting. */
+export function streamCounter(kind: string): () => StreamCounter {
+  const g = globalThis as unknown as { cellwrightStreams?: Record<string, StreamCounter> };
+  return () => ((g.cellwrightStreams ??= {})[kind] ??= { open: 0 });
+}
+
+/** Live-board and message streams open in this process (tests and diagnostics). */
+const counter = streamCounter('live');
 export const openLiveStreams = () => counter().open;
-export const liveStreamCapacity = () => counter().open < 2000;
+export const liveStreamCapacity = () => counter().open < MAX_STREAMS;
 
 export function sseResponse(
   req: Request,
   start: (ch: SseChannel) => Promise<(() => void) | void>,
   stillAllowed: () => Promise<boolean>,
+  streams: () => StreamCounter = counter,
 ): Response {
   let cleanup: (() => void) | null = null;
   const stream = new ReadableStream<Uint8Array>({
     async start(controller) {
-      counter().open += 1;
+      streams().open += 1;
       let closed = false;
       const timers: NodeJS.Timeout[] = [];
       let stop: (() => void) | void;
       const close = () => {
         if (closed) return;
         closed = true;
-        counter().open -= 1;
+        streams().open -= 1;
         for (const t of timers) clearInterval(t);
         stop?.();
         req.signal.removeEventListener('abort', close);
