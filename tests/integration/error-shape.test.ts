@@ -26,6 +26,7 @@ import { getVersion } from '@/db/cells';
 import type { User } from '@/db/users';
 import { BASE, demoUser, otherTrainerWithCohort, sessionCookie } from './helpers';
 import { drillWorld } from './drills-fixtures';
+import { streamCounter } from '@/lib/live/sse';
 
 type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
@@ -247,15 +248,16 @@ describe('429 and 503: not now, with Retry-After', () => {
 
   it('503 when the server holds as many progress streams as it may', async () => {
     const w = await drillWorld(trainer, 0);
-    const g = globalThis as unknown as { cellwrightJobStreams?: { open: number } };
-    const before = g.cellwrightJobStreams?.open ?? 0;
-    g.cellwrightJobStreams = { open: 1_000_000 };
+    // The job streams' count (lib/live/sse.ts streamCounter('jobs')), as if the process were full.
+    const streams = streamCounter('jobs')();
+    const before = streams.open;
+    streams.open = 1_000_000;
     try {
       const res = await send(jobStream.GET, `/api/jobs/stream?subject=drill:${w.drill.id}`, { cookie: trainerCookie });
       expect(res.headers.get('retry-after')).toBe('5');
       await expectShape(res, 503);
     } finally {
-      g.cellwrightJobStreams = { open: before };
+      streams.open = before;
     }
   });
 });
