@@ -214,7 +214,7 @@ export {
  * (added / removed / changed / moved / reordered), target, id, document path, detail line and
  * field changes, plus a `summary` of counts per area for a signed record.
  * `ioChangeSheet(diff, base, proposed)` → `{ rows, csv }`: what electricians re-terminate,
- * CSV cells neutralised against formula injection (`neutraliseCsvCell`).
+ * CSV cells neutralised against formula injection.
  * The headless `diff` command is `diffCommand` (simulator/diff/cli.ts; the runner in scripts/cell-cli
  * passes it the file system and the streams).
  */
@@ -225,15 +225,10 @@ export type {
   DiffTarget,
   DiffEntry,
   DiffSummary,
-  AreaCounts,
-  FieldChange,
-  WireEndChange,
   RoleBinding,
-  IoChangeAction,
-  IoChangeRow,
   IoChangeSheet,
 } from './diff';
-export { diffCells, ioChangeSheet, ioChangeCsv, neutraliseCsvCell, IO_CHANGE_COLUMNS, DIFF_AREAS, DIFF_KINDS, DIFF_FORMAT_VERSION } from './diff';
+export { diffCells, ioChangeSheet, DIFF_AREAS } from './diff';
 export { diffCommand } from './diff/cli';
 // ---- end diff
 
@@ -253,22 +248,8 @@ export { diffCommand } from './diff/cli';
  * `proveCommand` (simulator/prove/cli.ts; the runner in scripts/cell-cli passes it the file
  * system and the streams).
  */
-export type { RuleCondition, InterlockRule, InterlockRuleInput, SignalLabels, EncodingNote, ProveOptions, Counterexample, Verdict } from './prove';
-export {
-  ruleConditionSchema,
-  interlockRuleSchema,
-  interlockRulesSchema,
-  describeRule,
-  describeCondition,
-  ruleAddresses,
-  signalLabels,
-  MAX_CONDITION_DEPTH,
-  MAX_WITHIN_SCANS,
-  proveRules,
-  PROVE_DEFAULTS,
-  counterexampleEvents,
-  counterexampleFailsAtMs,
-} from './prove';
+export type { RuleCondition, InterlockRule, InterlockRuleInput, SignalLabels, Counterexample, Verdict } from './prove';
+export { interlockRuleSchema, describeRule, ruleAddresses, signalLabels, proveRules, counterexampleEvents, counterexampleFailsAtMs } from './prove';
 export { proveCommand } from './prove/cli';
 // ---- end proofs
 
@@ -286,11 +267,10 @@ export { proveCommand } from './prove/cli';
  * - `plcXmlToSheet(xml, { programName?, defaultScanPeriodMs?, limits? })` → `Result<LogicSheet>`:
  *   the sheet back, validated, or every problem with a path into the document
  *   (`['project', 'types', 'pous', 'pou', <name>, 'body', 'FBD', 'block', <localId>, …]`).
- *   Guarded: size, tag, depth, element and connection caps (`PLC_XML_LIMITS`), no DOCTYPE,
+ *   Guarded: size, tag, depth, element and connection caps (simulator/exchange), no DOCTYPE,
  *   no entity expansion. Our own exports round-trip exactly (every block, parameter, label,
  *   position and wire).
  * Both exporters fail with the sheet's own problems when the sheet does not validate.
  */
-export type { StructuredTextOptions, PlcXmlExportOptions, PlcXmlImportOptions, PlcXmlLimits } from './exchange';
-export { sheetToStructuredText, sheetToPlcXml, plcXmlToSheet, PLC_XML_LIMITS, IEC_61131_10_NS, CELLWRIGHT_NS } from './exchange';
+export { sheetToStructuredText, sheetToPlcXml, plcXmlToSheet, IEC_61131_10_NS } from './exchange';
 // ---- end logic exchange
