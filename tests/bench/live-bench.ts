@@ -9,6 +9,7 @@
  * every sample crosses processes through LISTEN/NOTIFY, as behind a load balancer.
  */
 import { benchDatabaseUrl, benchStudents, reachableBase, signIn } from './bench-support';
+import { readSseFrames } from '../sse-frames';
 
 type Figures = Record<string, number>;
 
@@ -59,32 +60,16 @@ export async function liveBench(): Promise<Figures> {
     if (res.status !== 200 || !res.body) throw new Error(`the board stream answered ${res.status}`);
     let boardReady!: () => void;
     const ready = new Promise<void>((r) => (boardReady = r));
-    void (async () => {
-      const reader = res.body!.getReader();
-      const decoder = new TextDecoder();
-      let buffer = '';
-      for (;;) {
-        const { value, done } = await reader.read().catch(() => ({ value: undefined, done: true }));
-        if (done) return;
-        buffer += decoder.decode(value, { stream: true });
-        let i: number;
-        while ((i = buffer.indexOf('\n\n')) >= 0) {
-          const chunk = buffer.slice(0, i);
-          buffer = buffer.slice(i + 2);
-          const event = /^event: (.*)$/m.exec(chunk)?.[1];
-          const data = /^data: (.*)$/m.exec(chunk)?.[1];
-          if (event === 'board') boardReady();
-          if (event === 'tile' && data) {
-            // A tile at seq L shows every batch up to L (one fold may take two batches that came close together).
-            const t = JSON.parse(data) as { runId: string | null; lastSeq: number };
-            if (!t.runId) continue;
-            const now = performance.now();
-            for (let q = (maxSeen.get(t.runId) ?? 0) + 1; q <= t.lastSeq; q++) seen.set(`${t.runId}:${q}`, now);
-            maxSeen.set(t.runId, Math.max(maxSeen.get(t.runId) ?? 0, t.lastSeq));
-          }
-        }
-      }
-    })();
+    void readSseFrames(res.body, (event, data) => {
+      if (event === 'board') boardReady();
+      if (event !== 'tile' || !data) return;
+      // A tile at seq L shows every batch up to L (one fold may take two batches that came close together).
+      const t = JSON.parse(data) as { runId: string | null; lastSeq: number };
+      if (!t.runId) return;
+      const now = performance.now();
+      for (let q = (maxSeen.get(t.runId) ?? 0) + 1; q <= t.lastSeq; q++) seen.set(`${t.runId}:${q}`, now);
+      maxSeen.set(t.runId, Math.max(maxSeen.get(t.runId) ?? 0, t.lastSeq));
+    });
     await ready;
 
     // Seeded offsets (a small LCG, so two runs of the bench send the same pattern).

@@ -21,6 +21,7 @@ import type { Board, BoardTile, StudentMessage } from '@/lib/live/types';
 import type { Findings as FindingsShape } from '@/lib/live/findings';
 import { BASE, call, demoUser, makeUser, sessionCookie } from './helpers';
 import { drillWorld, type DrillWorld } from './drills-fixtures';
+import { readSseFrames } from '../sse-frames';
 
 type Ctx = { params: Promise<Record<string, string>> };
 type Handler = (req: Request, ctx: Ctx) => Promise<Response>;
@@ -30,25 +31,10 @@ async function openStream(handler: unknown, path: string, id: string, cookie: st
   const abort = new AbortController();
   const res = await (handler as Handler)(new Request(`${BASE}${path}`, { headers: { cookie }, signal: abort.signal }), { params: Promise.resolve({ id }) });
   expect(res.status).toBe(200);
-  const reader = res.body!.getReader();
-  const decoder = new TextDecoder();
-  let buffer = '';
   const frames: { event: string; data: unknown }[] = [];
-  const pump = (async () => {
-    for (;;) {
-      const { value, done } = await reader.read().catch(() => ({ value: undefined, done: true }));
-      if (done) return;
-      buffer += decoder.decode(value, { stream: true });
-      let i: number;
-      while ((i = buffer.indexOf('\n\n')) >= 0) {
-        const chunk = buffer.slice(0, i);
-        buffer = buffer.slice(i + 2);
-        const event = /^event: (.*)$/m.exec(chunk)?.[1];
-        const data = /^data: (.*)$/m.exec(chunk)?.[1];
-        if (event && data) frames.push({ event, data: JSON.parse(data) });
-      }
-    }
-  })();
+  const pump = readSseFrames(res.body!, (event, data) => {
+    if (data) frames.push({ event, data: JSON.parse(data) });
+  });
   return {
     frames,
     async waitFor(pred: (f: { event: string; data: unknown }) => boolean, ms = 5000) {
@@ -61,7 +47,7 @@ async function openStream(handler: unknown, path: string, id: string, cookie: st
       }
     },
     async close() {
-      await reader.cancel().catch(() => undefined);
+      // The handler ends its stream when the request is aborted (lib/live/sse.ts), which ends the pump.
       abort.abort();
       await pump;
     },

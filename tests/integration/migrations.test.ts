@@ -1,9 +1,7 @@
 /** Every migration goes up and comes down cleanly, in a scratch schema of the test database. */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import knexFactory from 'knex';
 import type { Knex } from 'knex';
-import { knexConfig } from '@/db/config';
-import { TEST_ENV } from './test-env';
+import { closeScratchSchema, openScratchSchema } from './scratch-schema';
 
 const SCHEMA = 'migration_check';
 const TABLES = ['users', 'cohorts', 'memberships', 'invitations', 'password_resets', 'sign_in_failures', 'audit_log', 'mail_messages', 'seed_markers'];
@@ -15,18 +13,10 @@ async function tablesInSchema(): Promise<string[]> {
 }
 
 beforeAll(async () => {
-  const admin = knexFactory(knexConfig(TEST_ENV.DATABASE_URL));
-  await admin.raw(`drop schema if exists ${SCHEMA} cascade`);
-  await admin.raw(`create schema ${SCHEMA}`);
-  await admin.destroy();
-  const base = knexConfig(TEST_ENV.DATABASE_URL);
-  knex = knexFactory({ ...base, searchPath: [SCHEMA], migrations: { ...base.migrations, schemaName: SCHEMA } });
+  knex = await openScratchSchema(SCHEMA);
 });
 
-afterAll(async () => {
-  await knex.raw(`drop schema if exists ${SCHEMA} cascade`);
-  await knex.destroy();
-});
+afterAll(() => closeScratchSchema(knex, SCHEMA));
 
 describe('migrations', () => {
   it('go all the way up', async () => {

@@ -8,7 +8,6 @@
  */
 import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import knexFactory from 'knex';
 import type { Knex } from 'knex';
 import { GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { PDFDict, PDFDocument, PDFName } from 'pdf-lib';
@@ -20,7 +19,6 @@ import * as report from '@/app/api/changeovers/[id]/report/route';
 import * as archive from '@/app/api/runs/[id]/archive/route';
 import * as archiveOne from '@/app/api/runs/[id]/archive/[archiveId]/route';
 import { closeDb, db } from '@/db/knex';
-import { knexConfig } from '@/db/config';
 import { getVersion } from '@/db/cells';
 import { createRun, insertBatch } from '@/db/runs';
 import type { User } from '@/db/users';
@@ -31,6 +29,7 @@ import { closeObjectStore } from '@/lib/storage/object-store';
 import type { SignedRecord } from '@/lib/changeovers/types';
 import { BASE, call, demoUser, makeUser, sessionCookie } from './helpers';
 import { TEST_ENV } from './test-env';
+import { closeScratchSchema, openScratchSchema } from './scratch-schema';
 import { drillWorld, expectNoSecrets, HIDDEN_FAULTS, type DrillWorld } from './drills-fixtures';
 import { ROBOT_GUARD_BOTH_DOORS, YELLOW_ON_OPEN_GUARD, acceptViolations, draftingChangeover, pinAndProve } from './changeovers-fixtures';
 
@@ -133,18 +132,10 @@ describe('the migration that moved images out of PostgreSQL', () => {
   let knex: Knex;
 
   beforeAll(async () => {
-    const admin = knexFactory(knexConfig(TEST_ENV.DATABASE_URL));
-    await admin.raw(`drop schema if exists ${SCHEMA} cascade`);
-    await admin.raw(`create schema ${SCHEMA}`);
-    await admin.destroy();
-    const base = knexConfig(TEST_ENV.DATABASE_URL);
-    knex = knexFactory({ ...base, searchPath: [SCHEMA], migrations: { ...base.migrations, schemaName: SCHEMA } });
+    knex = await openScratchSchema(SCHEMA);
   });
 
-  afterAll(async () => {
-    await knex.raw(`drop schema if exists ${SCHEMA} cascade`);
-    await knex.destroy();
-  });
+  afterAll(() => closeScratchSchema(knex, SCHEMA));
 
   it('moves bytea images to the bucket, comes back down with the same bytes, and runs again', async () => {
     await knex.migrate.latest();
