@@ -5,7 +5,7 @@ import { useState } from 'react';
 import { RefreshCw } from 'lucide-react';
 import { fetchJson } from '@/lib/api/client';
 import { Button } from '@/components/ui/button';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import { cn } from '@/components/ui/cn';
 

@@ -11,7 +11,7 @@ import type { Role } from '@/lib/roles';
 import type { USER_SORTS } from '@/lib/schemas/admin';
 import type { User as UserRow } from '@/lib/users/types';
 import { Button } from '@/components/ui/button';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 
 interface UsersPage {

@@ -8,7 +8,7 @@ import { Copy, Download, FileSpreadsheet, FolderOpen, Pencil, Play, Plus, Share2
 import { fetchJson } from '@/lib/api/client';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import { CreateCellDialog, DeleteCellDialog, RenameCellDialog } from './cell-dialogs';
 import { CsvImportDialog } from './csv-import-dialog';

@@ -7,7 +7,7 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Button } from '@/components/ui/button';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { fetchJson } from '@/lib/api/client';
 import { acceptanceSchema } from '@/lib/schemas/evidence';
 import type { AcceptanceInfo } from '@/lib/changeovers/evidence';

@@ -16,7 +16,7 @@ import type { Changeover, ChangeoverAbilities, CountersignerCandidate } from '@/
 import { signBlockers } from '@/lib/changeovers/sign-rules';
 import { ROLE_LABELS } from '@/lib/roles';
 import { Button } from '@/components/ui/button';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import { Dialog } from '@/components/cells/dialog';
 import { DownloadButton } from '@/components/files/download-button';

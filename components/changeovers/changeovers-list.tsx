@@ -8,7 +8,7 @@ import { ArrowDown, ArrowUp, Plus } from 'lucide-react';
 import { fetchJson } from '@/lib/api/client';
 import type { Changeover } from '@/lib/changeovers/types';
 import { Button } from '@/components/ui/button';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import { OpenChangeoverDialog, type OwnCell } from './open-changeover-dialog';
 import { STATE_LABELS, StateBadge, displayState } from './state-badge';

@@ -12,7 +12,7 @@ import { CheckCircle2, CircleAlert, Pencil, Play, Trash2 } from 'lucide-react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { cn } from '@/components/ui/cn';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { formatCellTime } from '@/components/workspace/format';
 import { fetchJson } from '@/lib/api/client';
 import { TraceRuleFields, useTraceSentence } from '@/components/rules/trace-rule-fields';

@@ -1,7 +1,7 @@
 import Link from 'next/link';
 import type { Changeover } from '@/lib/changeovers/types';
 import { Card } from '@/components/ui/card';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { StateBadge } from './state-badge';
 
 /** A lead's or trainer's changeovers on their dashboard: the open ones first, then the latest closed. */

@@ -1,6 +1,7 @@
 import type { CellDiff, DiffArea, DiffEntry } from '@/simulator';
 import { DIFF_AREAS } from '@/simulator';
-import { AREA_TITLES, sideLines, targetLabel } from './diff-format';
+import { AREA_TITLES } from '@/lib/changeovers/record-text';
+import { sideLines, targetLabel } from './diff-format';
 import { KindBadge } from './diff-kind-icon';
 
 /** Counts per area: a row of chips that jump to each area's section. */

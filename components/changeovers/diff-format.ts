@@ -4,19 +4,7 @@
  * its tests share it. The engine words each entry's one-line `detail` itself; this adds the
  * side-by-side cells.
  */
-import type { DiffArea, DiffEntry, DiffKind, DiffTarget, RoleBinding } from '@/simulator';
-
-/** Area headings, in the order of the engine's DIFF_AREAS. */
-export const AREA_TITLES: Record<DiffArea, string> = {
-  cell: 'Cell settings',
-  devices: 'Panel and field devices',
-  modules: 'Modules',
-  wiring: 'Wiring (terminal strip)',
-  pointMap: 'Controller point map',
-  logic: 'Logic sheet',
-  routine: 'Robot routine',
-  handshake: 'Handshake roles',
-};
+import type { DiffEntry, DiffKind, DiffTarget, RoleBinding } from '@/simulator';
 
 /** Each kind in words (shown with an icon, never by colour alone). Wiring changes read as re-terminations. */
 export function kindLabel(entry: Pick<DiffEntry, 'kind' | 'target' | 'ends'>): string {

@@ -1,5 +1,5 @@
 import type { ChangeoverEvent } from '@/lib/changeovers/types';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 
 const num = (v: unknown) => (typeof v === 'number' ? `v${v}` : '?');
 

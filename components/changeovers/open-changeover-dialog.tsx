@@ -10,7 +10,7 @@ import type { Changeover } from '@/lib/changeovers/types';
 import { openChangeoverSchema, type OpenChangeoverInput } from '@/lib/schemas/changeovers';
 import { Button } from '@/components/ui/button';
 import { TextAreaField, TextField } from '@/components/ui/field';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import { applyServerErrors } from '@/components/ui/use-server-field-errors';
 import { Dialog } from '@/components/cells/dialog';

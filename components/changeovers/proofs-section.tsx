@@ -12,7 +12,7 @@ import { CheckCircle2, CircleHelp, CircleSlash, Pencil, Play, Plus, Trash2, XCir
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { cn } from '@/components/ui/cn';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { ApiClientError, fetchJson } from '@/lib/api/client';
 import { InterlockRuleForm } from '@/components/rules/interlock-rule-form';
 import { toInterlockForm, type InterlockBody } from '@/components/rules/interlock-form-model';

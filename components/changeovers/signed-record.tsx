@@ -1,11 +1,10 @@
 import './record.css';
 import { DIFF_AREAS, type DiffSummary } from '@/simulator';
-import { changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
+import { AREA_TITLES, changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
 import type { Changeover, SignedRecord } from '@/lib/changeovers/types';
 import { ROLE_LABELS } from '@/lib/roles';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { ChangeoverCaution } from './changeover-caution';
-import { AREA_TITLES } from './diff-format';
 
 function Acceptance({ a }: { a: { reason: string; by: { name: string }; at: string } | null }) {
   if (!a) return null;

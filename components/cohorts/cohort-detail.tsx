@@ -12,7 +12,7 @@ import type { InviteResult } from '@/lib/schemas/cohorts';
 import { Button } from '@/components/ui/button';
 import { Card, PageHeader } from '@/components/ui/card';
 import { TextAreaField } from '@/components/ui/field';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { Notice } from '@/components/ui/notice';
 import type { CohortDetail as CohortDetailDto } from '@/lib/cohorts/types';
 import { ListTable } from '@/components/ui/list-table';

@@ -4,7 +4,7 @@ import { RefreshCcw } from 'lucide-react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { ListTable } from '@/components/ui/list-table';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { JobProgress } from '@/components/jobs/job-progress';
 import { useJobStream } from '@/components/jobs/use-job-stream';
 import { ApiClientError, fetchJson } from '@/lib/api/client';

@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { cn } from '@/components/ui/cn';
 import { assignmentState } from '@/lib/drills/access';
 import { listAssignmentsForStudent } from '@/db/drills';

@@ -1,3 +1,4 @@
+import type { DiffArea } from '@/simulator';
 import type { CheckEvidence, ProofEvidence, VerdictSummary } from './evidence';
 import type { OutcomeChange, ScenarioOutcome } from './scenario-check';
 
@@ -5,6 +6,18 @@ import type { OutcomeChange, ScenarioOutcome } from './scenario-check';
  * The signed record's evidence in words, one way for the record page
  * (components/changeovers/signed-record.tsx) and the printed report (lib/reports/changeover-report.ts).
  */
+
+/** Each diff area's title, in the order of the engine's DIFF_AREAS: the changeover page, the record and the printed report. */
+export const AREA_TITLES: Record<DiffArea, string> = {
+  cell: 'Cell settings',
+  devices: 'Panel and field devices',
+  modules: 'Modules',
+  wiring: 'Wiring (terminal strip)',
+  pointMap: 'Controller point map',
+  logic: 'Logic sheet',
+  routine: 'Robot routine',
+  handshake: 'Handshake roles',
+};
 
 /** The evidence part of a signed record, as sign-off wrote it. */
 export type RecordEvidence = { ranOn: { baseVersion: number; proposedVersion: number } | null; proofs: ProofEvidence[]; checks: CheckEvidence[] };

@@ -1,9 +1,8 @@
 import { DIFF_AREAS, type DiffSummary } from '@/simulator';
-import { changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
+import { AREA_TITLES, changeText, outcomeText, verdictText, type RecordEvidence } from '@/lib/changeovers/record-text';
 import type { SignedRecord } from '@/lib/changeovers/types';
 import { ROLE_LABELS } from '@/lib/roles';
-import { AREA_TITLES } from '@/components/changeovers/diff-format';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { CHANGEOVER_CAUTION_LINES, SAFETY_CAUTION_TEXT } from '@/lib/cautions';
 import { createPdfWriter } from './pdf-writer';
 

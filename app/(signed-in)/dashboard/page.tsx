@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { Card, PageHeader } from '@/components/ui/card';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { SafetyCaution } from '@/components/ui/safety-caution';
 import { requirePageUser } from '@/lib/auth/session';
 import { ROLE_LABELS } from '@/lib/roles';

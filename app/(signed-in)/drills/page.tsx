@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { Plus } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { MyDrillsTable } from '@/components/drills/my-drills';
 import { requirePageUser } from '@/lib/auth/session';
 import { assignmentState } from '@/lib/drills/access';

@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { formatCellTime } from '@/components/workspace/format';
 import { requirePageUser } from '@/lib/auth/session';
 import { listDrillRunsOfUser, pagePracticeRunsOfUser, type Run } from '@/db/runs';

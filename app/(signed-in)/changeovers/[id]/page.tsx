@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { Braces, FileSpreadsheet, FileText } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { ChangeoverCaution } from '@/components/changeovers/changeover-caution';
 import { ChangeoverHistory } from '@/components/changeovers/history';
 import { ChangeoverPanel } from '@/components/changeovers/changeover-panel';

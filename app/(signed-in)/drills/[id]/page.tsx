@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { Eye } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Refused } from '@/components/ui/refused';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { DrillEditor } from '@/components/drills/drill-editor';
 import { AssignForm } from '@/components/drills/assign-form';
 import { DrillRegrade } from '@/components/drills/drill-regrade';

@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { PlayCircle } from 'lucide-react';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
-import { formatDateTime } from '@/components/ui/format';
+import { formatDateTime } from '@/lib/format';
 import { GradeBreakdown } from '@/components/runs/grade-breakdown';
 import { formatCellTime, humanise } from '@/components/workspace/format';
 import type { RunInfo } from '@/components/runs/types';
